@@ -1,0 +1,111 @@
+/*
+ * fr_internal.h - shared pieces of the engine: prepared curves, free-space
+ * intervals, scratch memory and interrupt polling.  Not part of the API.
+ */
+#ifndef FR_INTERNAL_H
+#define FR_INTERNAL_H
+
+#include <math.h>
+
+#include "frechet.h"
+
+/* A vertex in the local frame; 2-D curves carry z = 0, which is exact. */
+typedef struct fr_pt
+{
+	double		x,
+				y,
+				z;
+} fr_pt;
+
+/* A segment from vertex k to k+1: unit direction and length (len 0: a point). */
+typedef struct fr_seg
+{
+	double		ux,
+				uy,
+				uz,
+				len;
+} fr_seg;
+
+/* A curve shifted to a local origin, with its segments precomputed. */
+typedef struct fr_prep
+{
+	fr_pt	   *v;				/* n vertices */
+	fr_seg	   *s;				/* n - 1 segments (NULL when n == 1) */
+	size_t		n;
+} fr_prep;
+
+/* Marker for an empty reachable interval: any value above 1 works. */
+#define FR_EMPTY 2.0
+
+/* Work counter that polls the interrupt callback every FR_INTERRUPT_CELLS units. */
+typedef struct fr_poll
+{
+	const fr_env *env;
+	size_t		budget;
+} fr_poll;
+
+void	   *fr_alloc(const fr_env *env, size_t size);
+void		fr_free(const fr_env *env, void *ptr);
+
+/* Adds work units; returns nonzero when the caller must stop (FR_EINTR). */
+static inline int
+fr_poll_add(fr_poll *poll, size_t units)
+{
+	if (poll->budget > units)
+	{
+		poll->budget -= units;
+		return 0;
+	}
+	/* carry the overshoot, so polls come at least every FR_INTERRUPT_CELLS units */
+	poll->budget = FR_INTERRUPT_CELLS - (units - poll->budget) % FR_INTERRUPT_CELLS;
+	if (poll->env->interrupted == NULL)
+		return 0;
+	return poll->env->interrupted(poll->env->arg) != 0;
+}
+
+static inline void
+fr_poll_init(fr_poll *poll, const fr_env *env)
+{
+	poll->env = env;
+	poll->budget = FR_INTERRUPT_CELLS;
+}
+
+/*
+ * Prepares both curves in one local frame: the origin is chosen per axis so
+ * that subtracting it is exact (Sterbenz) or, where it is not, left at 0.
+ */
+fr_status	fr_prepare_pair(const fr_env *env, const fr_curve *p, const fr_curve *q,
+							fr_prep *pp, fr_prep *pq);
+void		fr_release_pair(const fr_env *env, fr_prep *pp, fr_prep *pq);
+
+/* Euclidean distance between two vertices. */
+static inline double
+fr_pt_dist(const fr_pt *a, const fr_pt *b)
+{
+	double		dx = a->x - b->x,
+				dy = a->y - b->y,
+				dz = a->z - b->z;
+
+	return sqrt(dx * dx + dy * dy + dz * dz);
+}
+
+/* Distance from vertex p to the segment starting at a with geometry s. */
+double		fr_point_segment_dist(const fr_pt *p, const fr_pt *a, const fr_seg *s,
+								  const fr_pt *b);
+
+/*
+ * The free interval {t in [0,1] : |a + t(b-a) - p| <= eps}.  Sets *lo, *hi;
+ * the interval is empty when *lo > *hi.  lo == 0 exactly iff |a-p| <= eps,
+ * hi == 1 exactly iff |b-p| <= eps.
+ */
+void		fr_free_interval(const fr_pt *p, const fr_pt *a, const fr_seg *s,
+							 const fr_pt *b, double eps, double *lo, double *hi);
+
+/* Decision on prepared curves (plain Alt & Godau reachability). */
+fr_status	fr_decide_prepared(const fr_env *env, const fr_prep *p, const fr_prep *q,
+							   double eps, double *row, bool *result, fr_stats *stats);
+
+/* Max distance from a single vertex to the vertices of a curve (one-point cases). */
+double		fr_point_curve_dist(const fr_pt *pt, const fr_prep *c);
+
+#endif							/* FR_INTERNAL_H */

@@ -1,0 +1,108 @@
+/*
+ * frechet.h - the frechet_ext engine: Fréchet distances between polygonal
+ * curves in 2-D or 3-D.
+ *
+ * Plain C11, no PostgreSQL headers.  The caller supplies an allocator and an
+ * interrupt callback (fr_env); the engine allocates nothing else, so a caller
+ * whose interrupt callback long-jumps (PostgreSQL's CHECK_FOR_INTERRUPTS)
+ * loses no memory that its own allocator does not own.
+ *
+ * Curves are given as fr_curve: n vertices of dimension 2 or 3, stored
+ * contiguously (x0 y0 [z0] x1 y1 [z1] ...).  The engine trusts its input:
+ * callers check at the border that n >= 1, dim is 2 or 3, every coordinate
+ * is finite, and that coordinates lie within FR_MAX_ABS_COORD.
+ */
+#ifndef FRECHET_H
+#define FRECHET_H
+
+#include <stdbool.h>
+#include <stddef.h>
+#include <stdint.h>
+
+/* Largest absolute coordinate accepted: squares of differences stay finite. */
+#define FR_MAX_ABS_COORD 1e150
+
+typedef struct fr_env
+{
+	/* Returns memory or NULL; the engine frees with release(). */
+	void	   *(*alloc) (size_t size, void *arg);
+	void		(*release) (void *ptr, void *arg);
+
+	/*
+	 * Called at least every FR_INTERRUPT_CELLS units of work.  Returns
+	 * nonzero to stop the computation (FR_EINTR); may also long-jump.  May
+	 * be NULL.
+	 */
+	int			(*interrupted) (void *arg);
+	void	   *arg;
+} fr_env;
+
+/* Work units (free-space cells, distance evaluations) between interrupt checks. */
+#define FR_INTERRUPT_CELLS (1u << 14)
+
+typedef struct fr_curve
+{
+	const double *coords;		/* n * dim doubles */
+	size_t		n;				/* number of vertices, >= 1 */
+	int			dim;			/* 2 or 3 */
+} fr_curve;
+
+typedef enum fr_status
+{
+	FR_OK = 0,
+	FR_ENOMEM,					/* the allocator returned NULL */
+	FR_EINTR,					/* the interrupt callback asked to stop */
+	FR_EINVAL					/* structurally invalid input */
+} fr_status;
+
+/* Counters a caller may ask for; any pointer argument of this type may be NULL. */
+typedef struct fr_stats
+{
+	uint64_t	decisions;		/* decider calls made */
+	uint64_t	cells;			/* free-space cells visited by deciders */
+	uint64_t	candidates;		/* critical values examined */
+} fr_stats;
+
+/* Human-readable name of a status, for error messages. */
+const char *fr_status_text(fr_status st);
+
+/*
+ * Bytes of scratch memory the engine may request for a distance or decision
+ * between curves of n and m vertices (an upper bound, for limits checked
+ * before any allocation).
+ */
+size_t		fr_scratch_bytes(size_t n, size_t m);
+
+/*
+ * Decision: is the continuous Fréchet distance between p and q at most eps?
+ * eps must be >= 0 (may be +Inf).  O(nm) time, O(n+m) memory.
+ */
+fr_status	fr_decide(const fr_env *env, const fr_curve *p, const fr_curve *q,
+					  double eps, bool *result, fr_stats *stats);
+
+/*
+ * The plain Alt & Godau (1995) decider, kept as the reference path that
+ * faster deciders are tested against.  Same contract as fr_decide.
+ */
+fr_status	fr_decide_plain(const fr_env *env, const fr_curve *p, const fr_curve *q,
+							double eps, bool *result, fr_stats *stats);
+
+/*
+ * Continuous Fréchet distance, exact to double precision: the returned d
+ * satisfies decide(d) and, unless d == 0, !decide(d') for the largest
+ * double d' < d whose decision the search examined (adjacent doubles).
+ */
+fr_status	fr_distance(const fr_env *env, const fr_curve *p, const fr_curve *q,
+						double *result, fr_stats *stats);
+
+/*
+ * Discrete Fréchet distance (Eiter & Mannila 1994): couplings of vertices
+ * only.  O(nm) time, O(min(n,m)) memory.
+ */
+fr_status	fr_discrete_distance(const fr_env *env, const fr_curve *p,
+								 const fr_curve *q, double *result);
+
+/* Length of the longest edge of a curve (0 for one vertex). */
+double		fr_longest_edge(const fr_curve *c);
+
+#endif							/* FRECHET_H */

@@ -1,0 +1,188 @@
+/*
+ * frechet_ext.c - module set-up, the engine environment (palloc and
+ * CHECK_FOR_INTERRUPTS) and the SQL functions on point[].
+ */
+#include "postgres.h"
+
+#include <limits.h>
+#include <math.h>
+
+#include "fmgr.h"
+#include "miscadmin.h"
+#include "utils/builtins.h"
+#include "utils/guc.h"
+#include "utils/memutils.h"
+
+#include "glue.h"
+
+PG_MODULE_MAGIC;
+
+int			frechet_max_memory_kb = 256 * 1024;
+
+void		_PG_init(void);
+
+/* Registers the settings of the extension. */
+void
+_PG_init(void)
+{
+	DefineCustomIntVariable("frechet_ext.max_memory",
+							"Largest scratch memory one frechet_ext call may use.",
+							"Checked before any allocation; calls that would need more fail.",
+							&frechet_max_memory_kb,
+							256 * 1024,
+							64,
+							MAX_KILOBYTES,
+							PGC_USERSET,
+							GUC_UNIT_KB,
+							NULL, NULL, NULL);
+	MarkGUCPrefixReserved("frechet_ext");
+}
+
+/* Engine allocator: scratch memory in the call's own context. */
+static void *
+glue_alloc(size_t size, void *arg)
+{
+	return MemoryContextAllocExtended((MemoryContext) arg, size,
+									  MCXT_ALLOC_HUGE | MCXT_ALLOC_NO_OOM);
+}
+
+/* Engine release: pfree. */
+static void
+glue_release(void *ptr, void *arg)
+{
+	pfree(ptr);
+}
+
+/* Engine interrupt callback: a cancel or statement_timeout long-jumps out from here. */
+static int
+glue_interrupted(void *arg)
+{
+	CHECK_FOR_INTERRUPTS();
+	return 0;
+}
+
+/* Checks the memory limit, then creates the scratch context for one call. */
+void
+glue_env_begin(glue_env *g, size_t scratch_bytes, const char *what)
+{
+	size_t		limit = (size_t) frechet_max_memory_kb * 1024;
+
+	if (scratch_bytes > limit)
+		ereport(ERROR,
+				(errcode(ERRCODE_PROGRAM_LIMIT_EXCEEDED),
+				 errmsg("%s needs more memory than frechet_ext.max_memory allows", what),
+				 errdetail("The call needs about %zu kB of scratch memory; the limit is %d kB.",
+						   scratch_bytes / 1024 + 1, frechet_max_memory_kb),
+				 errhint("Raise frechet_ext.max_memory, or simplify the curves first.")));
+	g->cxt = AllocSetContextCreate(CurrentMemoryContext, "frechet_ext scratch",
+								   ALLOCSET_DEFAULT_SIZES);
+	g->env.alloc = glue_alloc;
+	g->env.release = glue_release;
+	g->env.interrupted = glue_interrupted;
+	g->env.arg = g->cxt;
+}
+
+/* Frees the scratch context of one call. */
+void
+glue_env_end(glue_env *g)
+{
+	MemoryContextDelete(g->cxt);
+}
+
+/* Turns a non-OK engine status into an ERROR. */
+void
+glue_check_status(fr_status st, const char *what)
+{
+	if (st == FR_OK)
+		return;
+	if (st == FR_ENOMEM)
+		ereport(ERROR,
+				(errcode(ERRCODE_OUT_OF_MEMORY),
+				 errmsg("out of memory in %s", what)));
+	elog(ERROR, "%s failed in the engine: %s", what, fr_status_text(st));
+}
+
+/* Validates a tolerance argument: not NaN, not negative. */
+void
+glue_check_epsilon(double eps, int argno)
+{
+	if (isnan(eps) || eps < 0)
+		ereport(ERROR,
+				(errcode(ERRCODE_INVALID_PARAMETER_VALUE),
+				 errmsg("epsilon must be a non-negative number"),
+				 errdetail("Argument %d is %s.", argno, isnan(eps) ? "NaN" : "negative")));
+}
+
+PG_FUNCTION_INFO_V1(frechet_distance_point_array);
+/* frechet_distance(point[], point[]): continuous Fréchet distance. */
+Datum
+frechet_distance_point_array(PG_FUNCTION_ARGS)
+{
+	ArrayType  *a = PG_GETARG_ARRAYTYPE_P(0);
+	ArrayType  *b = PG_GETARG_ARRAYTYPE_P(1);
+	fr_curve	p,
+				q;
+	glue_env	g;
+	double		d;
+	fr_status	st;
+
+	point_array_curve(a, 1, &p);
+	point_array_curve(b, 2, &q);
+	glue_env_begin(&g, fr_scratch_bytes(p.n, q.n), "frechet_distance");
+	st = fr_distance(&g.env, &p, &q, &d, NULL);
+	glue_env_end(&g);
+	glue_check_status(st, "frechet_distance");
+	PG_FREE_IF_COPY(a, 0);
+	PG_FREE_IF_COPY(b, 1);
+	PG_RETURN_FLOAT8(d);
+}
+
+PG_FUNCTION_INFO_V1(frechet_at_most_point_array);
+/* frechet_at_most(point[], point[], float8): is the distance at most epsilon? */
+Datum
+frechet_at_most_point_array(PG_FUNCTION_ARGS)
+{
+	ArrayType  *a = PG_GETARG_ARRAYTYPE_P(0);
+	ArrayType  *b = PG_GETARG_ARRAYTYPE_P(1);
+	double		eps = PG_GETARG_FLOAT8(2);
+	fr_curve	p,
+				q;
+	glue_env	g;
+	bool		yes;
+	fr_status	st;
+
+	point_array_curve(a, 1, &p);
+	point_array_curve(b, 2, &q);
+	glue_check_epsilon(eps, 3);
+	glue_env_begin(&g, fr_scratch_bytes(p.n, q.n), "frechet_at_most");
+	st = fr_decide(&g.env, &p, &q, eps, &yes, NULL);
+	glue_env_end(&g);
+	glue_check_status(st, "frechet_at_most");
+	PG_FREE_IF_COPY(a, 0);
+	PG_FREE_IF_COPY(b, 1);
+	PG_RETURN_BOOL(yes);
+}
+
+PG_FUNCTION_INFO_V1(discrete_frechet_distance_point_array);
+/* discrete_frechet_distance(point[], point[]): vertex couplings only. */
+Datum
+discrete_frechet_distance_point_array(PG_FUNCTION_ARGS)
+{
+	ArrayType  *a = PG_GETARG_ARRAYTYPE_P(0);
+	ArrayType  *b = PG_GETARG_ARRAYTYPE_P(1);
+	fr_curve	p,
+				q;
+	glue_env	g;
+	double		d;
+	fr_status	st;
+
+	point_array_curve(a, 1, &p);
+	point_array_curve(b, 2, &q);
+	glue_env_begin(&g, fr_scratch_bytes(p.n, q.n), "discrete_frechet_distance");
+	st = fr_discrete_distance(&g.env, &p, &q, &d);
+	glue_env_end(&g);
+	glue_check_status(st, "discrete_frechet_distance");
+	PG_FREE_IF_COPY(a, 0);
+	PG_FREE_IF_COPY(b, 1);
+	PG_RETURN_FLOAT8(d);
+}

@@ -1,0 +1,36 @@
+/*
+ * glue.h - shared pieces of the SQL glue: engine environment, limits,
+ * argument decoding and error reporting.
+ */
+#ifndef FRECHET_GLUE_H
+#define FRECHET_GLUE_H
+
+#include "postgres.h"
+#include "utils/array.h"
+
+#include "frechet.h"
+
+/* Limit on the scratch memory of one call, in kB (frechet_ext.max_memory). */
+extern int	frechet_max_memory_kb;
+
+/* A scratch memory context and the engine environment that allocates in it. */
+typedef struct glue_env
+{
+	MemoryContext cxt;
+	fr_env		env;
+} glue_env;
+
+/* Creates scratch memory for one call after checking the limit; see frechet_ext.c. */
+void		glue_env_begin(glue_env *g, size_t scratch_bytes, const char *what);
+void		glue_env_end(glue_env *g);
+
+/* Turns a non-OK engine status into an ERROR. */
+void		glue_check_status(fr_status st, const char *what);
+
+/* Decodes a point[] argument into a 2-D curve, validating it; see point_array.c. */
+void		point_array_curve(ArrayType *arr, int argno, fr_curve *out);
+
+/* Validates a tolerance argument: not NaN, not negative. */
+void		glue_check_epsilon(double eps, int argno);
+
+#endif							/* FRECHET_GLUE_H */

@@ -1,0 +1,132 @@
+/*
+ * testutil.h - helpers shared by the engine tests: a counting allocator,
+ * an interrupt callback that can fire after a budget, curve generators.
+ */
+#ifndef FR_TESTUTIL_H
+#define FR_TESTUTIL_H
+
+#include <math.h>
+#include <stdint.h>
+#include <stdlib.h>
+#include <string.h>
+
+#include "frechet.h"
+
+/* Allocator bookkeeping: live blocks, and an optional failure after N allocations. */
+typedef struct test_heap
+{
+	long		live;
+	long		total;
+	long		fail_after;		/* < 0: never fail */
+	long		interrupt_calls;
+	long		interrupt_after;	/* < 0: never interrupt */
+} test_heap;
+
+/* Counting malloc for the engine. */
+static void *
+test_alloc(size_t size, void *arg)
+{
+	test_heap  *h = arg;
+
+	if (h->fail_after >= 0 && h->total >= h->fail_after)
+		return NULL;
+	h->total++;
+	h->live++;
+	return malloc(size);
+}
+
+/* Counting free for the engine. */
+static void
+test_release(void *ptr, void *arg)
+{
+	test_heap  *h = arg;
+
+	h->live--;
+	free(ptr);
+}
+
+/* Interrupt callback that asks to stop after a number of calls. */
+static int
+test_interrupted(void *arg)
+{
+	test_heap  *h = arg;
+
+	h->interrupt_calls++;
+	return h->interrupt_after >= 0 && h->interrupt_calls > h->interrupt_after;
+}
+
+/* A fresh environment over a fresh heap record. */
+static fr_env
+test_env(test_heap *h)
+{
+	fr_env		e;
+
+	memset(h, 0, sizeof(*h));
+	h->fail_after = -1;
+	h->interrupt_after = -1;
+	e.alloc = test_alloc;
+	e.release = test_release;
+	e.interrupted = test_interrupted;
+	e.arg = h;
+	return e;
+}
+
+/* Deterministic generator (splitmix64) for test data. */
+static uint64_t test_rng_state = 12345;
+
+static uint64_t
+test_rand64(void)
+{
+	uint64_t	z = (test_rng_state += 0x9E3779B97F4A7C15ull);
+
+	z = (z ^ (z >> 30)) * 0xBF58476D1CE4E5B9ull;
+	z = (z ^ (z >> 27)) * 0x94D049BB133111EBull;
+	return z ^ (z >> 31);
+}
+
+/* Uniform double in [lo, hi). */
+static double
+test_uniform(double lo, double hi)
+{
+	return lo + (hi - lo) * ((double) (test_rand64() >> 11) / 9007199254740992.0);
+}
+
+/* A random walk of n 2-D vertices with steps up to step, starting near (x0, y0). */
+static double *
+test_walk(size_t n, double x0, double y0, double step)
+{
+	double	   *c = malloc(2 * n * sizeof(double));
+	double		x = x0,
+				y = y0;
+
+	for (size_t i = 0; i < n; i++)
+	{
+		c[2 * i] = x;
+		c[2 * i + 1] = y;
+		x += test_uniform(-step, step);
+		y += test_uniform(-step, step);
+	}
+	return c;
+}
+
+/* A copy of a curve with each coordinate moved by up to noise. */
+static double *
+test_jitter(const double *c, size_t n, int dim, double noise)
+{
+	double	   *d = malloc(dim * n * sizeof(double));
+
+	for (size_t i = 0; i < dim * n; i++)
+		d[i] = c[i] + test_uniform(-noise, noise);
+	return d;
+}
+
+/* Relative closeness with an absolute floor for values near zero. */
+static int
+test_close(double a, double b, double rel)
+{
+	double		scale = fmax(fabs(a), fabs(b));
+
+	return fabs(a - b) <= rel * (scale > 1e-300 ? scale : 1e-300);
+}
+
+#endif							/* FR_TESTUTIL_H */
