@@ -7,7 +7,7 @@ MODULE_big = frechet_ext
 EXTVERSION = 0.1
 
 CORE_OBJS = src/core/freespace.o src/core/decide.o src/core/distance.o \
-	src/core/discrete.o
+	src/core/discrete.o src/core/matching.o
 OBJS = $(CORE_OBJS) src/frechet_ext.o src/point_array.o
 
 DATA_built = sql/frechet_ext--$(EXTVERSION).sql
@@ -39,7 +39,10 @@ test/core/test_engine.bin: test/core/test_engine.c test/core/testutil.h $(CORE_S
 test/core/test_geos.bin: test/core/test_geos.c test/core/testutil.h $(CORE_SRC) src/core/*.h
 	$(CC) $(CORE_TEST_CFLAGS) -o $@ test/core/test_geos.c $(CORE_SRC) -lgeos_c -lcmocka -lm
 
-CORE_TESTS = test/core/test_engine.bin test/core/test_geos.bin
+test/core/test_matching.bin: test/core/test_matching.c test/core/testutil.h $(CORE_SRC) src/core/*.h
+	$(CC) $(CORE_TEST_CFLAGS) -o $@ test/core/test_matching.c $(CORE_SRC) -lcmocka -lm
+
+CORE_TESTS = test/core/test_engine.bin test/core/test_geos.bin test/core/test_matching.bin
 
 .PHONY: check-core bench
 check-core: $(CORE_TESTS)

@@ -101,9 +101,29 @@ double		fr_point_segment_dist(const fr_pt *p, const fr_pt *a, const fr_seg *s,
 void		fr_free_interval(const fr_pt *p, const fr_pt *a, const fr_seg *s,
 							 const fr_pt *b, double eps, double *lo, double *hi);
 
+/* Row-by-row reachability pieces shared by the deciders and witnesses (decide.c). */
+void		fr_bottom_edge(const fr_prep *p, const fr_prep *q, double eps, double *row);
+double		fr_left_edge(const fr_prep *p, const fr_prep *q, size_t j, double eps, bool *full);
+fr_status	fr_row_step(const fr_prep *p, const fr_prep *q, size_t j, double eps,
+						double *row, double lr, double *left, double *right,
+						bool *any_top, fr_poll *poll);
+
 /* Decision on prepared curves (plain Alt & Godau reachability). */
 fr_status	fr_decide_prepared(const fr_env *env, const fr_prep *p, const fr_prep *q,
 							   double eps, double *row, bool *result, fr_stats *stats);
+
+/* A decider on prepared curves; row has room for p->n - 1 doubles. */
+typedef fr_status (*fr_decider) (const fr_env *env, const fr_prep *p, const fr_prep *q,
+								 double eps, double *row, bool *result, fr_stats *stats);
+
+/* Smallest eps a decider accepts, between bounds (distance.c). */
+fr_status	fr_threshold_search(const fr_env *env, const fr_prep *p, const fr_prep *q,
+								fr_decider decide, double lo, double hi, double *row,
+								double *result, fr_stats *stats);
+
+/* Continuous distance on prepared curves (distance.c). */
+fr_status	fr_distance_prepared(const fr_env *env, const fr_prep *p, const fr_prep *q,
+								 double *row, double *result, fr_stats *stats);
 
 /* Max distance from a single vertex to the vertices of a curve (one-point cases). */
 double		fr_point_curve_dist(const fr_pt *pt, const fr_prep *c);

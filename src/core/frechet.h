@@ -102,6 +102,38 @@ fr_status	fr_distance(const fr_env *env, const fr_curve *p, const fr_curve *q,
 fr_status	fr_discrete_distance(const fr_env *env, const fr_curve *p,
 								 const fr_curve *q, double *result);
 
+/*
+ * A breakpoint of a matching: positions on p and q as k + t (0-based vertex
+ * k, fraction t of the way to vertex k+1) and the leash between them.
+ */
+typedef struct fr_match_pt
+{
+	double		a_pos;
+	double		b_pos;
+	double		leash;
+} fr_match_pt;
+
+/*
+ * A witness: a monotone matching of p and q, as breakpoints from (0,0) to
+ * (n-1, m-1); moving linearly between consecutive breakpoints keeps the
+ * leash within eps.  eps < 0 or NaN asks for an optimal matching (eps =
+ * the distance, stored in *used_eps).  *found is false (and *out NULL) when
+ * no matching within eps exists.  *out is allocated through env and holds
+ * *count breakpoints.  Memory: see fr_matching_scratch_bytes.
+ */
+fr_status	fr_matching(const fr_env *env, const fr_curve *p, const fr_curve *q,
+						double eps, fr_match_pt **out, size_t *count, bool *found,
+						double *used_eps, fr_stats *stats);
+
+/*
+ * Upper bound of the bytes fr_matching may request: about
+ * 23 * min(n,m) * sqrt(max(n,m)) + 100 * (n + m) bytes (checkpointed rows).
+ */
+size_t		fr_matching_scratch_bytes(size_t n, size_t m);
+
+/* The point at position pos (k + t, 0-based) of a curve, into out[dim]. */
+void		fr_curve_point(const fr_curve *c, double pos, double *out);
+
 /* Length of the longest edge of a curve (0 for one vertex). */
 double		fr_longest_edge(const fr_curve *c);
 
