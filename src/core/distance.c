@@ -48,8 +48,8 @@ cmp_double(const void *a, const void *b)
  * whose leash never exceeds its largest vertex distance (the distance
  * between two linearly moving points is convex in time).
  */
-static double
-greedy_upper_bound(const fr_prep *p, const fr_prep *q)
+double
+fr_greedy_upper_bound(const fr_prep *p, const fr_prep *q)
 {
 	size_t		i = 0,
 				j = 0;
@@ -316,7 +316,7 @@ fr_distance_prepared(const fr_env *env, const fr_prep *p, const fr_prep *q,
 	/* (a): both end pairs must be matched, so the distance is at least this */
 	lo = fmax(fr_pt_dist(&p->v[0], &q->v[0]), fr_pt_dist(&p->v[p->n - 1], &q->v[q->n - 1]));
 	return fr_threshold_search(env, p, q, fr_decide_prepared, lo,
-							   greedy_upper_bound(p, q), row, result, stats);
+							   fr_greedy_upper_bound(p, q), row, result, stats);
 }
 
 /* Continuous Fréchet distance between two curves. */

@@ -78,6 +78,18 @@ fr_status	fr_prepare_pair(const fr_env *env, const fr_curve *p, const fr_curve *
 							fr_prep *pp, fr_prep *pq);
 void		fr_release_pair(const fr_env *env, fr_prep *pp, fr_prep *pq);
 
+/* Segments of a prepared curve from its vertices (freespace.c). */
+fr_status	fr_prep_segments(const fr_env *env, fr_prep *out);
+
+/* Points of a prepared curve at position k + t, or at a position k+t given as a double. */
+fr_pt		fr_prep_point(const fr_prep *c, size_t k, double t);
+fr_pt		fr_prep_point_at(const fr_prep *c, double pos);
+
+/* A part of a prepared curve, optionally reversed, with vertex positions on c. */
+fr_status	fr_prep_subcurve(const fr_env *env, const fr_prep *c, double from, double to,
+							 bool reversed, fr_prep *out, double **orig);
+void		fr_release_prep(const fr_env *env, fr_prep *c);
+
 /* Euclidean distance between two vertices. */
 static inline double
 fr_pt_dist(const fr_pt *a, const fr_pt *b)
@@ -121,9 +133,15 @@ fr_status	fr_threshold_search(const fr_env *env, const fr_prep *p, const fr_prep
 								fr_decider decide, double lo, double hi, double *row,
 								double *result, fr_stats *stats);
 
+/* Largest vertex distance along a greedy monotone vertex walk: an upper bound (distance.c). */
+double		fr_greedy_upper_bound(const fr_prep *p, const fr_prep *q);
+
 /* Continuous distance on prepared curves (distance.c). */
 fr_status	fr_distance_prepared(const fr_env *env, const fr_prep *p, const fr_prep *q,
 								 double *row, double *result, fr_stats *stats);
+
+/* Parameter in [lo, hi] of segment k of c nearest to p (freespace.c). */
+double		fr_nearest_param(const fr_pt *p, const fr_prep *c, size_t k, double lo, double hi);
 
 /* Max distance from a single vertex to the vertices of a curve (one-point cases). */
 double		fr_point_curve_dist(const fr_pt *pt, const fr_prep *c);

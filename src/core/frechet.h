@@ -131,6 +131,26 @@ fr_status	fr_matching(const fr_env *env, const fr_curve *p, const fr_curve *q,
  */
 size_t		fr_matching_scratch_bytes(size_t n, size_t m);
 
+/*
+ * Partial matching (Alt & Godau 1995): the smallest Fréchet distance
+ * between the trip and any part (subcurve) of the route; exact to double
+ * precision like fr_distance.
+ */
+fr_status	fr_partial_distance(const fr_env *env, const fr_curve *trip,
+								const fr_curve *route, double *result, fr_stats *stats);
+
+/*
+ * The part of the route, from *route_from to *route_to (positions k + t,
+ * 0-based), that the trip follows within eps, and the Fréchet distance
+ * between the trip and that part.  The part ends at the route point nearest
+ * to the trip's end among those a matching within eps can end at, and
+ * starts at the nearest to the trip's start among those from which that
+ * end is reachable.  *found is false when no part is within eps.
+ */
+fr_status	fr_partial_match(const fr_env *env, const fr_curve *trip, const fr_curve *route,
+							 double eps, bool *found, double *route_from, double *route_to,
+							 double *distance, fr_stats *stats);
+
 /* The point at position pos (k + t, 0-based) of a curve, into out[dim]. */
 void		fr_curve_point(const fr_curve *c, double pos, double *out);
 

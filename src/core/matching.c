@@ -75,38 +75,6 @@ fr_curve_point(const fr_curve *c, double pos, double *out)
 	}
 }
 
-/* The point at position k + t of a prepared curve. */
-static fr_pt
-prep_point(const fr_prep *c, size_t k, double t)
-{
-	fr_pt		r = c->v[k];
-
-	if (t > 0 && k + 1 < c->n)
-	{
-		r.x += t * (c->v[k + 1].x - r.x);
-		r.y += t * (c->v[k + 1].y - r.y);
-		r.z += t * (c->v[k + 1].z - r.z);
-	}
-	return r;
-}
-
-/*
- * The parameter in [lo, hi] of segment k of c nearest to point p (the
- * leash is convex along a segment, so clamping the foot is exact).
- */
-static double
-nearest_param(const fr_pt *p, const fr_prep *c, size_t k, double lo, double hi)
-{
-	const fr_seg *s = &c->s[k];
-	double		foot;
-
-	if (s->len == 0.0)
-		return lo;
-	foot = (s->ux * (p->x - c->v[k].x) + s->uy * (p->y - c->v[k].y) +
-			s->uz * (p->z - c->v[k].z)) / s->len;
-	return foot < lo ? lo : foot > hi ? hi : foot;
-}
-
 /* State of one witness computation. */
 typedef struct witness
 {
@@ -198,8 +166,8 @@ load_block(witness *w, size_t b)
 static fr_match_pt
 make_point(const witness *w, size_t xi, double xt, size_t yj, double yt)
 {
-	fr_pt		a = prep_point(w->x, xi, xt),
-				b = prep_point(w->y, yj, yt);
+	fr_pt		a = fr_prep_point(w->x, xi, xt),
+				b = fr_prep_point(w->y, yj, yt);
 	fr_match_pt r;
 
 	r.a_pos = (double) xi + xt;
@@ -277,8 +245,8 @@ walk_back(witness *w, fr_match_pt *out, size_t *count)
 			{
 				fr_pt		q;
 
-				u = nearest_param(&w->x->v[ci], w->y, cj, llo, lhi);
-				q = prep_point(w->y, cj, u);
+				u = fr_nearest_param(&w->x->v[ci], w->y, cj, llo, lhi);
+				q = fr_prep_point(w->y, cj, u);
 				lu = fr_pt_dist(&w->x->v[ci], &q);
 			}
 		}
@@ -295,8 +263,8 @@ walk_back(witness *w, fr_match_pt *out, size_t *count)
 			{
 				fr_pt		q;
 
-				v = nearest_param(&w->y->v[cj], w->x, ci, blo, bhi);
-				q = prep_point(w->x, ci, v);
+				v = fr_nearest_param(&w->y->v[cj], w->x, ci, blo, bhi);
+				q = fr_prep_point(w->x, ci, v);
 				lv = fr_pt_dist(&w->y->v[cj], &q);
 			}
 		}
