@@ -72,3 +72,14 @@ LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 20000 ROWS 1;
 
 COMMENT ON FUNCTION @extschema@.frechet_partial_match(pg_catalog.point[], pg_catalog.point[], pg_catalog.float8) IS
 'the part of the route (positions k + t, 1-based) that the trip follows within epsilon, with the distance to it; no row if none';
+
+CREATE FUNCTION @extschema@.frechet_excursions(trip pg_catalog.point[], route pg_catalog.point[],
+	epsilon pg_catalog.float8)
+RETURNS TABLE (trip_from pg_catalog.float8, trip_to pg_catalog.float8,
+	route_from pg_catalog.float8, route_to pg_catalog.float8,
+	max_leash pg_catalog.float8, trip_length pg_catalog.float8)
+AS 'MODULE_PATHNAME', 'frechet_excursions_point_array'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 100000 ROWS 2;
+
+COMMENT ON FUNCTION @extschema@.frechet_excursions(pg_catalog.point[], pg_catalog.point[], pg_catalog.float8) IS
+'stretches of the trip (vertex numbers) that an order-preserving matching cannot keep within epsilon of the route, with where on the route it left and rejoined; no rows exactly when frechet_at_most is true';

@@ -185,3 +185,47 @@ frechet_partial_match_point_array(PG_FUNCTION_ARGS)
 	}
 	return (Datum) 0;
 }
+
+PG_FUNCTION_INFO_V1(frechet_excursions_point_array);
+/* frechet_excursions(trip, route, epsilon): the stretches where the trip left its route. */
+Datum
+frechet_excursions_point_array(PG_FUNCTION_ARGS)
+{
+	ReturnSetInfo *rsinfo = (ReturnSetInfo *) fcinfo->resultinfo;
+	fr_curve	p,
+				q;
+	double		eps = PG_GETARG_FLOAT8(2);
+	glue_env	g;
+	fr_excursion *x,
+			   *copy = NULL;
+	size_t		count;
+	fr_status	st;
+
+	InitMaterializedSRF(fcinfo, 0);
+	point_array_curve(PG_GETARG_ARRAYTYPE_P(0), 1, &p);
+	point_array_curve(PG_GETARG_ARRAYTYPE_P(1), 2, &q);
+	glue_check_epsilon(eps, 3);
+	glue_env_begin(&g, fr_excursions_scratch_bytes(p.n, q.n), "frechet_excursions");
+	st = fr_excursions(&g.env, &p, &q, eps, &x, &count, NULL);
+	if (st == FR_OK && count > 0)
+	{
+		copy = palloc(count * sizeof(fr_excursion));
+		memcpy(copy, x, count * sizeof(fr_excursion));
+	}
+	glue_env_end(&g);
+	glue_check_status(st, "frechet_excursions");
+	for (size_t k = 0; k < count; k++)
+	{
+		Datum		values[6];
+		bool		nulls[6] = {false};
+
+		values[0] = Float8GetDatum(copy[k].trip_from + 1);
+		values[1] = Float8GetDatum(copy[k].trip_to + 1);
+		values[2] = Float8GetDatum(copy[k].route_from + 1);
+		values[3] = Float8GetDatum(copy[k].route_to + 1);
+		values[4] = Float8GetDatum(copy[k].max_leash);
+		values[5] = Float8GetDatum(copy[k].trip_length);
+		tuplestore_putvalues(rsinfo->setResult, rsinfo->setDesc, values, nulls);
+	}
+	return (Datum) 0;
+}

@@ -151,6 +151,36 @@ fr_status	fr_partial_match(const fr_env *env, const fr_curve *trip, const fr_cur
 							 double eps, bool *found, double *route_from, double *route_to,
 							 double *distance, fr_stats *stats);
 
+/*
+ * An excursion: a stretch of the trip, between vertices trip_from and
+ * trip_to (0-based), that the chosen order-preserving matching cannot keep
+ * within eps; it left the route at route_from and rejoined it at route_to
+ * (positions k + t, 0-based).  max_leash: the largest distance from a trip
+ * vertex of the stretch to that part of the route; trip_length: the
+ * stretch's length along the trip.
+ */
+typedef struct fr_excursion
+{
+	double		trip_from;
+	double		trip_to;
+	double		route_from;
+	double		route_to;
+	double		max_leash;
+	double		trip_length;
+} fr_excursion;
+
+/*
+ * Excursions of a trip from its route at eps; see excursions.c for the
+ * exact definition.  *out (allocated through env, NULL when none) holds
+ * *count excursions in trip order; none exactly when the Fréchet distance
+ * is at most eps.
+ */
+fr_status	fr_excursions(const fr_env *env, const fr_curve *trip, const fr_curve *route,
+						  double eps, fr_excursion **out, size_t *count, fr_stats *stats);
+
+/* Upper bound of the bytes fr_excursions may request. */
+size_t		fr_excursions_scratch_bytes(size_t n, size_t m);
+
 /* The point at position pos (k + t, 0-based) of a curve, into out[dim]. */
 void		fr_curve_point(const fr_curve *c, double pos, double *out);
 
