@@ -385,7 +385,7 @@ fast_bisect(fast *f)
  * The fast search for the distance, on prepared curves with two or more
  * vertices each:
  *  1. bounds: type (a) below, a greedy vertex walk above;
- *  2. bisection by value until the bracket is 1e-4 wide (relative);
+ *  2. bisection by value until the bracket is 1e-3 wide (relative);
  *  3. rounds: a decision at lo reports the values at which its blocked
  *     steps would open (critical values of types b and c, Alt & Godau 1995);
  *     those inside the bracket are tested by binary search; repeated until
@@ -423,7 +423,7 @@ fast_distance(fast *f, double *result)
 	if (st != FR_OK)
 		return st;
 
-	while (f->hi - f->lo > 1e-4 * f->hi)
+	while (f->hi - f->lo > 1e-3 * f->hi)
 	{
 		st = fast_probe(f, f->lo + (f->hi - f->lo) / 2, false, &yes);
 		if (st != FR_OK)
@@ -472,14 +472,30 @@ fast_distance(fast *f, double *result)
 		}
 	}
 
-	/* no opening left inside: the double below hi must be rejected */
+	/*
+	 * No opening left inside: the double below hi must be rejected.  If
+	 * rounding put a computed opening a few ulps above where the decider
+	 * opens, step down from hi by growing amounts to a rejected value,
+	 * then bisect the few doubles in between.
+	 */
 	if (nextafter(f->hi, 0) > f->lo)
 	{
-		double		below = nextafter(f->hi, 0);
+		double		step = 0;
 
-		st = fast_probe(f, below, false, &yes);
-		if (st == FR_OK && yes)
-			st = fast_bisect(f);
+		for (;;)
+		{
+			double		below = step == 0 ? nextafter(f->hi, 0) : f->hi - step;
+
+			if (!(below > f->lo))
+				break;
+			st = fast_probe(f, below, false, &yes);
+			if (st != FR_OK)
+				return st;
+			if (!yes)
+				break;
+			step = step == 0 ? 4 * DBL_EPSILON * f->hi : 4 * step;
+		}
+		st = fast_bisect(f);
 		if (st != FR_OK)
 			return st;
 	}

@@ -29,7 +29,10 @@
 #include "fr_internal.h"
 
 /* Boxes of at most this many cells are solved cell by cell. */
-#define BASE_CELLS 512
+#define BASE_CELLS 1024
+
+/* Boxes entered through at most 1/SPARSE_RATIO of their sides are swept directly. */
+#define SPARSE_RATIO 8
 
 /* State of one pruned decision. */
 typedef struct prune
@@ -91,7 +94,13 @@ passage_value(const fr_pt *x, const fr_pt *y, const fr_pt *a, const fr_seg *s)
 	return fr_pt_dist(&c, x);
 }
 
-/* Cell-by-cell propagation through the box [x0,x1) x [y0,y1). */
+/*
+ * Cell-by-cell propagation through the box [x0,x1) x [y0,y1), visiting in
+ * each row only the cells that something can enter: from the first column
+ * reachable from below (or the left side) to the last one reachable from
+ * below, and on while reachability keeps flowing right.  Cells left out
+ * would stay empty in the plain propagation too.
+ */
 static void
 solve_cells(prune *s, size_t x0, size_t x1, size_t y0, size_t y1)
 {
@@ -100,7 +109,18 @@ solve_cells(prune *s, size_t x0, size_t x1, size_t y0, size_t y1)
 	const fr_pt *pv = p->v,
 			   *qv = q->v;
 	const double eps = s->eps;
+	size_t		hlo = x1,
+				hhi = x0,
+				visited = 0;
 
+	/* the columns reachable from below: [hlo, hhi] */
+	for (size_t i = x0; i < x1; i++)
+		if (s->H[i] != FR_EMPTY)
+		{
+			if (hlo == x1)
+				hlo = i;
+			hhi = i;
+		}
 	for (size_t j = y0; j < y1; j++)
 	{
 		const fr_pt *qa = &qv[j],
@@ -108,8 +128,11 @@ solve_cells(prune *s, size_t x0, size_t x1, size_t y0, size_t y1)
 		const fr_seg *qs = &q->s[j];
 		double		lr = s->V[j];
 		int32_t		ls = s->Vs[j];
+		size_t		i = lr != FR_EMPTY ? x0 : hlo,
+					nlo = x1,
+					nhi = x0;
 
-		for (size_t i = x0; i < x1; i++)
+		for (; i < x1 && (i <= hhi || lr != FR_EMPTY); i++)
 		{
 			double		br = s->H[i],
 						a,
@@ -124,6 +147,7 @@ solve_cells(prune *s, size_t x0, size_t x1, size_t y0, size_t y1)
 
 			if (br == FR_EMPTY && lr == FR_EMPTY)
 				continue;
+			visited++;
 
 			/* right boundary: vertex p[i+1] against segment q[j] */
 			fr_free_interval(&pv[i + 1], qa, qs, qb, eps, &a, &b);
@@ -165,15 +189,24 @@ solve_cells(prune *s, size_t x0, size_t x1, size_t y0, size_t y1)
 			}
 			s->H[i] = nbr;
 			s->Hs[i] = nbs;
+			if (nbr != FR_EMPTY)
+			{
+				if (nlo == x1)
+					nlo = i;
+				nhi = i;
+			}
 			lr = nlr;
 			ls = nls;
 		}
-		s->V[j] = lr;
+		/* the row ended early only where nothing flows right any more */
+		s->V[j] = i == x1 ? lr : FR_EMPTY;
 		s->Vs[j] = ls;
+		hlo = nlo;
+		hhi = nhi;
 	}
 	if (s->stats)
-		s->stats->cells += (uint64_t) (x1 - x0) * (y1 - y0);
-	if (fr_poll_add(s->poll, (x1 - x0) * (y1 - y0)))
+		s->stats->cells += visited;
+	if (fr_poll_add(s->poll, visited + (y1 - y0)))
 		s->stop = true;
 }
 
@@ -236,21 +269,37 @@ solve_box(prune *s, size_t x0, size_t x1, size_t y0, size_t y1)
 	size_t		w = x1 - x0,
 				h = y1 - y0,
 				first_v = SIZE_MAX,
-				first_h = SIZE_MAX;
+				first_h = SIZE_MAX,
+				entering = 0;
 	int			top = 0,		/* 1: all reachable, -1: none, 0: unknown */
 				right = 0;
 
 	if (s->stop)
 		return;
-	for (size_t j = y0; j < y1 && first_v == SIZE_MAX; j++)
+
+	for (size_t j = y0; j < y1; j++)
 		if (s->V[j] != FR_EMPTY)
-			first_v = j;
-	for (size_t i = x0; i < x1 && first_h == SIZE_MAX; i++)
+		{
+			if (first_v == SIZE_MAX)
+				first_v = j;
+			entering++;
+		}
+	for (size_t i = x0; i < x1; i++)
 		if (s->H[i] != FR_EMPTY)
-			first_h = i;
-	if (first_v == SIZE_MAX && first_h == SIZE_MAX)
+		{
+			if (first_h == SIZE_MAX)
+				first_h = i;
+			entering++;
+		}
+	if (entering == 0)
 		return;					/* nothing enters: H and V stay empty here */
-	if (w * h <= BASE_CELLS)
+
+	/*
+	 * Small boxes, and boxes that reachability enters through only a few
+	 * cells (a narrow band, as between two recordings of one route), are
+	 * swept cell by cell, visiting only cells it can reach.
+	 */
+	if (w * h <= BASE_CELLS || entering * SPARSE_RATIO <= w + h)
 	{
 		solve_cells(s, x0, x1, y0, y1);
 		return;
