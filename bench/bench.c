@@ -12,6 +12,7 @@
 #include <errno.h>
 #include <inttypes.h>
 #include <math.h>
+#include <pthread.h>
 #include <stdarg.h>
 #include <stdbool.h>
 #include <stdint.h>
@@ -27,11 +28,13 @@
 #define BENCH_PI 3.14159265358979323846
 
 #define MAX_SIZES 16
-#define MIN_SIZE 10
+#define MIN_SIZE 20
 #define MAX_SIZE 10000000
 #define DEFAULT_MAX_CELLS 2e8
 #define DEFAULT_REPS 7
 #define REP_BUDGET_SEC 0.5
+#define STACK_BASE_BYTES (64.0 * 1024 * 1024)
+#define STACK_BYTES_PER_VERTEX 2048.0
 
 #define TABLE_COLS 14
 #define CELL_LEN 32
@@ -47,10 +50,10 @@
 #define NOISE_STD_MIN 5.0
 #define NOISE_STD_MAX 15.0
 
-/* Zig-zag generator parameters. */
+/* Zig-zag generator parameters: amplitude A, total drift, spike height S. */
 #define ZIGZAG_AMP 100.0
-#define ZIGZAG_WIDTH (0.2 * ZIGZAG_AMP)
-#define ZIGZAG_SPIKE 2.5
+#define ZIGZAG_DRIFT (0.1 * ZIGZAG_AMP)
+#define ZIGZAG_SPIKE (1.2 * ZIGZAG_AMP)
 
 typedef enum pair_kind
 {
@@ -68,6 +71,10 @@ typedef enum method
 	METHOD_GEOS_DISCRETE,
 	METHOD_DISCRETE
 } method;
+
+static const char *const method_names[] = {
+	"fr_distance", "fr_decide", "fr_decide_plain", "GEOS discrete", "fr_discrete_distance"
+};
 
 typedef struct bench_opts
 {
@@ -239,7 +246,7 @@ rng_gauss(bench_rng *rng)
 	return sqrt(-2.0 * log(u1)) * cos(2.0 * BENCH_PI * u2);
 }
 
-/* Generator seeded from the run seed, the pair kind and the size, so a pair does not depend on which other sizes run. */
+/* Generator for one pair, seeded from the run seed, the pair kind and the size only. */
 static bench_rng
 rng_for_pair(uint64_t seed, pair_kind kind, size_t size)
 {
@@ -309,7 +316,7 @@ make_route(bench_rng *rng, double length)
 	return route;
 }
 
-/* One drive along the route: samples 5-30 m apart, each displaced by gaussian noise of standard deviation sigma. */
+/* One drive along the route: samples 5-30 m apart plus gaussian noise of std sigma. */
 static point_buf
 drive_route(bench_rng *rng, const point_buf *route, double sigma)
 {
@@ -354,30 +361,50 @@ make_gps_pair(bench_rng *rng, size_t size, point_buf *p, point_buf *q)
 	buf_free(&route);
 }
 
-/*
- * Two interleaved, in-phase zig-zags of amplitude A squeezed into a strip of
- * width A/5, n vertices each; p's second-to-last vertex is pulled out to a
- * spike of 2.5 A, so the distance d is about 1.5 A.  At eps near d every
- * free-space cell is partly free and nearly all of them are reachable (one
- * curve can wait at a stroke's midpoint while the other swings), yet the
- * answer at 0.95 d is decided only at the spike, in the last rows.
- */
+/* Crossed zig-zags of amplitude A, n vertices each, with spikes near the end in opposite orders. */
 static void
 make_zigzag_pair(size_t n, point_buf *p, point_buf *q)
 {
-	double		step = ZIGZAG_WIDTH / (double) n;
+	double		drift = ZIGZAG_DRIFT / (double) (n - 1);
+	size_t		up = (n - 12) | 1;
+	size_t		down = up + 5;
 
+	/*
+	 * p swings along y and q along x, half a stroke apart, both through the
+	 * centre: a swing vertex of one is about sqrt(2) A from every swing
+	 * vertex of the other, but one curve can wait at the centre (within A)
+	 * while the other swings, so for A < eps < sqrt(2) A every free-space
+	 * cell is partly free and nearly all are reachable, while vertex-only
+	 * walks fail.  p spikes to +S, then -S; q to -S, then +S (so no vertex
+	 * lies outside the other curve's box): whichever spikes are matched, one
+	 * of p's is left roughly S from q, so d is a little under S, and at
+	 * 0.95 d the answer is settled only in the last rows and columns.
+	 */
 	*p = (point_buf) {0};
 	*q = (point_buf) {0};
 	for (size_t i = 0; i < n; i++)
 	{
-		double		y = (i % 2 == 0) ? -ZIGZAG_AMP : ZIGZAG_AMP;
+		double		along = drift * (double) i;
+		double		swing = (i % 2 == 1) ? ZIGZAG_AMP : -ZIGZAG_AMP;
 
-		buf_push(p, (double) i * step, y);
-		buf_push(q, ((double) i + 0.5) * step, y);
+		if (i == 0 || i == n - 1)
+			swing = 0.0;
+		if (i == up)
+		{
+			buf_push(p, along, ZIGZAG_SPIKE);
+			buf_push(q, 0.0, -ZIGZAG_SPIKE);
+		}
+		else if (i == down)
+		{
+			buf_push(p, along, -ZIGZAG_SPIKE);
+			buf_push(q, 0.0, ZIGZAG_SPIKE);
+		}
+		else
+		{
+			buf_push(p, along, swing);
+			buf_push(q, swing, along);
+		}
 	}
-	if (n >= 3)
-		p->xy[2 * (n - 2) + 1] *= ZIGZAG_SPIKE;
 }
 
 /* Prints GEOS errors and notices. */
@@ -473,7 +500,7 @@ run_method(method meth, const pair_data *pd, double eps, outcome *out)
 	}
 }
 
-/* Best wall time in ms over repetitions of one method; repeats while under the time budget, up to max_reps. */
+/* Best time in ms of one method, repeated up to max_reps times within the time budget. */
 static double
 time_method(method meth, const pair_data *pd, double eps, outcome *out,
 			const bench_opts *opts)
@@ -493,8 +520,8 @@ time_method(method meth, const pair_data *pd, double eps, outcome *out,
 			best = elapsed;
 		spent += elapsed;
 		if (rep > 0 && (again.value != out->value || again.decision != out->decision))
-			report_failure("%s pair n=%zu: method %d gave different answers on repetition",
-						   kind_names[pd->kind], pd->p.n, (int) meth);
+			report_failure("%s n=%zu: %s gave different answers on repetition",
+						   kind_names[pd->kind], pd->p.n, method_names[meth]);
 		if (spent + elapsed > REP_BUDGET_SEC)
 			break;
 	}
@@ -534,8 +561,13 @@ bench_pair(const pair_data *pd, const bench_opts *opts, row_result *row)
 	row->kind = pd->kind;
 	row->n = pd->p.n;
 	row->m = pd->q.n;
-	row->d_discrete = row->d_geos = NAN;
+	row->d = row->d_discrete = row->d_geos = NAN;
+	row->ms_distance = row->ms_decide[0] = row->ms_decide[1] = NAN;
 	row->ms_plain[0] = row->ms_plain[1] = row->ms_geos = row->ms_discrete = NAN;
+
+	/* on the adversarial pairs every method is quadratic, the engine's too */
+	if (skip && pd->kind == KIND_ZIGZAG)
+		return;
 
 	progress(pd, "fr_distance");
 	row->ms_distance = time_method(METHOD_DISTANCE, pd, 0.0, &out, opts);
@@ -598,7 +630,7 @@ table_add_row(text_table *t)
 	return t->cell[t->nrows++];
 }
 
-/* Prints a table: first column left-aligned, the others right-aligned, a rule under the header rows. */
+/* Prints a table: first column left-aligned, others right-aligned, a rule under the header. */
 static void
 table_print(const text_table *t)
 {
@@ -699,7 +731,7 @@ fmt_rate(char *dst, double units, double ms)
 		snprintf(dst, CELL_LEN, "%.3g", units / (ms * 1e-3));
 }
 
-/* Prints the timing table: ms per method and the ratios against the side-by-side baselines. */
+/* Prints the timing table: ms per method and ratios against the side-by-side baselines. */
 static void
 print_timings(const row_result *rows, size_t nrows)
 {
@@ -744,7 +776,10 @@ print_timings(const row_result *rows, size_t nrows)
 		fmt_ratio(c[10], r->ms_plain[0], r->ms_decide[0]);
 		fmt_ratio(c[11], r->ms_plain[1], r->ms_decide[1]);
 		fmt_ratio(c[12], r->ms_geos, r->ms_distance);
-		snprintf(c[13], CELL_LEN, "%" PRIu64, r->decisions);
+		if (isnan(r->ms_distance))
+			snprintf(c[13], CELL_LEN, "n/a");
+		else
+			snprintf(c[13], CELL_LEN, "%" PRIu64, r->decisions);
 	}
 	table_print(&t);
 	table_free(&t);
@@ -775,13 +810,16 @@ print_values(const row_result *rows, size_t nrows)
 		fmt_dist(c[3], r->d);
 		fmt_dist(c[4], r->d_discrete);
 		fmt_dist(c[5], r->d_geos);
-		snprintf(c[6], CELL_LEN, "%" PRIu64, r->distance_cells);
+		if (isnan(r->ms_distance))
+			snprintf(c[6], CELL_LEN, "n/a");
+		else
+			snprintf(c[6], CELL_LEN, "%" PRIu64, r->distance_cells);
 	}
 	table_print(&t);
 	table_free(&t);
 }
 
-/* Prints decider throughput on the adversarial pairs: cells visited per second and n*m per second. */
+/* Prints decider throughput on the adversarial pairs, in cells and in n*m per second. */
 static void
 print_throughput(const row_result *rows, size_t nrows)
 {
@@ -833,16 +871,17 @@ usage(FILE *out)
 	fprintf(out,
 			"usage: bench [--quick] [--sizes N,N,...] [--max-cells N] [--reps N] [--seed N]\n"
 			"  --sizes N,...   curve sizes to run (default 1000,10000)\n"
-			"  --max-cells N   skip the O(n*m) methods (decide_plain, GEOS discrete,\n"
-			"                  fr_discrete) when n*m > N (default 2e8)\n"
+			"  --max-cells N   when n*m > N, skip the O(n*m) methods: decide_plain,\n"
+			"                  GEOS discrete, fr_discrete, and on adversarial pairs\n"
+			"                  every method (default 2e8)\n"
 			"  --reps N        at most N repetitions per measurement, best time\n"
 			"                  reported (default %d; repeats stop after %.1f s)\n"
-			"  --seed N        generator seed (default 1)\n"
+			"  --seed N        seed of the gps pairs (default 1)\n"
 			"  --quick         smoke run: sizes 200,1000 and one repetition\n",
 			DEFAULT_REPS, REP_BUDGET_SEC);
 }
 
-/* Returns the value of option name at argv[*i] ("--name V" or "--name=V"), or NULL if argv[*i] is another option. */
+/* Value of option name at argv[*i] ("--name V" or "--name=V"), or NULL for another option. */
 static const char *
 option_value(int argc, char **argv, int *i, const char *name)
 {
@@ -950,8 +989,9 @@ parse_args(int argc, char **argv, bench_opts *opts)
 			opts->seed = parse_uint(v, "--seed");
 		else
 		{
+			fprintf(stderr, "bench: unknown argument \"%s\"\n", argv[i]);
 			usage(stderr);
-			die("unknown argument \"%s\"", argv[i]);
+			exit(1);
 		}
 	}
 	if (sizes != NULL)
@@ -964,38 +1004,45 @@ parse_args(int argc, char **argv, bench_opts *opts)
 		opts->max_reps = opts->quick ? 1 : DEFAULT_REPS;
 }
 
-/* Runs every pair kind at every size and prints the report. */
-int
-main(int argc, char **argv)
+/* Stack for the measuring thread: GEOS 3.11's discrete Fréchet recurses about n+m deep. */
+static size_t
+worker_stack_bytes(const bench_opts *opts)
 {
-	bench_opts	opts;
+	double		largest = 0.0;
+	double		side;
+
+	for (size_t s = 0; s < opts->nsizes; s++)
+		largest = fmax(largest, (double) opts->sizes[s]);
+	/* 8 MB overflows near 10,000 points; GEOS runs only while n*m <= max_cells */
+	side = 1.1 * fmin(largest, sqrt(opts->max_cells));
+	return (size_t) (STACK_BASE_BYTES + 2.0 * side * STACK_BYTES_PER_VERTEX);
+}
+
+/* Thread body: runs every pair kind at every size and prints the report. */
+static void *
+run_benchmark(void *arg)
+{
+	const bench_opts *opts = arg;
 	row_result *rows;
 	size_t		nrows = 0;
 
-	parse_args(argc, argv, &opts);
-	geos_ctx = GEOS_init_r();
-	if (geos_ctx == NULL)
-		die("GEOS_init_r failed");
-	GEOSContext_setErrorMessageHandler_r(geos_ctx, geos_message, (void *) "error");
-	GEOSContext_setNoticeMessageHandler_r(geos_ctx, geos_message, (void *) "notice");
-
-	rows = calloc(2 * opts.nsizes, sizeof(*rows));
+	rows = calloc(2 * opts->nsizes, sizeof(*rows));
 	if (rows == NULL)
 		die("out of memory");
 
 	printf("frechet_ext bench: seed %" PRIu64 ", max-cells %.3g, best of up to %d "
 		   "repetition(s) (%.1f s budget each), GEOS %s\n",
-		   opts.seed, opts.max_cells, opts.max_reps, REP_BUDGET_SEC, GEOSversion());
+		   opts->seed, opts->max_cells, opts->max_reps, REP_BUDGET_SEC, GEOSversion());
 	fflush(stdout);
 
 	for (int kind = KIND_GPS; kind <= KIND_ZIGZAG; kind++)
 	{
-		for (size_t s = 0; s < opts.nsizes; s++)
+		for (size_t s = 0; s < opts->nsizes; s++)
 		{
 			pair_data	pd;
 
-			make_pair(&pd, (pair_kind) kind, opts.sizes[s], opts.seed);
-			bench_pair(&pd, &opts, &rows[nrows++]);
+			make_pair(&pd, (pair_kind) kind, opts->sizes[s], opts->seed);
+			bench_pair(&pd, opts, &rows[nrows++]);
 			free_pair(&pd);
 		}
 	}
@@ -1007,8 +1054,33 @@ main(int argc, char **argv)
 	printf("\nAdversarial decide throughput (cells/s: free-space cells the decider "
 		   "reports visiting; n*m/s: full diagram size per second):\n\n");
 	print_throughput(rows, nrows);
-
 	free(rows);
+	return NULL;
+}
+
+/* Parses the options, runs the measurements on a large-stack thread, reports failures. */
+int
+main(int argc, char **argv)
+{
+	bench_opts	opts;
+	pthread_attr_t attr;
+	pthread_t	worker;
+	int			err;
+
+	parse_args(argc, argv, &opts);
+	geos_ctx = GEOS_init_r();
+	if (geos_ctx == NULL)
+		die("GEOS_init_r failed");
+	GEOSContext_setErrorMessageHandler_r(geos_ctx, geos_message, (void *) "error");
+	GEOSContext_setNoticeMessageHandler_r(geos_ctx, geos_message, (void *) "notice");
+
+	if ((err = pthread_attr_init(&attr)) != 0 ||
+		(err = pthread_attr_setstacksize(&attr, worker_stack_bytes(&opts))) != 0 ||
+		(err = pthread_create(&worker, &attr, run_benchmark, &opts)) != 0 ||
+		(err = pthread_join(worker, NULL)) != 0)
+		die("cannot run the worker thread: %s", strerror(err));
+	pthread_attr_destroy(&attr);
+
 	GEOS_finish_r(geos_ctx);
 	if (failures > 0)
 	{
