@@ -10,6 +10,10 @@ CORE_OBJS = src/core/freespace.o src/core/decide.o src/core/distance.o \
 	src/core/discrete.o
 OBJS = $(CORE_OBJS) src/frechet_ext.o src/point_array.o
 
+# Index: cheap bounds in the engine, GiST operator class, planner support.
+CORE_OBJS += src/core/bounds.o
+OBJS += src/track_key.o src/gist.o src/support.o
+
 DATA_built = sql/frechet_ext--$(EXTVERSION).sql
 EXTRA_CLEAN = sql/frechet_ext--$(EXTVERSION).sql test/core/*.bin \
 	regression.diffs regression.out results
