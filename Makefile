@@ -51,3 +51,9 @@ check-core: $(CORE_TESTS)
 
 bench:
 	$(MAKE) -C bench
+
+# Index: unit tests of the summaries and cheap bounds.
+test/core/test_bounds.bin: test/core/test_bounds.c test/core/testutil.h $(CORE_SRC) src/core/*.h
+	$(CC) $(CORE_TEST_CFLAGS) -o $@ test/core/test_bounds.c $(CORE_SRC) -lcmocka -lm
+
+CORE_TESTS += test/core/test_bounds.bin
