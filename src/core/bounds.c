@@ -348,6 +348,82 @@ vertex_dist(const fr_curve *p, size_t i, const fr_curve *q, size_t j)
 	return sqrt(s);
 }
 
+/* Distance from vertex i of c to the point at parameter t of segment j of d. */
+static inline double
+vertex_to_segment_point(const fr_curve *c, size_t i, const fr_curve *d, size_t j, double t)
+{
+	const double *v = c->coords + i * c->dim,
+			   *a = d->coords + j * d->dim,
+			   *b = a + d->dim;
+	double		s = 0.0;
+
+	for (int k = 0; k < c->dim; k++)
+	{
+		double		x = (a[k] + t * (b[k] - a[k])) - v[k];
+
+		s += x * x;
+	}
+	return sqrt(s);
+}
+
+/*
+ * Smallest t >= low in [0, 1] where segment j of d comes within lim of
+ * vertex i of c, or -1.  The quadratic is solved approximately; the answer
+ * is then checked by measuring the distance at t directly, so rounding can
+ * only lose an exit, never admit one farther than lim.
+ */
+static double
+first_free_param(const fr_curve *c, size_t i, const fr_curve *d, size_t j, double low, double lim)
+{
+	const double *v = c->coords + i * c->dim,
+			   *a = d->coords + j * d->dim,
+			   *b = a + d->dim;
+	double		dd = 0.0,
+				dw = 0.0,
+				ww = 0.0,
+				t;
+
+	for (int k = 0; k < c->dim; k++)
+	{
+		double		e = b[k] - a[k],
+					w = a[k] - v[k];
+
+		dd += e * e;
+		dw += e * w;
+		ww += w * w;
+	}
+	if (!(dd > 0.0))
+		t = low;				/* a repeated point: free everywhere or nowhere */
+	else
+	{
+		double		foot = -dw / dd;
+		double		h2 = ww - foot * foot * dd;
+		double		half;
+
+		if (h2 < 0.0)
+			h2 = 0.0;
+		if (h2 > lim * lim)
+			return -1.0;
+		half = sqrt((lim * lim - h2) / dd);
+		if (foot + half < low)
+			return -1.0;
+		t = max2(low, foot - half);
+		if (t > 1.0)
+			return -1.0;
+	}
+	return vertex_to_segment_point(c, i, d, j, t) <= lim ? t : -1.0;
+}
+
+/* True when every vertex of d from index j on lies within lim of vertex i of c. */
+static bool
+rest_within(const fr_curve *c, size_t i, const fr_curve *d, size_t j, double lim)
+{
+	for (; j < d->n; j++)
+		if (vertex_dist(c, i, d, j) > lim)
+			return false;
+	return true;
+}
+
 /*
  * Greedy monotone vertex coupling: from (first, first), step to whichever
  * of the next pairs (both advance, p advances, q advances) is closest, as
@@ -397,6 +473,132 @@ greedy_coupling(const fr_curve *p, const fr_curve *q, double lim)
 	return true;
 }
 
+/* Distance from vertex i of c to segment j of d (its nearest point, measured directly). */
+static double
+vertex_segment_dist(const fr_curve *c, size_t i, const fr_curve *d, size_t j)
+{
+	const double *v = c->coords + i * c->dim,
+			   *a = d->coords + j * d->dim,
+			   *b = a + d->dim;
+	double		dd = 0.0,
+				dw = 0.0,
+				t;
+
+	for (int k = 0; k < c->dim; k++)
+	{
+		dd += (b[k] - a[k]) * (b[k] - a[k]);
+		dw += (b[k] - a[k]) * (a[k] - v[k]);
+	}
+	t = dd > 0.0 ? -dw / dd : 0.0;
+	t = t > 0.0 ? (t < 1.0 ? t : 1.0) : 0.0;	/* NaN falls to 0 */
+	return vertex_to_segment_point(c, i, d, j, t);
+}
+
+/*
+ * Is some vertex of c farther than lim from every point of d?  Then the
+ * distance exceeds lim (the negative filter of Bringmann, Künnemann &
+ * Nusser, SoCG 2019: the directed Hausdorff distance bounds the Fréchet
+ * distance from below).  Each vertex searches d's segments outward from
+ * where the previous vertex found a close one, so matching curves cost
+ * about O(n + m); the search gives up (false) after budget segment visits.
+ */
+static bool
+vertex_far_from_curve(const fr_curve *c, const fr_curve *d, double lim, size_t budget)
+{
+	size_t		nseg = d->n > 1 ? d->n - 1 : 1,
+				hint = 0;
+
+	for (size_t i = 0; i < c->n; i++)
+	{
+		bool		close = false;
+
+		for (size_t r = 0; r < nseg && !close; r++)
+		{
+			/* hint, hint+1, hint-1, hint+2, ... while either side remains */
+			for (int side = 0; side < 2 && !close; side++)
+			{
+				size_t		j;
+
+				if (r == 0 && side == 1)
+					continue;
+				if (side == 0 ? hint + r >= nseg : r > hint)
+					continue;
+				j = side == 0 ? hint + r : hint - r;
+				if (budget-- == 0)
+					return false;
+				if ((d->n > 1 ? vertex_segment_dist(c, i, d, j) : vertex_dist(c, i, d, 0)) <= lim)
+				{
+					close = true;
+					hint = j;
+				}
+			}
+			if (hint + r >= nseg && r >= hint)
+				break;
+		}
+		if (!close)
+			return true;
+	}
+	return false;
+}
+
+/*
+ * Greedy monotone walk through the free space at lim, along cell
+ * boundaries (Alt & Godau 1995: within a cell the free space is convex, so
+ * a straight move between two free boundary points stays free).  In cell
+ * (i, j), entered on its bottom edge at p's parameter s (q at vertex j) or
+ * on its left edge at q's parameter t (p at vertex i), it leaves through
+ * the top-right corner if that is free, else through whichever of the right
+ * and top edges it can enter lowest.  Reaching the far corner proves the
+ * distance is at most lim.  Greedy walks of this kind are the positive
+ * filters of Bringmann, Künnemann & Nusser (SoCG 2019).  O(n + m).
+ */
+static bool
+greedy_walk(const fr_curve *p, const fr_curve *q, double lim)
+{
+	size_t		i = 0,
+				j = 0;
+	bool		on_left = false;	/* entered on the left edge (else the bottom) */
+	double		pos = 0.0;		/* the entry parameter on that edge */
+
+	if (vertex_dist(p, 0, q, 0) > lim)
+		return false;
+	for (;;)
+	{
+		double		right,
+					top;
+
+		if (i + 1 == p->n)		/* p waits at its last vertex: q must finish near it */
+			return rest_within(p, i, q, j + 1, lim);
+		if (j + 1 == q->n)
+			return rest_within(q, j, p, i + 1, lim);
+		if (vertex_dist(p, i + 1, q, j + 1) <= lim)
+		{
+			i++;
+			j++;
+			on_left = false;
+			pos = 0.0;
+			continue;
+		}
+		/* right edge: p's vertex i+1 against q's segment j; top edge: q's vertex j+1 against p's segment i */
+		right = first_free_param(p, i + 1, q, j, on_left ? pos : 0.0, lim);
+		top = first_free_param(q, j + 1, p, i, on_left ? 0.0 : pos, lim);
+		if (right < 0.0 && top < 0.0)
+			return false;
+		if (top < 0.0 || (right >= 0.0 && right <= top))
+		{
+			i++;
+			on_left = true;
+			pos = right;
+		}
+		else
+		{
+			j++;
+			on_left = false;
+			pos = top;
+		}
+	}
+}
+
 /* Cheap verdict on "distance(p, q) <= eps"; see bounds.h. */
 fr_verdict
 fr_cheap_decide(const fr_curve *p, const fr_curve *q, double eps)
@@ -405,6 +607,7 @@ fr_cheap_decide(const fr_curve *p, const fr_curve *q, double eps)
 				kq;
 	double		mag,
 				lim;
+	size_t		budget;
 
 	if (isinf(eps))
 		return FR_NEAR;
@@ -415,9 +618,14 @@ fr_cheap_decide(const fr_curve *p, const fr_curve *q, double eps)
 	mag = max2(curve_magnitude(p), curve_magnitude(q));
 	if (fr_bound_loosen(max2(curve_box_gap(p, &kq), curve_box_gap(q, &kp)), mag) > eps)
 		return FR_FAR;
-	/* the coupling must clear eps by more than rounding, so the decider agrees */
+	/* a coupling must clear eps by more than rounding, so the decider agrees */
 	lim = eps - fr_bound_slack(eps, mag);
-	if (lim > 0.0 && greedy_coupling(p, q, lim))
+	if (lim > 0.0 && (greedy_coupling(p, q, lim) || greedy_walk(p, q, lim)))
 		return FR_NEAR;
+	/* and a far vertex must lie beyond eps by more than rounding */
+	lim = eps + fr_bound_slack(eps, mag);
+	budget = 8 * (p->n + q->n);
+	if (vertex_far_from_curve(p, q, lim, budget) || vertex_far_from_curve(q, p, lim, budget))
+		return FR_FAR;
 	return FR_UNDECIDED;
 }
