@@ -259,5 +259,7 @@ frechet_cheap_verdict_point_array(PG_FUNCTION_ARGS)
 	point_array_curve(b, 2, &q);
 	glue_check_epsilon(eps, 3);
 	v = fr_cheap_decide(&p, &q, eps);
+	PG_FREE_IF_COPY(a, 0);
+	PG_FREE_IF_COPY(b, 1);
 	PG_RETURN_TEXT_P(cstring_to_text(v == FR_FAR ? "far" : v == FR_NEAR ? "near" : "undecided"));
 }
