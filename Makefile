@@ -11,6 +11,10 @@ CORE_OBJS = src/core/freespace.o src/core/decide.o src/core/distance.o \
 	src/core/excursions.o src/core/prune.o
 OBJS = $(CORE_OBJS) src/frechet_ext.o src/point_array.o src/witness.o
 
+# Index: cheap bounds in the engine, GiST operator class, planner support.
+CORE_OBJS += src/core/bounds.o
+OBJS += src/track_key.o src/gist.o src/support.o
+
 DATA_built = sql/frechet_ext--$(EXTVERSION).sql
 EXTRA_CLEAN = sql/frechet_ext--$(EXTVERSION).sql test/core/*.bin \
 	regression.diffs regression.out results
@@ -34,26 +38,13 @@ sql/frechet_ext--$(EXTVERSION).sql: sql/frechet_ext.sql
 CORE_SRC = $(CORE_OBJS:.o=.c)
 CORE_TEST_CFLAGS = -std=c11 -O2 -g -Wall -Wextra -Wno-unused-parameter -Isrc/core
 
-test/core/test_engine.bin: test/core/test_engine.c test/core/testutil.h $(CORE_SRC) src/core/*.h
-	$(CC) $(CORE_TEST_CFLAGS) -o $@ test/core/test_engine.c $(CORE_SRC) -lcmocka -lm
+# One binary per test/core/test_*.c; every one links the engine and the
+# reference libraries (GEOS, PROJ) and cmocka.
+CORE_TESTS = $(patsubst %.c,%.bin,$(sort $(wildcard test/core/test_*.c)))
+CORE_TEST_LIBS = -lgeos_c -lproj -lcmocka -lm
 
-test/core/test_geos.bin: test/core/test_geos.c test/core/testutil.h $(CORE_SRC) src/core/*.h
-	$(CC) $(CORE_TEST_CFLAGS) -o $@ test/core/test_geos.c $(CORE_SRC) -lgeos_c -lcmocka -lm
-
-test/core/test_matching.bin: test/core/test_matching.c test/core/testutil.h $(CORE_SRC) src/core/*.h
-	$(CC) $(CORE_TEST_CFLAGS) -o $@ test/core/test_matching.c $(CORE_SRC) -lcmocka -lm
-
-test/core/test_partial.bin: test/core/test_partial.c test/core/testutil.h $(CORE_SRC) src/core/*.h
-	$(CC) $(CORE_TEST_CFLAGS) -o $@ test/core/test_partial.c $(CORE_SRC) -lcmocka -lm
-
-test/core/test_excursions.bin: test/core/test_excursions.c test/core/testutil.h $(CORE_SRC) src/core/*.h
-	$(CC) $(CORE_TEST_CFLAGS) -o $@ test/core/test_excursions.c $(CORE_SRC) -lcmocka -lm
-
-test/core/test_prune.bin: test/core/test_prune.c test/core/testutil.h $(CORE_SRC) src/core/*.h
-	$(CC) $(CORE_TEST_CFLAGS) -o $@ test/core/test_prune.c $(CORE_SRC) -lcmocka -lm
-
-CORE_TESTS = test/core/test_prune.bin test/core/test_engine.bin test/core/test_geos.bin test/core/test_matching.bin \
-	test/core/test_partial.bin test/core/test_excursions.bin
+test/core/%.bin: test/core/%.c test/core/testutil.h $(CORE_SRC) src/core/*.h
+	$(CC) $(CORE_TEST_CFLAGS) -o $@ $< $(CORE_SRC) $(CORE_TEST_LIBS)
 
 .PHONY: check-core core-tests bench
 core-tests: $(CORE_TESTS)

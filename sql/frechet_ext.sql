@@ -83,3 +83,165 @@ LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 100000 ROWS 2;
 
 COMMENT ON FUNCTION @extschema@.frechet_excursions(pg_catalog.point[], pg_catalog.point[], pg_catalog.float8) IS
 'stretches of the trip (vertex numbers) that an order-preserving matching cannot keep within epsilon of the route, with where on the route it left and rejoined; no rows exactly when frechet_at_most is true';
+-- Index support: a GiST operator class on point[] for range queries
+-- (frechet_at_most, through its planner support function) and k-nearest
+-- queries (ORDER BY track <-> route).  See src/gist.c and src/support.c.
+
+CREATE TYPE @extschema@.frechet_key;
+
+CREATE FUNCTION @extschema@.frechet_key_in(pg_catalog.cstring)
+RETURNS @extschema@.frechet_key
+AS 'MODULE_PATHNAME', 'frechet_key_in'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+
+CREATE FUNCTION @extschema@.frechet_key_out(@extschema@.frechet_key)
+RETURNS pg_catalog.cstring
+AS 'MODULE_PATHNAME', 'frechet_key_out'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+
+CREATE TYPE @extschema@.frechet_key (
+	INPUT = @extschema@.frechet_key_in,
+	OUTPUT = @extschema@.frechet_key_out,
+	INTERNALLENGTH = 136,
+	ALIGNMENT = double,
+	STORAGE = plain
+);
+
+COMMENT ON TYPE @extschema@.frechet_key IS
+'summary of tracks for the GiST index: ranges of the first vertex, the last vertex and the bounding-box corners; a range query''s reach';
+
+COMMENT ON FUNCTION @extschema@.frechet_key_in(pg_catalog.cstring) IS
+'text input of frechet_key';
+
+COMMENT ON FUNCTION @extschema@.frechet_key_out(@extschema@.frechet_key) IS
+'text output of frechet_key';
+
+CREATE FUNCTION @extschema@.frechet_track_key(track pg_catalog.point[])
+RETURNS @extschema@.frechet_key
+AS 'MODULE_PATHNAME', 'frechet_track_key_point_array'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 10;
+
+COMMENT ON FUNCTION @extschema@.frechet_track_key(pg_catalog.point[]) IS
+'the summary the GiST index keeps for a track: first vertex, last vertex, bounding box';
+
+CREATE FUNCTION @extschema@.frechet_reach(route pg_catalog.point[], epsilon pg_catalog.float8)
+RETURNS @extschema@.frechet_key
+AS 'MODULE_PATHNAME', 'frechet_reach_point_array'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 10;
+
+COMMENT ON FUNCTION @extschema@.frechet_reach(pg_catalog.point[], pg_catalog.float8) IS
+'the route''s summary with epsilon as its reach: the right operand of &~ in range queries';
+
+CREATE FUNCTION @extschema@.frechet_within_reach(track pg_catalog.point[], reach @extschema@.frechet_key)
+RETURNS pg_catalog.bool
+AS 'MODULE_PATHNAME', 'frechet_within_reach_point_array'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 10;
+
+COMMENT ON FUNCTION @extschema@.frechet_within_reach(pg_catalog.point[], @extschema@.frechet_key) IS
+'false only when the track cannot be within the reach''s epsilon of its route (first vertex, last vertex or a box side too far); a necessary condition for frechet_at_most';
+
+CREATE FUNCTION @extschema@.frechet_within_reach(reach @extschema@.frechet_key, track pg_catalog.point[])
+RETURNS pg_catalog.bool
+AS 'MODULE_PATHNAME', 'frechet_reach_within_point_array'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 10;
+
+COMMENT ON FUNCTION @extschema@.frechet_within_reach(@extschema@.frechet_key, pg_catalog.point[]) IS
+'frechet_within_reach with its operands swapped';
+
+CREATE OPERATOR @extschema@.&~ (
+	LEFTARG = pg_catalog.point[],
+	RIGHTARG = @extschema@.frechet_key,
+	FUNCTION = @extschema@.frechet_within_reach,
+	COMMUTATOR = OPERATOR(@extschema@.&~),
+	RESTRICT = pg_catalog.contsel,
+	JOIN = pg_catalog.contjoinsel
+);
+
+CREATE OPERATOR @extschema@.&~ (
+	LEFTARG = @extschema@.frechet_key,
+	RIGHTARG = pg_catalog.point[],
+	FUNCTION = @extschema@.frechet_within_reach,
+	COMMUTATOR = OPERATOR(@extschema@.&~),
+	RESTRICT = pg_catalog.contsel,
+	JOIN = pg_catalog.contjoinsel
+);
+
+COMMENT ON OPERATOR @extschema@.&~ (pg_catalog.point[], @extschema@.frechet_key) IS
+'the track may lie within the reach''s epsilon of its route: the lossy index condition of frechet_at_most';
+
+COMMENT ON OPERATOR @extschema@.&~ (@extschema@.frechet_key, pg_catalog.point[]) IS
+'the track may lie within the reach''s epsilon of its route (operands swapped)';
+
+CREATE FUNCTION @extschema@.frechet_gist_consistent(internal, pg_catalog.point[], pg_catalog.int2, pg_catalog.oid, internal)
+RETURNS pg_catalog.bool
+AS 'MODULE_PATHNAME', 'frechet_gist_consistent'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+
+CREATE FUNCTION @extschema@.frechet_gist_union(internal, internal)
+RETURNS @extschema@.frechet_key
+AS 'MODULE_PATHNAME', 'frechet_gist_union'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+
+CREATE FUNCTION @extschema@.frechet_gist_compress(internal)
+RETURNS internal
+AS 'MODULE_PATHNAME', 'frechet_gist_compress'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+
+CREATE FUNCTION @extschema@.frechet_gist_penalty(internal, internal, internal)
+RETURNS internal
+AS 'MODULE_PATHNAME', 'frechet_gist_penalty'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+
+CREATE FUNCTION @extschema@.frechet_gist_picksplit(internal, internal)
+RETURNS internal
+AS 'MODULE_PATHNAME', 'frechet_gist_picksplit'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+
+CREATE FUNCTION @extschema@.frechet_gist_same(@extschema@.frechet_key, @extschema@.frechet_key, internal)
+RETURNS internal
+AS 'MODULE_PATHNAME', 'frechet_gist_same'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+
+CREATE FUNCTION @extschema@.frechet_gist_distance(internal, pg_catalog.point[], pg_catalog.int2, pg_catalog.oid, internal)
+RETURNS pg_catalog.float8
+AS 'MODULE_PATHNAME', 'frechet_gist_distance'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+
+COMMENT ON FUNCTION @extschema@.frechet_gist_consistent(internal, pg_catalog.point[], pg_catalog.int2, pg_catalog.oid, internal) IS
+'GiST support: may an entry hold a track within the query''s reach';
+COMMENT ON FUNCTION @extschema@.frechet_gist_union(internal, internal) IS
+'GiST support: the key covering a set of entries';
+COMMENT ON FUNCTION @extschema@.frechet_gist_compress(internal) IS
+'GiST support: the summary of a track';
+COMMENT ON FUNCTION @extschema@.frechet_gist_penalty(internal, internal, internal) IS
+'GiST support: growth of a node''s key when it takes an entry';
+COMMENT ON FUNCTION @extschema@.frechet_gist_picksplit(internal, internal) IS
+'GiST support: split of a full page';
+COMMENT ON FUNCTION @extschema@.frechet_gist_same(@extschema@.frechet_key, @extschema@.frechet_key, internal) IS
+'GiST support: equality of keys';
+COMMENT ON FUNCTION @extschema@.frechet_gist_distance(internal, pg_catalog.point[], pg_catalog.int2, pg_catalog.oid, internal) IS
+'GiST support: a lower bound of the Fréchet distance from the query route to the tracks under an entry';
+
+CREATE OPERATOR CLASS @extschema@.frechet_track_ops
+DEFAULT FOR TYPE pg_catalog.point[] USING gist AS
+	OPERATOR 1 @extschema@.&~ (pg_catalog.point[], @extschema@.frechet_key),
+	OPERATOR 15 @extschema@.<-> (pg_catalog.point[], pg_catalog.point[]) FOR ORDER BY pg_catalog.float_ops,
+	FUNCTION 1 @extschema@.frechet_gist_consistent(internal, pg_catalog.point[], pg_catalog.int2, pg_catalog.oid, internal),
+	FUNCTION 2 @extschema@.frechet_gist_union(internal, internal),
+	FUNCTION 3 @extschema@.frechet_gist_compress(internal),
+	FUNCTION 5 @extschema@.frechet_gist_penalty(internal, internal, internal),
+	FUNCTION 6 @extschema@.frechet_gist_picksplit(internal, internal),
+	FUNCTION 7 @extschema@.frechet_gist_same(@extschema@.frechet_key, @extschema@.frechet_key, internal),
+	FUNCTION 8 @extschema@.frechet_gist_distance(internal, pg_catalog.point[], pg_catalog.int2, pg_catalog.oid, internal),
+	STORAGE @extschema@.frechet_key;
+
+CREATE FUNCTION @extschema@.frechet_at_most_support(internal)
+RETURNS internal
+AS 'MODULE_PATHNAME', 'frechet_at_most_support'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+
+COMMENT ON FUNCTION @extschema@.frechet_at_most_support(internal) IS
+'planner support for frechet_at_most: derives the lossy index condition track &~ frechet_reach(route, epsilon)';
+
+ALTER FUNCTION @extschema@.frechet_at_most(pg_catalog.point[], pg_catalog.point[], pg_catalog.float8)
+	SUPPORT @extschema@.frechet_at_most_support;

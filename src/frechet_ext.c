@@ -13,6 +13,7 @@
 #include "utils/guc.h"
 #include "utils/memutils.h"
 
+#include "bounds.h"
 #include "glue.h"
 
 PG_MODULE_MAGIC;
@@ -154,10 +155,21 @@ frechet_at_most_point_array(PG_FUNCTION_ARGS)
 	point_array_curve(a, 1, &p);
 	point_array_curve(b, 2, &q);
 	glue_check_epsilon(eps, 3);
-	glue_env_begin(&g, fr_scratch_bytes(p.n, q.n), "frechet_at_most");
-	st = fr_decide(&g.env, &p, &q, eps, &yes, NULL);
-	glue_env_end(&g);
-	glue_check_status(st, "frechet_at_most");
+	/* cheap bounds first (src/core/bounds.c); the decider only when they cannot tell */
+	switch (fr_cheap_decide(&p, &q, eps))
+	{
+		case FR_FAR:
+			yes = false;
+			break;
+		case FR_NEAR:
+			yes = true;
+			break;
+		default:
+			glue_env_begin(&g, fr_scratch_bytes(p.n, q.n), "frechet_at_most");
+			st = fr_decide(&g.env, &p, &q, eps, &yes, NULL);
+			glue_env_end(&g);
+			glue_check_status(st, "frechet_at_most");
+	}
 	PG_FREE_IF_COPY(a, 0);
 	PG_FREE_IF_COPY(b, 1);
 	PG_RETURN_BOOL(yes);

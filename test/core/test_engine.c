@@ -438,15 +438,38 @@ discrete_matches_its_definition(void **state)
 	}
 }
 
+/*
+ * Scattered points that keep the free space open but full of holes, ending
+ * with two far points visited in opposite orders: no filter settles a
+ * decision on this pair and nothing prunes.  Returns a malloc'd curve of
+ * n + 4 vertices; phase selects one of the two curves.
+ */
+static double *
+unprunable(size_t n, int phase)
+{
+	double	   *c = malloc(2 * (n + 4) * sizeof(double));
+	const double tail_a[] = {0, 20, 20, 20, 10, 0},
+				tail_b[] = {20, 20, 0, 20, 10, 0};
+
+	c[0] = c[1] = 0;
+	for (size_t i = 1; i <= n; i++)
+	{
+		c[2 * i] = cos(i * 2.4 + phase);
+		c[2 * i + 1] = sin(i * 1.7 + 2 * phase);
+	}
+	memcpy(c + 2 * (n + 1), phase ? tail_b : tail_a, sizeof(tail_a));
+	return c;
+}
+
 /* Engine contract: an interrupt stops the work and every block is released. */
 static void
 interrupt_stops_and_frees(void **state)
 {
 	size_t		n = 3000;
-	double	   *a = test_walk(n, 0, 0, 1),
-			   *b = test_jitter(a, n, 2, 0.1);
-	fr_curve	p = {a, n, 2},
-				q = {b, n, 2};
+	double	   *a = unprunable(n, 0),
+			   *b = unprunable(n, 1);
+	fr_curve	p = {a, n + 4, 2},
+				q = {b, n + 4, 2};
 	test_heap	h;
 	fr_env		e = test_env(&h);
 	double		d;
@@ -457,27 +480,11 @@ interrupt_stops_and_frees(void **state)
 	assert_int_equal(h.live, 0);
 	e = test_env(&h);
 	h.interrupt_after = 2;
-	assert_int_equal(fr_decide_plain(&e, &p, &q, 100.0, &yes, NULL), FR_EINTR);
+	assert_int_equal(fr_decide(&e, &p, &q, 1.5, &yes, NULL), FR_EINTR);
 	assert_int_equal(h.live, 0);
 	e = test_env(&h);
 	h.interrupt_after = 2;
-	{
-		/* two zig-zags in opposite phase: no filter settles it, little prunes */
-		double	   *za = malloc(2 * n * sizeof(double)),
-				   *zb = malloc(2 * n * sizeof(double));
-		fr_curve	zp = {za, n, 2},
-					zq = {zb, n, 2};
-
-		for (size_t i = 0; i < n; i++)
-		{
-			za[2 * i] = zb[2 * i] = (double) i;
-			za[2 * i + 1] = (i % 2) * 10.0;
-			zb[2 * i + 1] = i == 0 || i == n - 1 ? za[2 * i + 1] : ((i + 1) % 2) * 10.0;
-		}
-		assert_int_equal(fr_decide(&e, &zp, &zq, 6.0, &yes, NULL), FR_EINTR);
-		free(za);
-		free(zb);
-	}
+	assert_int_equal(fr_decide_plain(&e, &p, &q, 1.5, &yes, NULL), FR_EINTR);
 	assert_int_equal(h.live, 0);
 	e = test_env(&h);
 	h.interrupt_after = 2;

@@ -1,0 +1,121 @@
+/*
+ * bounds.h - summaries of curves for index keys, and cheap bounds on the
+ * Fréchet distance computed from summaries and from the curves themselves.
+ *
+ * Plain C11, no PostgreSQL headers.  Every lower bound returned here has
+ * already been loosened (fr_bound_loosen) so that it stays at or below what
+ * the engine's decider accepts, even where rounding blurs the last digits:
+ * a bound above a distance that fr_decide accepts would make an index drop
+ * a row that the exact call keeps.
+ */
+#ifndef FR_BOUNDS_H
+#define FR_BOUNDS_H
+
+#include <stdbool.h>
+#include <stddef.h>
+
+#include "frechet.h"
+
+/*
+ * Intervals of a summary (fr_key.lo[i] .. fr_key.hi[i]): the x and y of the
+ * first vertex, of the last vertex, then the four sides of the bounding box.
+ */
+enum
+{
+	FR_KEY_START_X = 0,
+	FR_KEY_START_Y,
+	FR_KEY_END_X,
+	FR_KEY_END_Y,
+	FR_KEY_MIN_X,
+	FR_KEY_MIN_Y,
+	FR_KEY_MAX_X,
+	FR_KEY_MAX_Y,
+	FR_KEY_NDIM
+};
+
+/*
+ * Summary of a set of curves (one curve: every interval is a single value).
+ * For each quantity above it holds the range the curves' values fall in.
+ * A query key also carries reach: the tolerance epsilon of a range query.
+ * Keys with infinite intervals cover every curve, including invalid ones.
+ */
+typedef struct fr_key
+{
+	double		lo[FR_KEY_NDIM];
+	double		hi[FR_KEY_NDIM];
+	double		reach;
+} fr_key;
+
+/* Verdict of the cheap bounds on "distance <= eps". */
+typedef enum fr_verdict
+{
+	FR_UNDECIDED = 0,			/* the bounds cannot tell; run the decider */
+	FR_FAR,						/* a lower bound exceeds eps: the answer is false */
+	FR_NEAR						/* a coupling within eps was found: the answer is true */
+} fr_verdict;
+
+/* The summary of one curve (x and y only; z is ignored, which keeps bounds valid). */
+void		fr_key_of_curve(const fr_curve *c, fr_key *key);
+
+/* A key that covers every curve: infinite intervals, reach 0. */
+void		fr_key_everything(fr_key *key);
+
+/* Widens acc to cover what k covers. */
+void		fr_key_union(fr_key *acc, const fr_key *k);
+
+/* True when both keys cover exactly the same ranges. */
+bool		fr_key_equal(const fr_key *a, const fr_key *b);
+
+/* Sum of the interval lengths (infinite for keys with infinite intervals). */
+double		fr_key_margin(const fr_key *k);
+
+/* How much the margin of orig grows when it must also cover add. */
+double		fr_key_penalty(const fr_key *orig, const fr_key *add);
+
+/*
+ * Slack that covers rounding in the engine: relative to the bound and to
+ * the largest coordinate magnitude involved, plus an absolute floor for
+ * squares that underflow.
+ */
+double		fr_bound_slack(double bound, double magnitude);
+
+/* A computed lower bound minus its slack, never below 0. */
+double		fr_bound_loosen(double bound, double magnitude);
+
+/*
+ * Lower bound on the Fréchet distance between any curve summarised by a and
+ * any curve summarised by b: first vertices, last vertices and each side of
+ * the bounding boxes must lie within the distance (a coupling matches the
+ * first and last vertices, and every vertex lies within the distance of the
+ * other curve, so the extreme ones bound the sides).  Loosened.
+ */
+double		fr_key_bound(const fr_key *a, const fr_key *b);
+
+/*
+ * fr_key_bound(node, qkey), raised by the largest distance from a vertex of
+ * the query to the node's overall bounding box: every vertex of the query
+ * lies within the distance of each curve, and each curve lies inside that
+ * box.  hull holds the query's convex hull (nhull x,y pairs): the distance
+ * to a box is convex, so its maximum over the vertices is at a hull vertex.
+ * Loosened.
+ */
+double		fr_key_hull_bound(const fr_key *node, const fr_key *qkey,
+							  const double *hull, size_t nhull);
+
+/*
+ * Convex hull of the curve's x,y vertices (Andrew's monotone chain).  sorted
+ * needs room for 2 n doubles and hull for 4 n; returns the number of hull
+ * vertices written to hull as x,y pairs (at least 1).  Allocates nothing.
+ */
+size_t		fr_convex_hull(const fr_curve *c, double *sorted, double *hull);
+
+/*
+ * Cheap bounds on "distance(p, q) <= eps", in O(n + m) time and no memory:
+ * the summary bound, the distance from each vertex to the other curve's
+ * bounding box, and a greedy monotone vertex coupling (its longest leash is
+ * an upper bound, Eiter & Mannila 1994).  Never contradicts fr_decide_plain:
+ * FR_FAR and FR_NEAR are given only with a margin above rounding.
+ */
+fr_verdict	fr_cheap_decide(const fr_curve *p, const fr_curve *q, double eps);
+
+#endif							/* FR_BOUNDS_H */

@@ -1,0 +1,314 @@
+/*
+ * gist.c - the GiST operator class frechet_track_ops on point[].
+ *
+ * Each entry is a frechet_key: for a leaf, the summary of one track (first
+ * vertex, last vertex, bounding box); for an inner node, the ranges those
+ * quantities take under it.  Range queries ("track &~ frechet_reach(route,
+ * eps)", which the planner support function derives from frechet_at_most)
+ * descend into every entry whose lower bound is within eps.  k-nearest
+ * queries ("ORDER BY track <-> route") get a lower bound of the Fréchet
+ * distance as the entry's distance, with recheck, so the executor reorders
+ * by the exact distance.
+ */
+#include "postgres.h"
+
+#include "access/gist.h"
+#include "access/stratnum.h"
+#include "utils/array.h"
+#include "utils/float.h"
+#include "utils/memutils.h"
+
+#include "glue.h"
+#include "index.h"
+
+PG_FUNCTION_INFO_V1(frechet_gist_compress);
+/* Leaf entries: the summary of the track (invalid tracks: the all-covering key). */
+Datum
+frechet_gist_compress(PG_FUNCTION_ARGS)
+{
+	GISTENTRY  *entry = (GISTENTRY *) PG_GETARG_POINTER(0);
+	GISTENTRY  *out;
+	ArrayType  *arr;
+	fr_key	   *key;
+
+	if (!entry->leafkey)
+		PG_RETURN_POINTER(entry);
+	arr = DatumGetArrayTypeP(entry->key);
+	key = palloc(sizeof(fr_key));
+	track_key_of_array(arr, key);
+	if ((Pointer) arr != DatumGetPointer(entry->key))
+		pfree(arr);
+	out = palloc(sizeof(GISTENTRY));
+	gistentryinit(*out, PointerGetDatum(key), entry->rel, entry->page, entry->offset, false);
+	PG_RETURN_POINTER(out);
+}
+
+PG_FUNCTION_INFO_V1(frechet_gist_consistent);
+/* May an entry hold a track within the query's reach?  Exact on leaves. */
+Datum
+frechet_gist_consistent(PG_FUNCTION_ARGS)
+{
+	GISTENTRY  *entry = (GISTENTRY *) PG_GETARG_POINTER(0);
+	StrategyNumber strategy = (StrategyNumber) PG_GETARG_UINT16(2);
+	bool	   *recheck = (bool *) PG_GETARG_POINTER(4);
+	fr_key	   *key = DatumGetFrechetKey(entry->key);
+	fr_key	   *query;
+
+	if (strategy != FRECHET_STRATEGY_REACH)
+		elog(ERROR, "frechet_track_ops: unknown strategy number %d", strategy);
+	query = PG_GETARG_FRECHET_KEY(1);
+
+	/*
+	 * On a leaf this is the very test of the &~ operator, so no recheck of
+	 * &~ is needed; frechet_at_most itself still runs as the filter.
+	 */
+	*recheck = false;
+	PG_RETURN_BOOL(fr_key_bound(key, query) <= query->reach);
+}
+
+PG_FUNCTION_INFO_V1(frechet_gist_union);
+/* The key covering a set of entries. */
+Datum
+frechet_gist_union(PG_FUNCTION_ARGS)
+{
+	GistEntryVector *entryvec = (GistEntryVector *) PG_GETARG_POINTER(0);
+	int		   *size = (int *) PG_GETARG_POINTER(1);
+	fr_key	   *out = palloc(sizeof(fr_key));
+
+	*out = *DatumGetFrechetKey(entryvec->vector[0].key);
+	for (int i = 1; i < entryvec->n; i++)
+		fr_key_union(out, DatumGetFrechetKey(entryvec->vector[i].key));
+	*size = sizeof(fr_key);
+	PG_RETURN_POINTER(out);
+}
+
+PG_FUNCTION_INFO_V1(frechet_gist_penalty);
+/* Cost of adding an entry under a node: growth of the node's summed interval lengths. */
+Datum
+frechet_gist_penalty(PG_FUNCTION_ARGS)
+{
+	GISTENTRY  *orig = (GISTENTRY *) PG_GETARG_POINTER(0);
+	GISTENTRY  *add = (GISTENTRY *) PG_GETARG_POINTER(1);
+	float	   *result = (float *) PG_GETARG_POINTER(2);
+
+	*result = (float) fr_key_penalty(DatumGetFrechetKey(orig->key), DatumGetFrechetKey(add->key));
+	PG_RETURN_POINTER(result);
+}
+
+/* An entry of a page being split, with its position along one interval. */
+typedef struct split_item
+{
+	double		center;
+	OffsetNumber off;
+} split_item;
+
+/* Orders split items by center. */
+static int
+split_item_cmp(const void *a, const void *b)
+{
+	double		x = ((const split_item *) a)->center,
+				y = ((const split_item *) b)->center;
+
+	return x < y ? -1 : x > y ? 1 : 0;
+}
+
+/* Midpoint of an interval; an interval infinite on both sides sorts last. */
+static double
+interval_center(const fr_key *k, int dim)
+{
+	double		c = k->lo[dim] / 2 + k->hi[dim] / 2;
+
+	return isnan(c) ? get_float8_infinity() : c;
+}
+
+PG_FUNCTION_INFO_V1(frechet_gist_picksplit);
+/*
+ * Splits a page: for each of the key's intervals, sort the entries by its
+ * midpoint and try every cut that leaves 30-70 % on each side; keep the cut
+ * whose two halves have the smallest summed margins (the margin criterion
+ * of the R*-tree, Beckmann, Kriegel, Schneider & Seeger 1990).
+ */
+Datum
+frechet_gist_picksplit(PG_FUNCTION_ARGS)
+{
+	GistEntryVector *entryvec = (GistEntryVector *) PG_GETARG_POINTER(0);
+	GIST_SPLITVEC *v = (GIST_SPLITVEC *) PG_GETARG_POINTER(1);
+	int			n = entryvec->n - FirstOffsetNumber;
+	split_item *items = palloc(n * sizeof(split_item));
+	split_item *best_items = palloc(n * sizeof(split_item));
+	fr_key	   *prefix = palloc(n * sizeof(fr_key));
+	fr_key	   *suffix = palloc(n * sizeof(fr_key));
+	double		best_cost = get_float8_infinity();
+	int			best_cut = n / 2;
+	int			min_cut = Max(1, (n * 3) / 10),
+				max_cut = Min(n - 1, n - (n * 3) / 10);
+	fr_key	   *left = palloc(sizeof(fr_key)),
+			   *right = palloc(sizeof(fr_key));
+
+	for (int i = 0; i < n; i++)
+	{
+		best_items[i].off = i + FirstOffsetNumber;
+		best_items[i].center = 0;
+	}
+	for (int dim = 0; dim < FR_KEY_NDIM; dim++)
+	{
+		for (int i = 0; i < n; i++)
+		{
+			items[i].off = i + FirstOffsetNumber;
+			items[i].center = interval_center(DatumGetFrechetKey(entryvec->vector[items[i].off].key), dim);
+		}
+		qsort(items, n, sizeof(split_item), split_item_cmp);
+		for (int i = 0; i < n; i++)
+		{
+			prefix[i] = *DatumGetFrechetKey(entryvec->vector[items[i].off].key);
+			if (i > 0)
+				fr_key_union(&prefix[i], &prefix[i - 1]);
+		}
+		for (int i = n - 1; i >= 0; i--)
+		{
+			suffix[i] = *DatumGetFrechetKey(entryvec->vector[items[i].off].key);
+			if (i < n - 1)
+				fr_key_union(&suffix[i], &suffix[i + 1]);
+		}
+		for (int cut = min_cut; cut <= max_cut; cut++)
+		{
+			double		cost = fr_key_margin(&prefix[cut - 1]) + fr_key_margin(&suffix[cut]);
+
+			/* with infinite margins everywhere, the first cut of the first interval stays */
+			if (cost < best_cost)
+			{
+				best_cost = cost;
+				best_cut = cut;
+				memcpy(best_items, items, n * sizeof(split_item));
+			}
+		}
+	}
+
+	v->spl_left = palloc(n * sizeof(OffsetNumber));
+	v->spl_right = palloc(n * sizeof(OffsetNumber));
+	v->spl_nleft = v->spl_nright = 0;
+	for (int i = 0; i < n; i++)
+	{
+		const fr_key *k = DatumGetFrechetKey(entryvec->vector[best_items[i].off].key);
+
+		if (i < best_cut)
+		{
+			if (v->spl_nleft == 0)
+				*left = *k;
+			else
+				fr_key_union(left, k);
+			v->spl_left[v->spl_nleft++] = best_items[i].off;
+		}
+		else
+		{
+			if (v->spl_nright == 0)
+				*right = *k;
+			else
+				fr_key_union(right, k);
+			v->spl_right[v->spl_nright++] = best_items[i].off;
+		}
+	}
+	v->spl_ldatum = PointerGetDatum(left);
+	v->spl_rdatum = PointerGetDatum(right);
+	pfree(items);
+	pfree(best_items);
+	pfree(prefix);
+	pfree(suffix);
+	PG_RETURN_POINTER(v);
+}
+
+PG_FUNCTION_INFO_V1(frechet_gist_same);
+/* Are two keys the same? */
+Datum
+frechet_gist_same(PG_FUNCTION_ARGS)
+{
+	fr_key	   *a = PG_GETARG_FRECHET_KEY(0);
+	fr_key	   *b = PG_GETARG_FRECHET_KEY(1);
+	bool	   *result = (bool *) PG_GETARG_POINTER(2);
+
+	*result = fr_key_equal(a, b);
+	PG_RETURN_POINTER(result);
+}
+
+/*
+ * The query route of a k-nearest scan, decoded once: its summary and its
+ * convex hull.  Kept in fn_extra and reused while the query value has the
+ * same bytes (a new value, after a rescan, is decoded again).
+ */
+typedef struct route_cache
+{
+	Size		rawlen;
+	char	   *raw;			/* the query datum's bytes, as passed */
+	fr_key		key;
+	double	   *hull;
+	size_t		nhull;
+} route_cache;
+
+/* The decoded query route, from the cache when its bytes are unchanged. */
+static route_cache *
+route_cache_get(FunctionCallInfo fcinfo, Datum query)
+{
+	route_cache *rc = (route_cache *) fcinfo->flinfo->fn_extra;
+	struct varlena *raw = (struct varlena *) DatumGetPointer(query);
+	Size		rawlen = VARSIZE_ANY(raw);
+	bool		cacheable = !VARATT_IS_EXTERNAL_EXPANDED(raw);
+	MemoryContext old;
+	ArrayType  *arr;
+	fr_curve	c;
+	double	   *sorted;
+
+	if (rc != NULL && cacheable && rc->raw != NULL &&
+		rc->rawlen == rawlen && memcmp(rc->raw, raw, rawlen) == 0)
+		return rc;
+	if (rc == NULL)
+		rc = MemoryContextAllocZero(fcinfo->flinfo->fn_mcxt, sizeof(route_cache));
+	if (rc->raw != NULL)
+		pfree(rc->raw);
+	if (rc->hull != NULL)
+		pfree(rc->hull);
+	rc->raw = NULL;
+	rc->hull = NULL;
+	fcinfo->flinfo->fn_extra = rc;
+
+	arr = DatumGetArrayTypeP(query);
+	/* the route is the right operand of track <-> route: argument 2 */
+	point_array_curve(arr, 2, &c);
+	fr_key_of_curve(&c, &rc->key);
+	old = MemoryContextSwitchTo(fcinfo->flinfo->fn_mcxt);
+	sorted = palloc(2 * c.n * sizeof(double));
+	rc->hull = palloc(4 * c.n * sizeof(double));
+	rc->nhull = fr_convex_hull(&c, sorted, rc->hull);
+	pfree(sorted);
+	if (cacheable)
+	{
+		rc->raw = palloc(rawlen);
+		memcpy(rc->raw, raw, rawlen);
+		rc->rawlen = rawlen;
+	}
+	MemoryContextSwitchTo(old);
+	if ((Pointer) arr != DatumGetPointer(query))
+		pfree(arr);
+	return rc;
+}
+
+PG_FUNCTION_INFO_V1(frechet_gist_distance);
+/*
+ * A lower bound of the Fréchet distance from the query route to every
+ * track under the entry; on leaves the executor rechecks with the exact
+ * distance and reorders.
+ */
+Datum
+frechet_gist_distance(PG_FUNCTION_ARGS)
+{
+	GISTENTRY  *entry = (GISTENTRY *) PG_GETARG_POINTER(0);
+	StrategyNumber strategy = (StrategyNumber) PG_GETARG_UINT16(2);
+	bool	   *recheck = (bool *) PG_GETARG_POINTER(4);
+	route_cache *rc;
+
+	if (strategy != FRECHET_STRATEGY_DISTANCE)
+		elog(ERROR, "frechet_track_ops: unknown ordering strategy number %d", strategy);
+	rc = route_cache_get(fcinfo, PG_GETARG_DATUM(1));
+	*recheck = true;
+	PG_RETURN_FLOAT8(fr_key_hull_bound(DatumGetFrechetKey(entry->key), &rc->key,
+									   rc->hull, rc->nhull));
+}

@@ -1,0 +1,32 @@
+/*
+ * index.h - shared pieces of the index glue: the frechet_key SQL type, the
+ * strategy numbers of the GiST operator class, and track decoding that
+ * never fails (for index keys of rows whose track is invalid).
+ */
+#ifndef FRECHET_INDEX_H
+#define FRECHET_INDEX_H
+
+#include "postgres.h"
+#include "fmgr.h"
+#include "utils/array.h"
+
+#include "bounds.h"
+
+/* Strategy of "track &~ frechet_reach(route, epsilon)": the range-query condition. */
+#define FRECHET_STRATEGY_REACH 1
+/* Strategy of "track <-> route" in ORDER BY: k-nearest tracks. */
+#define FRECHET_STRATEGY_DISTANCE 15
+
+/* frechet_key values are fr_key structs stored as they are (fixed length, by reference). */
+#define DatumGetFrechetKey(d) ((fr_key *) DatumGetPointer(d))
+#define PG_GETARG_FRECHET_KEY(n) DatumGetFrechetKey(PG_GETARG_DATUM(n))
+
+/*
+ * The summary of a stored track.  A track the SQL functions would reject
+ * (empty, NULLs, non-finite or out-of-range coordinates, several dimensions)
+ * gets a key that covers everything, so the index returns its row and the
+ * exact call raises the same error it raises without an index.
+ */
+void		track_key_of_array(ArrayType *arr, fr_key *key);
+
+#endif							/* FRECHET_INDEX_H */

@@ -1,0 +1,90 @@
+/*
+ * support.c - the planner support function of frechet_at_most.  When one
+ * argument of frechet_at_most(a, b, epsilon) is a column (or expression)
+ * with a frechet_track_ops GiST index, the planner asks this function for
+ * an index condition.  We hand it
+ *
+ *     column &~ frechet_reach(other, epsilon)
+ *
+ * which is necessary but not sufficient (lossy): the index returns every
+ * track whose first vertex, last vertex and bounding-box sides lie within
+ * epsilon of the route's, and frechet_at_most runs on each of them.  The
+ * Fréchet distance is symmetric, so either argument may be the column.
+ */
+#include "postgres.h"
+
+#include "catalog/pg_type.h"
+#include "nodes/makefuncs.h"
+#include "nodes/nodeFuncs.h"
+#include "nodes/supportnodes.h"
+#include "optimizer/optimizer.h"
+#include "parser/parse_func.h"
+#include "utils/lsyscache.h"
+#include "utils/syscache.h"
+
+#include "index.h"
+
+/* Builds "indexed &~ frechet_reach(route, eps)" if the index's opfamily is ours. */
+static List *
+reach_index_condition(SupportRequestIndexCondition *req)
+{
+	FuncExpr   *call = (FuncExpr *) req->node;
+	Node	   *indexed,
+			   *route,
+			   *eps;
+	Oid			nsp,
+				keytype,
+				opno,
+				reachfn;
+	Oid			argtypes[2] = {POINTARRAYOID, FLOAT8OID};
+	Expr	   *reach;
+
+	if (!is_funcclause(req->node) || list_length(call->args) != 3 || req->indexarg > 1)
+		return NIL;
+	indexed = (Node *) list_nth(call->args, req->indexarg);
+	route = (Node *) list_nth(call->args, 1 - req->indexarg);
+	eps = (Node *) list_nth(call->args, 2);
+	if (exprType(indexed) != POINTARRAYOID || exprType(route) != POINTARRAYOID)
+		return NIL;
+	if (!is_pseudo_constant_for_index(req->root, route, req->index) ||
+		!is_pseudo_constant_for_index(req->root, eps, req->index))
+		return NIL;
+
+	/* our objects live in frechet_at_most's schema; never look them up by search_path */
+	nsp = get_func_namespace(req->funcid);
+	keytype = GetSysCacheOid2(TYPENAMENSP, Anum_pg_type_oid,
+							  CStringGetDatum("frechet_key"), ObjectIdGetDatum(nsp));
+	if (!OidIsValid(keytype))
+		return NIL;
+	opno = get_opfamily_member(req->opfamily, POINTARRAYOID, keytype, FRECHET_STRATEGY_REACH);
+	if (!OidIsValid(opno))
+		return NIL;				/* another operator class on point[] */
+	reachfn = LookupFuncName(list_make2(makeString(get_namespace_name(nsp)),
+										makeString("frechet_reach")),
+							 2, argtypes, true);
+	if (!OidIsValid(reachfn))
+		return NIL;
+
+	reach = (Expr *) makeFuncExpr(reachfn, keytype, list_make2(route, eps),
+								  InvalidOid, InvalidOid, COERCE_EXPLICIT_CALL);
+	req->lossy = true;
+	return list_make1(make_opclause(opno, BOOLOID, false, (Expr *) indexed, reach,
+									InvalidOid, InvalidOid));
+}
+
+PG_FUNCTION_INFO_V1(frechet_at_most_support);
+/* Planner support for frechet_at_most: a lossy index condition. */
+Datum
+frechet_at_most_support(PG_FUNCTION_ARGS)
+{
+	Node	   *rawreq = (Node *) PG_GETARG_POINTER(0);
+
+	if (IsA(rawreq, SupportRequestIndexCondition))
+	{
+		List	   *conds = reach_index_condition((SupportRequestIndexCondition *) rawreq);
+
+		if (conds != NIL)
+			PG_RETURN_POINTER(conds);
+	}
+	PG_RETURN_POINTER(NULL);
+}
