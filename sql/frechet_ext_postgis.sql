@@ -1,0 +1,137 @@
+-- frechet_ext_postgis install script: Fréchet distances on PostGIS geometry
+-- and geography.  The C functions live in the frechet_ext library, which
+-- neither includes PostGIS headers nor links PostGIS: it asks PostGIS for
+-- ST_AsEWKB of each argument and decodes the EWKB itself.
+\echo Use "CREATE EXTENSION frechet_ext_postgis" to load this file. \quit
+
+-- PostgreSQL 15 has no @extschema:postgis@; while this script runs, the
+-- schema of postgis (a required extension) is on search_path after ours.
+-- Make sure the type names below resolve to PostGIS's own types.
+DO $$
+DECLARE
+	pg_nsp oid := (SELECT extnamespace FROM pg_catalog.pg_extension WHERE extname = 'postgis');
+BEGIN
+	IF (SELECT typnamespace FROM pg_catalog.pg_type WHERE oid = 'geometry'::pg_catalog.regtype) <> pg_nsp
+	   OR (SELECT typnamespace FROM pg_catalog.pg_type WHERE oid = 'geography'::pg_catalog.regtype) <> pg_nsp THEN
+		RAISE EXCEPTION 'geometry or geography does not resolve to the types of postgis'
+			USING DETAIL = 'Another type of that name is in the target schema.',
+			      HINT = 'Install frechet_ext_postgis in the schema of postgis or in a schema without such types.';
+	END IF;
+END $$;
+
+-- EWKB entry points: usable without PostGIS values, e.g. on EWKB from elsewhere.
+CREATE FUNCTION @extschema@.frechet_distance_ewkb(a pg_catalog.bytea, b pg_catalog.bytea, geodetic pg_catalog.bool DEFAULT false)
+RETURNS pg_catalog.float8
+AS 'MODULE_PATHNAME', 'frechet_distance_ewkb'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 50000;
+
+COMMENT ON FUNCTION @extschema@.frechet_distance_ewkb(pg_catalog.bytea, pg_catalog.bytea, pg_catalog.bool) IS
+'continuous Fréchet distance between two EWKB/WKB LineStrings or Points; geodetic: lon/lat degrees, result in metres on WGS84';
+
+CREATE FUNCTION @extschema@.frechet_at_most_ewkb(a pg_catalog.bytea, b pg_catalog.bytea, epsilon pg_catalog.float8, geodetic pg_catalog.bool DEFAULT false)
+RETURNS pg_catalog.bool
+AS 'MODULE_PATHNAME', 'frechet_at_most_ewkb'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 5000;
+
+COMMENT ON FUNCTION @extschema@.frechet_at_most_ewkb(pg_catalog.bytea, pg_catalog.bytea, pg_catalog.float8, pg_catalog.bool) IS
+'true when the continuous Fréchet distance between two EWKB/WKB curves is at most epsilon (metres on WGS84 when geodetic)';
+
+CREATE FUNCTION @extschema@.discrete_frechet_distance_ewkb(a pg_catalog.bytea, b pg_catalog.bytea, geodetic pg_catalog.bool DEFAULT false)
+RETURNS pg_catalog.float8
+AS 'MODULE_PATHNAME', 'discrete_frechet_distance_ewkb'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 10000;
+
+COMMENT ON FUNCTION @extschema@.discrete_frechet_distance_ewkb(pg_catalog.bytea, pg_catalog.bytea, pg_catalog.bool) IS
+'discrete Fréchet distance between two EWKB/WKB curves; geodetic: lon/lat degrees, result in metres on WGS84';
+
+-- Used by the index condition that the planner support function builds.
+CREATE FUNCTION @extschema@.frechet_index_expansion(epsilon pg_catalog.float8, geodetic pg_catalog.bool)
+RETURNS pg_catalog.float8
+AS 'MODULE_PATHNAME', 'frechet_index_expansion'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+
+COMMENT ON FUNCTION @extschema@.frechet_index_expansion(pg_catalog.float8, pg_catalog.bool) IS
+'how far a bounding box is expanded for the index filter of frechet_at_most (internal; validates epsilon)';
+
+CREATE FUNCTION @extschema@.frechet_at_most_support(internal)
+RETURNS internal
+AS 'MODULE_PATHNAME', 'frechet_at_most_support'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+
+COMMENT ON FUNCTION @extschema@.frechet_at_most_support(internal) IS
+'planner support for frechet_at_most on geometry and geography: a lossy bounding-box index condition expanded by epsilon';
+
+-- geometry: planar, in the units of the SRID; 3-D when both curves have Z.
+CREATE FUNCTION @extschema@.frechet_distance(a geometry, b geometry)
+RETURNS pg_catalog.float8
+AS 'MODULE_PATHNAME', 'frechet_distance_geometry'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 50000;
+
+COMMENT ON FUNCTION @extschema@.frechet_distance(geometry, geometry) IS
+'continuous Fréchet distance between two LineStrings (or Points), in the units of their SRID; 3-D when both have Z';
+
+CREATE FUNCTION @extschema@.frechet_at_most(a geometry, b geometry, epsilon pg_catalog.float8)
+RETURNS pg_catalog.bool
+AS 'MODULE_PATHNAME', 'frechet_at_most_geometry'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 5000
+SUPPORT @extschema@.frechet_at_most_support;
+
+COMMENT ON FUNCTION @extschema@.frechet_at_most(geometry, geometry, pg_catalog.float8) IS
+'true when the continuous Fréchet distance is at most epsilon (units of the SRID); uses a PostGIS index on either argument';
+
+CREATE FUNCTION @extschema@.discrete_frechet_distance(a geometry, b geometry)
+RETURNS pg_catalog.float8
+AS 'MODULE_PATHNAME', 'discrete_frechet_distance_geometry'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 10000;
+
+COMMENT ON FUNCTION @extschema@.discrete_frechet_distance(geometry, geometry) IS
+'discrete Fréchet distance (vertex couplings only) between two LineStrings, in the units of their SRID';
+
+-- geography: metres on the WGS84 ellipsoid (Earth-centred chord metric).
+CREATE FUNCTION @extschema@.frechet_distance(a geography, b geography)
+RETURNS pg_catalog.float8
+AS 'MODULE_PATHNAME', 'frechet_distance_geography'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 50000;
+
+COMMENT ON FUNCTION @extschema@.frechet_distance(geography, geography) IS
+'continuous Fréchet distance between two lon/lat LineStrings, in metres on WGS84';
+
+CREATE FUNCTION @extschema@.frechet_at_most(a geography, b geography, epsilon pg_catalog.float8)
+RETURNS pg_catalog.bool
+AS 'MODULE_PATHNAME', 'frechet_at_most_geography'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 5000
+SUPPORT @extschema@.frechet_at_most_support;
+
+COMMENT ON FUNCTION @extschema@.frechet_at_most(geography, geography, pg_catalog.float8) IS
+'true when the continuous Fréchet distance is at most epsilon metres on WGS84; uses a PostGIS geography index on either argument';
+
+CREATE FUNCTION @extschema@.discrete_frechet_distance(a geography, b geography)
+RETURNS pg_catalog.float8
+AS 'MODULE_PATHNAME', 'discrete_frechet_distance_geography'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 10000;
+
+COMMENT ON FUNCTION @extschema@.discrete_frechet_distance(geography, geography) IS
+'discrete Fréchet distance between two lon/lat LineStrings, in metres on WGS84';
+
+-- PostGIS already owns <-> on geometry and geography (box and centroid
+-- distance for nearest-neighbour searches), so the Fréchet distance
+-- operator of these types is spelled <~>.
+CREATE OPERATOR @extschema@.<~> (
+	LEFTARG = geometry,
+	RIGHTARG = geometry,
+	FUNCTION = @extschema@.frechet_distance,
+	COMMUTATOR = OPERATOR(@extschema@.<~>)
+);
+
+COMMENT ON OPERATOR @extschema@.<~> (geometry, geometry) IS
+'continuous Fréchet distance, the same as frechet_distance(geometry, geometry)';
+
+CREATE OPERATOR @extschema@.<~> (
+	LEFTARG = geography,
+	RIGHTARG = geography,
+	FUNCTION = @extschema@.frechet_distance,
+	COMMUTATOR = OPERATOR(@extschema@.<~>)
+);
+
+COMMENT ON OPERATOR @extschema@.<~> (geography, geography) IS
+'continuous Fréchet distance in metres, the same as frechet_distance(geography, geography)';
