@@ -125,6 +125,22 @@ type_name(uint32 base)
 			return "MultiPolygon";
 		case WKB_COLLECTION:
 			return "GeometryCollection";
+		case 8:
+			return "CircularString";
+		case 9:
+			return "CompoundCurve";
+		case 10:
+			return "CurvePolygon";
+		case 11:
+			return "MultiCurve";
+		case 12:
+			return "MultiSurface";
+		case 13:
+			return "PolyhedralSurface";
+		case 14:
+			return "TIN";
+		case 15:
+			return "Triangle";
 		default:
 			return NULL;
 	}
@@ -140,7 +156,7 @@ reject_type(const wkb_reader *r, uint32 base)
 		ereport(ERROR,
 				(errcode(ERRCODE_INVALID_BINARY_REPRESENTATION),
 				 errmsg("invalid EWKB: unknown geometry type code %u", base),
-				 errdetail("Argument %d is not a geometry that WKB defines as Point, LineString, Polygon or a collection.",
+				 errdetail("Argument %d has a type code that neither OGC WKB nor EWKB defines.",
 						   r->argno)));
 	if (base == WKB_MULTILINESTRING)
 		ereport(ERROR,
