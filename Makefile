@@ -7,8 +7,9 @@ MODULE_big = frechet_ext
 EXTVERSION = 0.1
 
 CORE_OBJS = src/core/freespace.o src/core/decide.o src/core/distance.o \
-	src/core/discrete.o
-OBJS = $(CORE_OBJS) src/frechet_ext.o src/point_array.o
+	src/core/discrete.o src/core/matching.o src/core/partial.o \
+	src/core/excursions.o
+OBJS = $(CORE_OBJS) src/frechet_ext.o src/point_array.o src/witness.o
 
 DATA_built = sql/frechet_ext--$(EXTVERSION).sql
 EXTRA_CLEAN = sql/frechet_ext--$(EXTVERSION).sql test/core/*.bin \
@@ -48,9 +49,21 @@ test/core/test_engine.bin: test/core/test_engine.c test/core/testutil.h $(CORE_S
 test/core/test_geos.bin: test/core/test_geos.c test/core/testutil.h $(CORE_SRC) src/core/*.h
 	$(CC) $(CORE_TEST_CFLAGS) -o $@ test/core/test_geos.c $(CORE_SRC) -lgeos_c -lcmocka -lm
 
-CORE_TESTS = test/core/test_engine.bin test/core/test_geos.bin
+test/core/test_matching.bin: test/core/test_matching.c test/core/testutil.h $(CORE_SRC) src/core/*.h
+	$(CC) $(CORE_TEST_CFLAGS) -o $@ test/core/test_matching.c $(CORE_SRC) -lcmocka -lm
 
-.PHONY: check-core bench
+test/core/test_partial.bin: test/core/test_partial.c test/core/testutil.h $(CORE_SRC) src/core/*.h
+	$(CC) $(CORE_TEST_CFLAGS) -o $@ test/core/test_partial.c $(CORE_SRC) -lcmocka -lm
+
+test/core/test_excursions.bin: test/core/test_excursions.c test/core/testutil.h $(CORE_SRC) src/core/*.h
+	$(CC) $(CORE_TEST_CFLAGS) -o $@ test/core/test_excursions.c $(CORE_SRC) -lcmocka -lm
+
+CORE_TESTS = test/core/test_engine.bin test/core/test_geos.bin test/core/test_matching.bin \
+	test/core/test_partial.bin test/core/test_excursions.bin
+
+.PHONY: check-core core-tests bench
+core-tests: $(CORE_TESTS)
+
 check-core: $(CORE_TESTS)
 	@set -e; for t in $(CORE_TESTS); do ./$$t; done
 

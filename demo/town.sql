@@ -3,7 +3,7 @@
 -- on a local grid (x east, y north) with the town hall at (0, 0).
 -- Everything here is fiction; the GPS noise and sampling are simulated.
 
-\echo '-- loading Wrenmere Vale: 4 bus lines, 60 trips'
+\echo '-- loading Wrenmere Vale: 4 bus lines, 63 trips'
 SELECT setseed(0.42) \gset
 
 CREATE TABLE bus_line (
@@ -86,5 +86,11 @@ FROM bus_line l WHERE l.line_id IN ('W1', 'W2', 'W3');
 INSERT INTO trip
 SELECT 300 + row_number() OVER (), 'hire-' || l.line_id, NULL, 'unlabelled, drove ' || l.line_id, demo_drive(l.route, 10)
 FROM bus_line l WHERE l.line_id IN ('W2', 'W3', 'W4');
+
+\echo '-- simulating 3 trips that turned back early (part of their line only)'
+INSERT INTO trip
+SELECT 400 + row_number() OVER (), 'bus-40', l.line_id, 'covered part of the line',
+       demo_drive(l.route[2:array_length(l.route, 1) - 2], 8)
+FROM bus_line l WHERE l.line_id IN ('W1', 'W2', 'W4');
 
 SELECT count(*) AS trips, sum(array_length(track, 1)) AS gps_fixes FROM trip;

@@ -2,18 +2,131 @@
  * decide.c - the decision "Fréchet distance <= eps" by reachability in the
  * free space (Alt & Godau 1995, section 3): reachable parts of cell
  * boundaries are propagated row by row; only one row is kept, O(n+m) memory.
+ *
+ * Layout used throughout the engine: curve p runs along the x axis of the
+ * free space (cells i = 0..n-2), curve q along y (rows j = 0..m-2).  A
+ * reachable set on a cell boundary is stored as the lower end of its
+ * reachable part (FR_EMPTY if none); its upper end is always the free
+ * interval's upper end, because reachability only ever cuts from below.
  */
 #include <math.h>
 
 #include "fr_internal.h"
 
 /*
- * Decision on prepared curves.  Curve p runs along the x axis of the free
- * space (cells i = 0..n-2), q along y (rows j = 0..m-2).  row[i] holds the
- * lower end of the reachable part of the bottom boundary of cell (i, j)
- * (FR_EMPTY if none); its upper end is always the free interval's upper end,
- * because reachability only ever cuts intervals from below.  row must have
- * room for n - 1 doubles.
+ * Bottom edge of the diagram (row 0's bottom boundaries), reachable from
+ * (0,0) along y = 0 while fully free.  row gets n - 1 entries.
+ */
+void
+fr_bottom_edge(const fr_prep *p, const fr_prep *q, double eps, double *row)
+{
+	bool		open = true;
+
+	for (size_t i = 0; i + 1 < p->n; i++)
+	{
+		double		lo,
+					hi;
+
+		row[i] = FR_EMPTY;
+		if (!open)
+			continue;
+		fr_free_interval(&q->v[0], &p->v[i], &p->s[i], &p->v[i + 1], eps, &lo, &hi);
+		if (lo == 0.0)
+			row[i] = 0.0;
+		open = lo == 0.0 && hi == 1.0;
+	}
+}
+
+/*
+ * Left edge of row j: the free interval of p[0] against segment q[j].
+ * Returns its lower end (FR_EMPTY if empty); *full says whether it is all of
+ * [0,1].
+ */
+double
+fr_left_edge(const fr_prep *p, const fr_prep *q, size_t j, double eps, bool *full)
+{
+	double		lo,
+				hi;
+
+	fr_free_interval(&p->v[0], &q->v[j], &q->s[j], &q->v[j + 1], eps, &lo, &hi);
+	*full = lo == 0.0 && hi == 1.0;
+	return lo <= hi ? lo : FR_EMPTY;
+}
+
+/*
+ * Propagates reachability through row j.  On entry row[i] is the reachable
+ * lower end on the bottom of cell (i, j) and lr the one on the left edge;
+ * on return row[i] is that of the top of cell (i, j).  If left is not NULL,
+ * left[i] receives the reachable lower end on the left boundary of cell
+ * (i, j) for i = 0..n-1 (left[n-1]: the right edge of the diagram).
+ * Returns the reachable lower end on the right edge; *any_top says whether
+ * any top boundary is reachable.  FR_EINTR if interrupted.
+ */
+fr_status
+fr_row_step(const fr_prep *p, const fr_prep *q, size_t j, double eps,
+			double *row, double lr, double *left, double *right,
+			bool *any_top, fr_poll *poll)
+{
+	const size_t n = p->n;
+	const fr_pt *pv = p->v,
+			   *qa = &q->v[j],
+			   *qb = &q->v[j + 1];
+	const fr_seg *qs = &q->s[j];
+	bool		any = false;
+
+	for (size_t i = 0; i + 1 < n; i++)
+	{
+		double		br = row[i],
+					a,
+					b,
+					c,
+					d,
+					nlr,
+					nbr;
+
+		if (left)
+			left[i] = lr;
+		if (br == FR_EMPTY && lr == FR_EMPTY)
+			continue;			/* nothing enters: right and top stay empty */
+
+		/* right boundary: vertex p[i+1] against segment q[j]q[j+1] */
+		fr_free_interval(&pv[i + 1], qa, qs, qb, eps, &a, &b);
+		if (br != FR_EMPTY)
+			nlr = a <= b ? a : FR_EMPTY;
+		else
+		{
+			nlr = a > lr ? a : lr;
+			if (nlr > b)
+				nlr = FR_EMPTY;
+		}
+		/* top boundary: vertex q[j+1] against segment p[i]p[i+1] */
+		fr_free_interval(qb, &pv[i], &p->s[i], &pv[i + 1], eps, &c, &d);
+		if (lr != FR_EMPTY)
+			nbr = c <= d ? c : FR_EMPTY;
+		else
+		{
+			nbr = c > br ? c : br;
+			if (nbr > d)
+				nbr = FR_EMPTY;
+		}
+		row[i] = nbr;
+		lr = nlr;
+		any |= nbr != FR_EMPTY;
+		/* long rows: poll inside the row as well (cancel within ~100 ms) */
+		if ((i & 0xFFFF) == 0xFFFF && fr_poll_add(poll, 0x10000))
+			return FR_EINTR;
+	}
+	if (left)
+		left[n - 1] = lr;
+	*right = lr;
+	*any_top = any;
+	if (fr_poll_add(poll, (n - 1) & 0xFFFF))
+		return FR_EINTR;
+	return FR_OK;
+}
+
+/*
+ * Decision on prepared curves.  row must have room for n - 1 doubles.
  */
 fr_status
 fr_decide_prepared(const fr_env *env, const fr_prep *p, const fr_prep *q,
@@ -21,11 +134,9 @@ fr_decide_prepared(const fr_env *env, const fr_prep *p, const fr_prep *q,
 {
 	const size_t n = p->n,
 				m = q->n;
-	const fr_pt *pv = p->v,
-			   *qv = q->v;
 	fr_poll		poll;
-	bool		open;
-	double		lr = FR_EMPTY;
+	bool		open = true;
+	double		right = FR_EMPTY;
 
 	if (stats)
 		stats->decisions++;
@@ -36,93 +147,34 @@ fr_decide_prepared(const fr_env *env, const fr_prep *p, const fr_prep *q,
 	}
 	if (n == 1 || m == 1)
 	{
-		double		d = n == 1 ? fr_point_curve_dist(&pv[0], q) : fr_point_curve_dist(&qv[0], p);
+		double		d = n == 1 ? fr_point_curve_dist(&p->v[0], q) : fr_point_curve_dist(&q->v[0], p);
 
 		*result = d <= eps;
 		return FR_OK;
 	}
-	if (fr_pt_dist(&pv[0], &qv[0]) > eps || fr_pt_dist(&pv[n - 1], &qv[m - 1]) > eps)
+	if (fr_pt_dist(&p->v[0], &q->v[0]) > eps || fr_pt_dist(&p->v[n - 1], &q->v[m - 1]) > eps)
 	{
 		*result = false;
 		return FR_OK;
 	}
 	fr_poll_init(&poll, env);
-
-	/* bottom edge of the diagram: reachable from (0,0) while fully free */
-	open = true;
-	for (size_t i = 0; i + 1 < n; i++)
-	{
-		double		lo,
-					hi;
-
-		row[i] = FR_EMPTY;
-		if (!open)
-			continue;
-		fr_free_interval(&qv[0], &pv[i], &p->s[i], &pv[i + 1], eps, &lo, &hi);
-		if (lo == 0.0)
-			row[i] = 0.0;
-		open = lo == 0.0 && hi == 1.0;
-	}
-
-	open = true;				/* the left edge, likewise */
+	fr_bottom_edge(p, q, eps, row);
 	for (size_t j = 0; j + 1 < m; j++)
 	{
-		const fr_pt *qa = &qv[j],
-				   *qb = &qv[j + 1];
-		const fr_seg *qs = &q->s[j];
-		bool		any_top = false;
+		double		lr = FR_EMPTY;
+		bool		any_top;
+		fr_status	st;
 
-		lr = FR_EMPTY;
+		/* the left edge is reachable from (0,0) while fully free */
 		if (open)
 		{
-			double		lo,
-						hi;
-
-			fr_free_interval(&pv[0], qa, qs, qb, eps, &lo, &hi);
-			if (lo == 0.0)
-				lr = 0.0;
-			open = lo == 0.0 && hi == 1.0;
+			lr = fr_left_edge(p, q, j, eps, &open);
+			if (lr != 0.0)
+				lr = FR_EMPTY;
 		}
-		for (size_t i = 0; i + 1 < n; i++)
-		{
-			double		br = row[i],
-						a,
-						b,
-						c,
-						d,
-						nlr,
-						nbr;
-
-			if (br == FR_EMPTY && lr == FR_EMPTY)
-				continue;		/* nothing enters: right and top stay empty */
-
-			/* right boundary: vertex p[i+1] against segment q[j]q[j+1] */
-			fr_free_interval(&pv[i + 1], qa, qs, qb, eps, &a, &b);
-			if (br != FR_EMPTY)
-				nlr = a <= b ? a : FR_EMPTY;
-			else
-			{
-				nlr = a > lr ? a : lr;
-				if (nlr > b)
-					nlr = FR_EMPTY;
-			}
-			/* top boundary: vertex q[j+1] against segment p[i]p[i+1] */
-			fr_free_interval(qb, &pv[i], &p->s[i], &pv[i + 1], eps, &c, &d);
-			if (lr != FR_EMPTY)
-				nbr = c <= d ? c : FR_EMPTY;
-			else
-			{
-				nbr = c > br ? c : br;
-				if (nbr > d)
-					nbr = FR_EMPTY;
-			}
-			row[i] = nbr;
-			lr = nlr;
-			any_top |= nbr != FR_EMPTY;
-			/* long rows: poll inside the row as well (cancel within ~100 ms) */
-			if ((i & 0xFFFF) == 0xFFFF && fr_poll_add(&poll, 0x10000))
-				return FR_EINTR;
-		}
+		st = fr_row_step(p, q, j, eps, row, lr, NULL, &right, &any_top, &poll);
+		if (st != FR_OK)
+			return st;
 		if (stats)
 			stats->cells += n - 1;
 		/* nothing reaches the next row: no later row is reachable either */
@@ -131,11 +183,9 @@ fr_decide_prepared(const fr_env *env, const fr_prep *p, const fr_prep *q,
 			*result = false;
 			return FR_OK;
 		}
-		if (fr_poll_add(&poll, (n - 1) & 0xFFFF))
-			return FR_EINTR;
 	}
 	/* the end point (1 on the last boundaries) is free, so non-empty means reached */
-	*result = lr != FR_EMPTY || row[n - 2] != FR_EMPTY;
+	*result = right != FR_EMPTY || row[n - 2] != FR_EMPTY;
 	return FR_OK;
 }
 

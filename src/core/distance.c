@@ -48,8 +48,8 @@ cmp_double(const void *a, const void *b)
  * whose leash never exceeds its largest vertex distance (the distance
  * between two linearly moving points is convex in time).
  */
-static double
-greedy_upper_bound(const fr_prep *p, const fr_prep *q)
+double
+fr_greedy_upper_bound(const fr_prep *p, const fr_prep *q)
 {
 	size_t		i = 0,
 				j = 0;
@@ -94,6 +94,7 @@ greedy_upper_bound(const fr_prep *p, const fr_prep *q)
 typedef struct search
 {
 	const fr_env *env;
+	fr_decider	decide;
 	const fr_prep *p;
 	const fr_prep *q;
 	double	   *row;
@@ -108,7 +109,7 @@ static fr_status
 probe(search *s, double eps)
 {
 	bool		yes;
-	fr_status	st = fr_decide_prepared(s->env, s->p, s->q, eps, s->row, &yes, s->stats);
+	fr_status	st = s->decide(s->env, s->p, s->q, eps, s->row, &yes, s->stats);
 
 	if (st != FR_OK)
 		return st;
@@ -187,9 +188,12 @@ bits_double(uint64_t u)
 	return x;
 }
 
-/* The search on prepared curves with at least two vertices each. */
+/*
+ * The search for the smallest eps the decider accepts, given a lower bound
+ * s->lo and an upper bound s->hi that a valid matching attains.
+ */
 static fr_status
-search_distance(search *s, double *result)
+search_threshold(search *s, double *result)
 {
 	double		sample[SAMPLE_SIZE];
 	uint64_t	rng = 0x5EED0000ull ^ (s->p->n * 31 + s->q->n);
@@ -197,11 +201,6 @@ search_distance(search *s, double *result)
 	fr_status	st;
 
 	fr_poll_init(&poll, s->env);
-
-	/* (a): both end pairs must be matched, so the distance is at least this */
-	s->lo = fmax(fr_pt_dist(&s->p->v[0], &s->q->v[0]),
-				 fr_pt_dist(&s->p->v[s->p->n - 1], &s->q->v[s->q->n - 1]));
-	s->hi = greedy_upper_bound(s->p, s->q);
 	s->hi_checked = false;
 	if (s->hi <= s->lo)
 	{
@@ -275,6 +274,51 @@ search_distance(search *s, double *result)
 	return FR_OK;
 }
 
+/*
+ * Smallest eps accepted by a decider on prepared curves (two or more
+ * vertices each), searched from the bounds lo and hi; row has room for
+ * p->n - 1 doubles.
+ */
+fr_status
+fr_threshold_search(const fr_env *env, const fr_prep *p, const fr_prep *q,
+					fr_decider decide, double lo, double hi, double *row,
+					double *result, fr_stats *stats)
+{
+	search		s;
+
+	memset(&s, 0, sizeof(s));
+	s.env = env;
+	s.decide = decide;
+	s.p = p;
+	s.q = q;
+	s.row = row;
+	s.stats = stats;
+	s.lo = lo;
+	s.hi = hi;
+	return search_threshold(&s, result);
+}
+
+/*
+ * Continuous Fréchet distance on prepared curves; row has room for
+ * p->n - 1 doubles (unused when a curve is a single point).
+ */
+fr_status
+fr_distance_prepared(const fr_env *env, const fr_prep *p, const fr_prep *q,
+					 double *row, double *result, fr_stats *stats)
+{
+	double		lo;
+
+	if (p->n == 1 || q->n == 1)
+	{
+		*result = p->n == 1 ? fr_point_curve_dist(&p->v[0], q) : fr_point_curve_dist(&q->v[0], p);
+		return FR_OK;
+	}
+	/* (a): both end pairs must be matched, so the distance is at least this */
+	lo = fmax(fr_pt_dist(&p->v[0], &q->v[0]), fr_pt_dist(&p->v[p->n - 1], &q->v[q->n - 1]));
+	return fr_threshold_search(env, p, q, fr_decide_prepared, lo,
+							   fr_greedy_upper_bound(p, q), row, result, stats);
+}
+
 /* Continuous Fréchet distance between two curves. */
 fr_status
 fr_distance(const fr_env *env, const fr_curve *p, const fr_curve *q,
@@ -283,28 +327,17 @@ fr_distance(const fr_env *env, const fr_curve *p, const fr_curve *q,
 	fr_prep		pp,
 				pq;
 	fr_status	st;
-	search		s;
+	double	   *row;
 
 	st = fr_prepare_pair(env, p, q, &pp, &pq);
 	if (st != FR_OK)
 		return st;
-	if (pp.n == 1 || pq.n == 1)
-	{
-		*result = pp.n == 1 ? fr_point_curve_dist(&pp.v[0], &pq) : fr_point_curve_dist(&pq.v[0], &pp);
-		fr_release_pair(env, &pp, &pq);
-		return FR_OK;
-	}
-	memset(&s, 0, sizeof(s));
-	s.env = env;
-	s.p = &pp;
-	s.q = &pq;
-	s.stats = stats;
-	s.row = fr_alloc(env, (pp.n - 1) * sizeof(double));
-	if (s.row == NULL)
+	row = fr_alloc(env, pp.n * sizeof(double));
+	if (row == NULL)
 		st = FR_ENOMEM;
 	else
-		st = search_distance(&s, result);
-	fr_free(env, s.row);
+		st = fr_distance_prepared(env, &pp, &pq, row, result, stats);
+	fr_free(env, row);
 	fr_release_pair(env, &pp, &pq);
 	return st;
 }

@@ -78,6 +78,18 @@ fr_status	fr_prepare_pair(const fr_env *env, const fr_curve *p, const fr_curve *
 							fr_prep *pp, fr_prep *pq);
 void		fr_release_pair(const fr_env *env, fr_prep *pp, fr_prep *pq);
 
+/* Segments of a prepared curve from its vertices (freespace.c). */
+fr_status	fr_prep_segments(const fr_env *env, fr_prep *out);
+
+/* Points of a prepared curve at position k + t, or at a position k+t given as a double. */
+fr_pt		fr_prep_point(const fr_prep *c, size_t k, double t);
+fr_pt		fr_prep_point_at(const fr_prep *c, double pos);
+
+/* A part of a prepared curve, optionally reversed, with vertex positions on c. */
+fr_status	fr_prep_subcurve(const fr_env *env, const fr_prep *c, double from, double to,
+							 bool reversed, fr_prep *out, double **orig);
+void		fr_release_prep(const fr_env *env, fr_prep *c);
+
 /* Euclidean distance between two vertices. */
 static inline double
 fr_pt_dist(const fr_pt *a, const fr_pt *b)
@@ -101,9 +113,35 @@ double		fr_point_segment_dist(const fr_pt *p, const fr_pt *a, const fr_seg *s,
 void		fr_free_interval(const fr_pt *p, const fr_pt *a, const fr_seg *s,
 							 const fr_pt *b, double eps, double *lo, double *hi);
 
+/* Row-by-row reachability pieces shared by the deciders and witnesses (decide.c). */
+void		fr_bottom_edge(const fr_prep *p, const fr_prep *q, double eps, double *row);
+double		fr_left_edge(const fr_prep *p, const fr_prep *q, size_t j, double eps, bool *full);
+fr_status	fr_row_step(const fr_prep *p, const fr_prep *q, size_t j, double eps,
+						double *row, double lr, double *left, double *right,
+						bool *any_top, fr_poll *poll);
+
 /* Decision on prepared curves (plain Alt & Godau reachability). */
 fr_status	fr_decide_prepared(const fr_env *env, const fr_prep *p, const fr_prep *q,
 							   double eps, double *row, bool *result, fr_stats *stats);
+
+/* A decider on prepared curves; row has room for p->n - 1 doubles. */
+typedef fr_status (*fr_decider) (const fr_env *env, const fr_prep *p, const fr_prep *q,
+								 double eps, double *row, bool *result, fr_stats *stats);
+
+/* Smallest eps a decider accepts, between bounds (distance.c). */
+fr_status	fr_threshold_search(const fr_env *env, const fr_prep *p, const fr_prep *q,
+								fr_decider decide, double lo, double hi, double *row,
+								double *result, fr_stats *stats);
+
+/* Largest vertex distance along a greedy monotone vertex walk: an upper bound (distance.c). */
+double		fr_greedy_upper_bound(const fr_prep *p, const fr_prep *q);
+
+/* Continuous distance on prepared curves (distance.c). */
+fr_status	fr_distance_prepared(const fr_env *env, const fr_prep *p, const fr_prep *q,
+								 double *row, double *result, fr_stats *stats);
+
+/* Parameter in [lo, hi] of segment k of c nearest to p (freespace.c). */
+double		fr_nearest_param(const fr_pt *p, const fr_prep *c, size_t k, double lo, double hi);
 
 /* Max distance from a single vertex to the vertices of a curve (one-point cases). */
 double		fr_point_curve_dist(const fr_pt *pt, const fr_prep *c);

@@ -102,6 +102,88 @@ fr_status	fr_distance(const fr_env *env, const fr_curve *p, const fr_curve *q,
 fr_status	fr_discrete_distance(const fr_env *env, const fr_curve *p,
 								 const fr_curve *q, double *result);
 
+/*
+ * A breakpoint of a matching: positions on p and q as k + t (0-based vertex
+ * k, fraction t of the way to vertex k+1) and the leash between them.
+ */
+typedef struct fr_match_pt
+{
+	double		a_pos;
+	double		b_pos;
+	double		leash;
+} fr_match_pt;
+
+/*
+ * A witness: a monotone matching of p and q, as breakpoints from (0,0) to
+ * (n-1, m-1); moving linearly between consecutive breakpoints keeps the
+ * leash within eps.  eps < 0 or NaN asks for an optimal matching (eps =
+ * the distance, stored in *used_eps).  *found is false (and *out NULL) when
+ * no matching within eps exists.  *out is allocated through env and holds
+ * *count breakpoints.  Memory: see fr_matching_scratch_bytes.
+ */
+fr_status	fr_matching(const fr_env *env, const fr_curve *p, const fr_curve *q,
+						double eps, fr_match_pt **out, size_t *count, bool *found,
+						double *used_eps, fr_stats *stats);
+
+/*
+ * Upper bound of the bytes fr_matching may request: about
+ * 23 * min(n,m) * sqrt(max(n,m)) + 100 * (n + m) bytes (checkpointed rows).
+ */
+size_t		fr_matching_scratch_bytes(size_t n, size_t m);
+
+/*
+ * Partial matching (Alt & Godau 1995): the smallest Fréchet distance
+ * between the trip and any part (subcurve) of the route; exact to double
+ * precision like fr_distance.
+ */
+fr_status	fr_partial_distance(const fr_env *env, const fr_curve *trip,
+								const fr_curve *route, double *result, fr_stats *stats);
+
+/*
+ * The part of the route, from *route_from to *route_to (positions k + t,
+ * 0-based), that the trip follows within eps, and the Fréchet distance
+ * between the trip and that part.  The part ends at the route point nearest
+ * to the trip's end among those a matching within eps can end at, and
+ * starts at the nearest to the trip's start among those from which that
+ * end is reachable.  *found is false when no part is within eps.
+ */
+fr_status	fr_partial_match(const fr_env *env, const fr_curve *trip, const fr_curve *route,
+							 double eps, bool *found, double *route_from, double *route_to,
+							 double *distance, fr_stats *stats);
+
+/*
+ * An excursion: a stretch of the trip, between vertices trip_from and
+ * trip_to (0-based), that the chosen order-preserving matching cannot keep
+ * within eps; it left the route at route_from and rejoined it at route_to
+ * (positions k + t, 0-based).  max_leash: the largest distance from a trip
+ * vertex of the stretch to that part of the route; trip_length: the
+ * stretch's length along the trip.
+ */
+typedef struct fr_excursion
+{
+	double		trip_from;
+	double		trip_to;
+	double		route_from;
+	double		route_to;
+	double		max_leash;
+	double		trip_length;
+} fr_excursion;
+
+/*
+ * Excursions of a trip from its route at eps; see excursions.c for the
+ * exact definition.  *out (allocated through env, NULL when none) holds
+ * *count excursions in trip order; none exactly when the Fréchet distance
+ * is at most eps.
+ */
+fr_status	fr_excursions(const fr_env *env, const fr_curve *trip, const fr_curve *route,
+						  double eps, fr_excursion **out, size_t *count, fr_stats *stats);
+
+/* Upper bound of the bytes fr_excursions may request. */
+size_t		fr_excursions_scratch_bytes(size_t n, size_t m);
+
+/* The point at position pos (k + t, 0-based) of a curve, into out[dim]. */
+void		fr_curve_point(const fr_curve *c, double pos, double *out);
+
 /* Length of the longest edge of a curve (0 for one vertex). */
 double		fr_longest_edge(const fr_curve *c);
 

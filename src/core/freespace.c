@@ -111,12 +111,20 @@ prepare_one(const fr_env *env, const fr_curve *c, const double *origin, fr_prep 
 		out->v[i].y = src[1] - origin[1];
 		out->v[i].z = c->dim > 2 ? src[2] - origin[2] : 0.0;
 	}
-	if (c->n < 2)
+	return fr_prep_segments(env, out);
+}
+
+/* Computes the segments of a prepared curve from its vertices. */
+fr_status
+fr_prep_segments(const fr_env *env, fr_prep *out)
+{
+	out->s = NULL;
+	if (out->n < 2)
 		return FR_OK;
-	out->s = fr_alloc(env, (c->n - 1) * sizeof(fr_seg));
+	out->s = fr_alloc(env, (out->n - 1) * sizeof(fr_seg));
 	if (out->s == NULL)
 		return FR_ENOMEM;
-	for (size_t i = 0; i + 1 < c->n; i++)
+	for (size_t i = 0; i + 1 < out->n; i++)
 	{
 		double		dx = out->v[i + 1].x - out->v[i].x,
 					dy = out->v[i + 1].y - out->v[i].y,
@@ -136,6 +144,95 @@ prepare_one(const fr_env *env, const fr_curve *c, const double *origin, fr_prep 
 		s->len = len;
 	}
 	return FR_OK;
+}
+
+/* The point at position k + t of a prepared curve. */
+fr_pt
+fr_prep_point(const fr_prep *c, size_t k, double t)
+{
+	fr_pt		r = c->v[k];
+
+	if (t > 0 && k + 1 < c->n)
+	{
+		r.x += t * (c->v[k + 1].x - r.x);
+		r.y += t * (c->v[k + 1].y - r.y);
+		r.z += t * (c->v[k + 1].z - r.z);
+	}
+	return r;
+}
+
+/* The point at position pos (a double k + t) of a prepared curve. */
+fr_pt
+fr_prep_point_at(const fr_prep *c, double pos)
+{
+	size_t		k;
+
+	if (!(pos > 0))
+		return c->v[0];
+	if (pos >= (double) (c->n - 1))
+		return c->v[c->n - 1];
+	k = (size_t) pos;
+	return fr_prep_point(c, k, pos - (double) k);
+}
+
+/*
+ * The part of c from position `from` to `to` (from <= to) as a prepared
+ * curve, optionally reversed; orig[k] receives the position on c of its
+ * vertex k, so that sub-position k + t is orig[k] + t (orig[k+1] - orig[k]).
+ */
+fr_status
+fr_prep_subcurve(const fr_env *env, const fr_prep *c, double from, double to,
+				 bool reversed, fr_prep *out, double **orig)
+{
+	size_t		first = (size_t) ceil(from),
+				last = (size_t) floor(to),
+				n = 0,
+				cap;
+	double	   *pos;
+
+	out->s = NULL;
+	*orig = NULL;
+	cap = (last >= first ? last - first + 1 : 0) + 2;
+	out->v = fr_alloc(env, cap * sizeof(fr_pt));
+	pos = fr_alloc(env, cap * sizeof(double));
+	if (out->v == NULL || pos == NULL)
+	{
+		fr_free(env, out->v);
+		fr_free(env, pos);
+		out->v = NULL;
+		return FR_ENOMEM;
+	}
+	pos[n++] = from;
+	for (size_t k = first; k <= last && k < c->n; k++)
+		if ((double) k > from && (double) k < to)
+			pos[n++] = (double) k;
+	if (to > from)
+		pos[n++] = to;
+	if (reversed)
+	{
+		for (size_t i = 0; i < n / 2; i++)
+		{
+			double		t = pos[i];
+
+			pos[i] = pos[n - 1 - i];
+			pos[n - 1 - i] = t;
+		}
+	}
+	for (size_t i = 0; i < n; i++)
+		out->v[i] = fr_prep_point_at(c, pos[i]);
+	out->n = n;
+	*orig = pos;
+	return fr_prep_segments(env, out);
+}
+
+/* Frees a prepared curve made by fr_prep_subcurve. */
+void
+fr_release_prep(const fr_env *env, fr_prep *c)
+{
+	fr_free(env, c->v);
+	fr_free(env, c->s);
+	c->v = NULL;
+	c->s = NULL;
 }
 
 /* Prepares both curves in one local frame. */
@@ -303,6 +400,23 @@ fr_free_interval(const fr_pt *p, const fr_pt *a, const fr_seg *s, const fr_pt *b
 	*hi = thi;
 	if (tlo > thi)
 		*lo = FR_EMPTY;
+}
+
+/*
+ * The parameter in [lo, hi] of segment k of c nearest to point p (the
+ * leash is convex along a segment, so clamping the foot is exact).
+ */
+double
+fr_nearest_param(const fr_pt *p, const fr_prep *c, size_t k, double lo, double hi)
+{
+	const fr_seg *s = &c->s[k];
+	double		foot;
+
+	if (s->len == 0.0)
+		return lo;
+	foot = (s->ux * (p->x - c->v[k].x) + s->uy * (p->y - c->v[k].y) +
+			s->uz * (p->z - c->v[k].z)) / s->len;
+	return foot < lo ? lo : foot > hi ? hi : foot;
 }
 
 /* Max distance from one vertex to the vertices of a curve. */

@@ -149,12 +149,90 @@ continuous_within_eiter_mannila_bounds_of_geos(void **state)
 	}
 }
 
+/* Diagonal of the bounding box of two 2-D curves. */
+static double
+extent_of(const fr_curve *a, const fr_curve *b)
+{
+	double		lo[2] = {INFINITY, INFINITY},
+				hi[2] = {-INFINITY, -INFINITY};
+	const fr_curve *c[2] = {a, b};
+
+	for (int k = 0; k < 2; k++)
+		for (size_t i = 0; i < c[k]->n; i++)
+			for (int d = 0; d < 2; d++)
+			{
+				lo[d] = fmin(lo[d], c[k]->coords[2 * i + d]);
+				hi[d] = fmax(hi[d], c[k]->coords[2 * i + d]);
+			}
+	return hypot(hi[0] - lo[0], hi[1] - lo[1]);
+}
+
+/*
+ * The bottleneck (the longest leash of our optimal matching) equals the
+ * distance and is at least GEOS's densified discrete Fréchet distance minus
+ * the Eiter & Mannila 1994 slack (the longest densified edge).
+ */
+static void
+bottleneck_against_geos(void **state)
+{
+	const double frac = 0.125;
+
+	for (int k = 0; k < 400; k++)
+	{
+		double	   *a,
+				   *b,
+					gd,
+					d,
+					used,
+					worst = 0,
+					edge;
+		size_t		n,
+					m,
+					count;
+		GEOSGeometry *ga,
+				   *gb;
+		fr_curve	ca,
+					cb;
+		fr_match_pt *pts;
+		bool		found;
+		test_heap	h;
+		fr_env		e = test_env(&h);
+
+		make_pair(k % 4, &a, &n, &b, &m);
+		ga = geos_line(a, n);
+		gb = geos_line(b, m);
+		ca = (fr_curve) {a, n, 2};
+		cb = (fr_curve) {b, m, 2};
+		edge = fmax(fr_longest_edge(&ca), fr_longest_edge(&cb));
+		assert_int_equal(GEOSFrechetDistanceDensify_r(geos, ga, gb, frac, &gd), 1);
+		d = ours(0, a, n, b, m);
+		assert_int_equal(fr_matching(&e, &ca, &cb, -1, &pts, &count, &found, &used, NULL), FR_OK);
+		assert_true(found);
+		for (size_t i = 0; i < count; i++)
+			worst = fmax(worst, pts[i].leash);
+		/*
+		 * Equal to 1e-9 relative, or to rounding of the breakpoint positions
+		 * (a few ulps of the curves' extent) for nearly identical curves.
+		 */
+		if (!(fabs(worst - d) <= fmax(1e-9 * d, 8 * DBL_EPSILON * extent_of(&ca, &cb))))
+			fail_msg("pair %d (kind %d): bottleneck %.17g, distance %.17g", k, k % 4, worst, d);
+		if (!(worst >= gd - frac * edge - 1e-12 * gd))
+			fail_msg("pair %d: bottleneck %.17g, GEOS densified %.17g", k, worst, gd);
+		free(pts);
+		GEOSGeom_destroy_r(geos, ga);
+		GEOSGeom_destroy_r(geos, gb);
+		free(a);
+		free(b);
+	}
+}
+
 int
 main(void)
 {
 	const struct CMUnitTest tests[] = {
 		cmocka_unit_test(discrete_matches_geos),
 		cmocka_unit_test(continuous_within_eiter_mannila_bounds_of_geos),
+		cmocka_unit_test(bottleneck_against_geos),
 	};
 	int			rc;
 

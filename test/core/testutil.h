@@ -23,7 +23,7 @@ typedef struct test_heap
 } test_heap;
 
 /* Counting malloc for the engine. */
-static void *
+static inline void *
 test_alloc(size_t size, void *arg)
 {
 	test_heap  *h = arg;
@@ -36,7 +36,7 @@ test_alloc(size_t size, void *arg)
 }
 
 /* Counting free for the engine. */
-static void
+static inline void
 test_release(void *ptr, void *arg)
 {
 	test_heap  *h = arg;
@@ -46,7 +46,7 @@ test_release(void *ptr, void *arg)
 }
 
 /* Interrupt callback that asks to stop after a number of calls. */
-static int
+static inline int
 test_interrupted(void *arg)
 {
 	test_heap  *h = arg;
@@ -56,7 +56,7 @@ test_interrupted(void *arg)
 }
 
 /* A fresh environment over a fresh heap record. */
-static fr_env
+static inline fr_env
 test_env(test_heap *h)
 {
 	fr_env		e;
@@ -74,7 +74,7 @@ test_env(test_heap *h)
 /* Deterministic generator (splitmix64) for test data. */
 static uint64_t test_rng_state = 12345;
 
-static uint64_t
+static inline uint64_t
 test_rand64(void)
 {
 	uint64_t	z = (test_rng_state += 0x9E3779B97F4A7C15ull);
@@ -85,14 +85,14 @@ test_rand64(void)
 }
 
 /* Uniform double in [lo, hi). */
-static double
+static inline double
 test_uniform(double lo, double hi)
 {
 	return lo + (hi - lo) * ((double) (test_rand64() >> 11) / 9007199254740992.0);
 }
 
 /* A random walk of n 2-D vertices with steps up to step, starting near (x0, y0). */
-static double *
+static inline double *
 test_walk(size_t n, double x0, double y0, double step)
 {
 	double	   *c = malloc(2 * n * sizeof(double));
@@ -110,7 +110,7 @@ test_walk(size_t n, double x0, double y0, double step)
 }
 
 /* A copy of a curve with each coordinate moved by up to noise. */
-static double *
+static inline double *
 test_jitter(const double *c, size_t n, int dim, double noise)
 {
 	double	   *d = malloc(dim * n * sizeof(double));
@@ -121,7 +121,7 @@ test_jitter(const double *c, size_t n, int dim, double noise)
 }
 
 /* Relative closeness with an absolute floor for values near zero. */
-static int
+static inline int
 test_close(double a, double b, double rel)
 {
 	double		scale = fmax(fabs(a), fabs(b));

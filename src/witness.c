@@ -1,0 +1,231 @@
+/*
+ * witness.c - SQL functions that explain a distance: the matching, its
+ * bottleneck, and partial matches of a trip against a route.  Positions in
+ * SQL are k + t with 1-based vertex numbers, like array subscripts.
+ */
+#include "postgres.h"
+
+#include <math.h>
+
+#include "fmgr.h"
+#include "funcapi.h"
+#include "utils/array.h"
+#include "utils/geo_decls.h"
+#include "utils/tuplestore.h"
+
+#include "glue.h"
+
+/* A point datum at position pos (0-based k + t) of a 2-D curve. */
+static Datum
+point_at(const fr_curve *c, double pos)
+{
+	Point	   *pt = palloc(sizeof(Point));
+	double		xy[2];
+
+	fr_curve_point(c, pos, xy);
+	pt->x = xy[0];
+	pt->y = xy[1];
+	return PointPGetDatum(pt);
+}
+
+/*
+ * Runs the witness matching in scratch memory and copies the breakpoints
+ * out into the caller's context.  eps < 0 asks for an optimal matching.
+ */
+static fr_match_pt *
+run_matching(const fr_curve *p, const fr_curve *q, double eps, size_t *count,
+			 const char *what)
+{
+	glue_env	g;
+	fr_match_pt *pts,
+			   *copy = NULL;
+	bool		found;
+	double		used;
+	fr_status	st;
+
+	glue_env_begin(&g, fr_matching_scratch_bytes(p->n, q->n), what);
+	st = fr_matching(&g.env, p, q, eps, &pts, count, &found, &used, NULL);
+	if (st == FR_OK && found)
+	{
+		copy = MemoryContextAllocHuge(MemoryContextGetParent(g.cxt), *count * sizeof(fr_match_pt));
+		memcpy(copy, pts, *count * sizeof(fr_match_pt));
+	}
+	glue_env_end(&g);
+	glue_check_status(st, what);
+	if (!found)
+		*count = 0;
+	return copy;
+}
+
+PG_FUNCTION_INFO_V1(frechet_matching_point_array);
+/* frechet_matching(a, b, epsilon DEFAULT NULL): breakpoints of a witness matching. */
+Datum
+frechet_matching_point_array(PG_FUNCTION_ARGS)
+{
+	ReturnSetInfo *rsinfo = (ReturnSetInfo *) fcinfo->resultinfo;
+	fr_curve	p,
+				q;
+	fr_match_pt *pts;
+	size_t		count;
+	double		eps = -1;
+
+	InitMaterializedSRF(fcinfo, 0);
+	if (PG_ARGISNULL(0) || PG_ARGISNULL(1))
+		PG_RETURN_NULL();
+	point_array_curve(PG_GETARG_ARRAYTYPE_P(0), 1, &p);
+	point_array_curve(PG_GETARG_ARRAYTYPE_P(1), 2, &q);
+	if (!PG_ARGISNULL(2))
+	{
+		eps = PG_GETARG_FLOAT8(2);
+		glue_check_epsilon(eps, 3);
+	}
+	pts = run_matching(&p, &q, eps, &count, "frechet_matching");
+	for (size_t k = 0; k < count; k++)
+	{
+		Datum		values[6];
+		bool		nulls[6] = {false};
+
+		values[0] = Int32GetDatum((int32) k + 1);
+		values[1] = Float8GetDatum(pts[k].a_pos + 1);
+		values[2] = Float8GetDatum(pts[k].b_pos + 1);
+		values[3] = point_at(&p, pts[k].a_pos);
+		values[4] = point_at(&q, pts[k].b_pos);
+		values[5] = Float8GetDatum(pts[k].leash);
+		tuplestore_putvalues(rsinfo->setResult, rsinfo->setDesc, values, nulls);
+	}
+	return (Datum) 0;
+}
+
+PG_FUNCTION_INFO_V1(frechet_bottleneck_point_array);
+/* frechet_bottleneck(a, b): where the longest leash of an optimal matching is. */
+Datum
+frechet_bottleneck_point_array(PG_FUNCTION_ARGS)
+{
+	ReturnSetInfo *rsinfo = (ReturnSetInfo *) fcinfo->resultinfo;
+	fr_curve	p,
+				q;
+	fr_match_pt *pts;
+	size_t		count,
+				worst = 0;
+	Datum		values[5];
+	bool		nulls[5] = {false};
+
+	InitMaterializedSRF(fcinfo, 0);
+	point_array_curve(PG_GETARG_ARRAYTYPE_P(0), 1, &p);
+	point_array_curve(PG_GETARG_ARRAYTYPE_P(1), 2, &q);
+	pts = run_matching(&p, &q, -1, &count, "frechet_bottleneck");
+	if (count == 0)
+		elog(ERROR, "frechet_bottleneck found no optimal matching");
+	/* the leash is convex between breakpoints, so the longest is at one */
+	for (size_t k = 1; k < count; k++)
+		if (pts[k].leash > pts[worst].leash)
+			worst = k;
+	values[0] = Float8GetDatum(pts[worst].a_pos + 1);
+	values[1] = Float8GetDatum(pts[worst].b_pos + 1);
+	values[2] = point_at(&p, pts[worst].a_pos);
+	values[3] = point_at(&q, pts[worst].b_pos);
+	values[4] = Float8GetDatum(pts[worst].leash);
+	tuplestore_putvalues(rsinfo->setResult, rsinfo->setDesc, values, nulls);
+	return (Datum) 0;
+}
+
+PG_FUNCTION_INFO_V1(frechet_partial_distance_point_array);
+/* frechet_partial_distance(trip, route): best fit of the trip to any part of the route. */
+Datum
+frechet_partial_distance_point_array(PG_FUNCTION_ARGS)
+{
+	fr_curve	p,
+				q;
+	glue_env	g;
+	double		d;
+	fr_status	st;
+
+	point_array_curve(PG_GETARG_ARRAYTYPE_P(0), 1, &p);
+	point_array_curve(PG_GETARG_ARRAYTYPE_P(1), 2, &q);
+	glue_env_begin(&g, fr_scratch_bytes(p.n, q.n), "frechet_partial_distance");
+	st = fr_partial_distance(&g.env, &p, &q, &d, NULL);
+	glue_env_end(&g);
+	glue_check_status(st, "frechet_partial_distance");
+	PG_RETURN_FLOAT8(d);
+}
+
+PG_FUNCTION_INFO_V1(frechet_partial_match_point_array);
+/* frechet_partial_match(trip, route, epsilon): the part of the route the trip follows. */
+Datum
+frechet_partial_match_point_array(PG_FUNCTION_ARGS)
+{
+	ReturnSetInfo *rsinfo = (ReturnSetInfo *) fcinfo->resultinfo;
+	fr_curve	p,
+				q;
+	double		eps = PG_GETARG_FLOAT8(2),
+				from,
+				to,
+				d;
+	glue_env	g;
+	bool		found;
+	fr_status	st;
+
+	InitMaterializedSRF(fcinfo, 0);
+	point_array_curve(PG_GETARG_ARRAYTYPE_P(0), 1, &p);
+	point_array_curve(PG_GETARG_ARRAYTYPE_P(1), 2, &q);
+	glue_check_epsilon(eps, 3);
+	glue_env_begin(&g, 3 * fr_scratch_bytes(p.n, q.n), "frechet_partial_match");
+	st = fr_partial_match(&g.env, &p, &q, eps, &found, &from, &to, &d, NULL);
+	glue_env_end(&g);
+	glue_check_status(st, "frechet_partial_match");
+	if (found)
+	{
+		Datum		values[3];
+		bool		nulls[3] = {false};
+
+		values[0] = Float8GetDatum(from + 1);
+		values[1] = Float8GetDatum(to + 1);
+		values[2] = Float8GetDatum(d);
+		tuplestore_putvalues(rsinfo->setResult, rsinfo->setDesc, values, nulls);
+	}
+	return (Datum) 0;
+}
+
+PG_FUNCTION_INFO_V1(frechet_excursions_point_array);
+/* frechet_excursions(trip, route, epsilon): the stretches where the trip left its route. */
+Datum
+frechet_excursions_point_array(PG_FUNCTION_ARGS)
+{
+	ReturnSetInfo *rsinfo = (ReturnSetInfo *) fcinfo->resultinfo;
+	fr_curve	p,
+				q;
+	double		eps = PG_GETARG_FLOAT8(2);
+	glue_env	g;
+	fr_excursion *x,
+			   *copy = NULL;
+	size_t		count;
+	fr_status	st;
+
+	InitMaterializedSRF(fcinfo, 0);
+	point_array_curve(PG_GETARG_ARRAYTYPE_P(0), 1, &p);
+	point_array_curve(PG_GETARG_ARRAYTYPE_P(1), 2, &q);
+	glue_check_epsilon(eps, 3);
+	glue_env_begin(&g, fr_excursions_scratch_bytes(p.n, q.n), "frechet_excursions");
+	st = fr_excursions(&g.env, &p, &q, eps, &x, &count, NULL);
+	if (st == FR_OK && count > 0)
+	{
+		copy = palloc(count * sizeof(fr_excursion));
+		memcpy(copy, x, count * sizeof(fr_excursion));
+	}
+	glue_env_end(&g);
+	glue_check_status(st, "frechet_excursions");
+	for (size_t k = 0; k < count; k++)
+	{
+		Datum		values[6];
+		bool		nulls[6] = {false};
+
+		values[0] = Float8GetDatum(copy[k].trip_from + 1);
+		values[1] = Float8GetDatum(copy[k].trip_to + 1);
+		values[2] = Float8GetDatum(copy[k].route_from + 1);
+		values[3] = Float8GetDatum(copy[k].route_to + 1);
+		values[4] = Float8GetDatum(copy[k].max_leash);
+		values[5] = Float8GetDatum(copy[k].trip_length);
+		tuplestore_putvalues(rsinfo->setResult, rsinfo->setDesc, values, nulls);
+	}
+	return (Datum) 0;
+}
