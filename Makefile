@@ -83,3 +83,4 @@ test/core/test_geodesy.bin: test/core/test_geodesy.c test/core/testutil.h $(CORE
 	$(CC) $(CORE_TEST_CFLAGS) -Wno-unused-function -o $@ test/core/test_geodesy.c $(CORE_SRC) src/core/geodesy.c -lproj -lcmocka -lm
 
 CORE_TESTS += test/core/test_geodesy.bin
+core-tests check-core: test/core/test_geodesy.bin
