@@ -27,7 +27,7 @@ PG_CPPFLAGS = -I$(srcdir)/src/core
 # PostGIS headers, no PostGIS link).  Its pg_regress files are named
 # postgis_*.sql and run only where PostGIS is installed.
 EXTENSION += frechet_ext_postgis
-OBJS += src/core/geodesy.o src/ewkb.o src/geo_glue.o
+OBJS += src/core/geodesy.o src/ewkb.o src/geo_glue.o src/geo_witness.o
 DATA_built += sql/frechet_ext_postgis--$(EXTVERSION).sql
 EXTRA_CLEAN += sql/frechet_ext_postgis--$(EXTVERSION).sql
 

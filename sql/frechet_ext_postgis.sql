@@ -135,3 +135,111 @@ CREATE OPERATOR @extschema@.<~> (
 
 COMMENT ON OPERATOR @extschema@.<~> (geography, geography) IS
 'continuous Fréchet distance in metres, the same as frechet_distance(geography, geography)';
+
+-- Witnesses on geometry (units of the SRID); results for maps keep the inputs' SRID.
+CREATE FUNCTION @extschema@.frechet_matching(a geometry, b geometry, epsilon pg_catalog.float8 DEFAULT NULL)
+RETURNS TABLE (step pg_catalog.int4, a_pos pg_catalog.float8, b_pos pg_catalog.float8,
+	a_point geometry, b_point geometry, leash pg_catalog.float8)
+AS 'MODULE_PATHNAME', 'frechet_matching_geometry'
+LANGUAGE C IMMUTABLE CALLED ON NULL INPUT PARALLEL SAFE COST 100000 ROWS 200;
+
+COMMENT ON FUNCTION @extschema@.frechet_matching(geometry, geometry, pg_catalog.float8) IS
+'breakpoints of a monotone matching (positions k + t, 1-based) with their points; leash in units of the SRID; optimal when epsilon is NULL, else any within epsilon, or no rows';
+
+CREATE FUNCTION @extschema@.frechet_matching_leashes(a geometry, b geometry, epsilon pg_catalog.float8 DEFAULT NULL)
+RETURNS geometry
+AS 'MODULE_PATHNAME', 'frechet_matching_leashes_geometry'
+LANGUAGE C IMMUTABLE CALLED ON NULL INPUT PARALLEL SAFE COST 100000;
+
+COMMENT ON FUNCTION @extschema@.frechet_matching_leashes(geometry, geometry, pg_catalog.float8) IS
+'the matching of frechet_matching as a MultiLineString of leash segments (one per breakpoint), for a map; NULL when no matching within epsilon exists';
+
+CREATE FUNCTION @extschema@.frechet_bottleneck(a geometry, b geometry)
+RETURNS TABLE (a_pos pg_catalog.float8, b_pos pg_catalog.float8,
+	a_point geometry, b_point geometry, leash pg_catalog.float8)
+AS 'MODULE_PATHNAME', 'frechet_bottleneck_geometry'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 100000 ROWS 1;
+
+COMMENT ON FUNCTION @extschema@.frechet_bottleneck(geometry, geometry) IS
+'where the longest leash of an optimal matching is: positions, points and the leash (units of the SRID), which equals the Fréchet distance';
+
+CREATE FUNCTION @extschema@.frechet_partial_distance(trip geometry, route geometry)
+RETURNS pg_catalog.float8
+AS 'MODULE_PATHNAME', 'frechet_partial_distance_geometry'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 50000;
+
+COMMENT ON FUNCTION @extschema@.frechet_partial_distance(geometry, geometry) IS
+'smallest Fréchet distance between the trip and any part of the route, in units of the SRID';
+
+CREATE FUNCTION @extschema@.frechet_partial_match(trip geometry, route geometry, epsilon pg_catalog.float8)
+RETURNS TABLE (route_from pg_catalog.float8, route_to pg_catalog.float8, distance pg_catalog.float8,
+	route_part geometry)
+AS 'MODULE_PATHNAME', 'frechet_partial_match_geometry'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 20000 ROWS 1;
+
+COMMENT ON FUNCTION @extschema@.frechet_partial_match(geometry, geometry, pg_catalog.float8) IS
+'the part of the route the trip follows within epsilon (units of the SRID): positions, distance and the route sub-line; no row if none';
+
+CREATE FUNCTION @extschema@.frechet_excursions(trip geometry, route geometry, epsilon pg_catalog.float8)
+RETURNS TABLE (trip_from pg_catalog.float8, trip_to pg_catalog.float8,
+	route_from pg_catalog.float8, route_to pg_catalog.float8,
+	max_leash pg_catalog.float8, trip_length pg_catalog.float8, trip_piece geometry)
+AS 'MODULE_PATHNAME', 'frechet_excursions_geometry'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 100000 ROWS 2;
+
+COMMENT ON FUNCTION @extschema@.frechet_excursions(geometry, geometry, pg_catalog.float8) IS
+'stretches of the trip that no order-preserving matching keeps within epsilon (units of the SRID) of the route, with the trip piece as a LineString; no rows exactly when frechet_at_most is true';
+
+-- Witnesses on geography (metres on WGS84); results for maps keep the inputs' SRID.
+CREATE FUNCTION @extschema@.frechet_matching(a geography, b geography, epsilon pg_catalog.float8 DEFAULT NULL)
+RETURNS TABLE (step pg_catalog.int4, a_pos pg_catalog.float8, b_pos pg_catalog.float8,
+	a_point geography, b_point geography, leash pg_catalog.float8)
+AS 'MODULE_PATHNAME', 'frechet_matching_geography'
+LANGUAGE C IMMUTABLE CALLED ON NULL INPUT PARALLEL SAFE COST 100000 ROWS 200;
+
+COMMENT ON FUNCTION @extschema@.frechet_matching(geography, geography, pg_catalog.float8) IS
+'breakpoints of a monotone matching (positions k + t, 1-based) with their points; leash in metres on WGS84; optimal when epsilon is NULL, else any within epsilon, or no rows';
+
+CREATE FUNCTION @extschema@.frechet_matching_leashes(a geography, b geography, epsilon pg_catalog.float8 DEFAULT NULL)
+RETURNS geography
+AS 'MODULE_PATHNAME', 'frechet_matching_leashes_geography'
+LANGUAGE C IMMUTABLE CALLED ON NULL INPUT PARALLEL SAFE COST 100000;
+
+COMMENT ON FUNCTION @extschema@.frechet_matching_leashes(geography, geography, pg_catalog.float8) IS
+'the matching of frechet_matching as a MultiLineString of leash segments (one per breakpoint), for a map; NULL when no matching within epsilon exists';
+
+CREATE FUNCTION @extschema@.frechet_bottleneck(a geography, b geography)
+RETURNS TABLE (a_pos pg_catalog.float8, b_pos pg_catalog.float8,
+	a_point geography, b_point geography, leash pg_catalog.float8)
+AS 'MODULE_PATHNAME', 'frechet_bottleneck_geography'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 100000 ROWS 1;
+
+COMMENT ON FUNCTION @extschema@.frechet_bottleneck(geography, geography) IS
+'where the longest leash of an optimal matching is: positions, points and the leash (metres on WGS84), which equals the Fréchet distance';
+
+CREATE FUNCTION @extschema@.frechet_partial_distance(trip geography, route geography)
+RETURNS pg_catalog.float8
+AS 'MODULE_PATHNAME', 'frechet_partial_distance_geography'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 50000;
+
+COMMENT ON FUNCTION @extschema@.frechet_partial_distance(geography, geography) IS
+'smallest Fréchet distance between the trip and any part of the route, in metres on WGS84';
+
+CREATE FUNCTION @extschema@.frechet_partial_match(trip geography, route geography, epsilon pg_catalog.float8)
+RETURNS TABLE (route_from pg_catalog.float8, route_to pg_catalog.float8, distance pg_catalog.float8,
+	route_part geography)
+AS 'MODULE_PATHNAME', 'frechet_partial_match_geography'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 20000 ROWS 1;
+
+COMMENT ON FUNCTION @extschema@.frechet_partial_match(geography, geography, pg_catalog.float8) IS
+'the part of the route the trip follows within epsilon (metres on WGS84): positions, distance and the route sub-line; no row if none';
+
+CREATE FUNCTION @extschema@.frechet_excursions(trip geography, route geography, epsilon pg_catalog.float8)
+RETURNS TABLE (trip_from pg_catalog.float8, trip_to pg_catalog.float8,
+	route_from pg_catalog.float8, route_to pg_catalog.float8,
+	max_leash pg_catalog.float8, trip_length pg_catalog.float8, trip_piece geography)
+AS 'MODULE_PATHNAME', 'frechet_excursions_geography'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 100000 ROWS 2;
+
+COMMENT ON FUNCTION @extschema@.frechet_excursions(geography, geography, pg_catalog.float8) IS
+'stretches of the trip that no order-preserving matching keeps within epsilon (metres on WGS84) of the route, with the trip piece as a LineString; no rows exactly when frechet_at_most is true';

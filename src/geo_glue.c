@@ -32,8 +32,11 @@
 #include "utils/lsyscache.h"
 #include "utils/syscache.h"
 
+#include "lib/stringinfo.h"
+
 #include "glue.h"
 #include "ewkb.h"
+#include "geo_glue.h"
 #include "geodesy.h"
 
 /* The PostGIS functions a call site needs, found once and kept in fn_extra. */
@@ -41,6 +44,8 @@ typedef struct postgis_calls
 {
 	FmgrInfo	as_ewkb;		/* ST_AsEWKB(geometry) */
 	FmgrInfo	to_geometry;	/* geometry(geography), for geography input */
+	FmgrInfo	from_ewkb;		/* ST_GeomFromEWKB(bytea), for results */
+	FmgrInfo	to_geography;	/* geography(geometry), for geography results */
 } postgis_calls;
 
 /* Schema of the installed postgis extension; ERROR when it is not installed. */
@@ -104,12 +109,17 @@ postgis_calls_for(FunctionCallInfo fcinfo)
 		Oid			nsp = postgis_namespace();
 		Oid			geometry = postgis_type(nsp, "geometry");
 		Oid			geography = postgis_type(nsp, "geography");
+		Oid			bytea_type = BYTEAOID;
 
 		calls = MemoryContextAllocZero(mcxt, sizeof(postgis_calls));
 		fmgr_info_cxt(schema_function(nsp, "st_asewkb", 1, &geometry),
 					  &calls->as_ewkb, mcxt);
 		fmgr_info_cxt(schema_function(nsp, "geometry", 1, &geography),
 					  &calls->to_geometry, mcxt);
+		fmgr_info_cxt(schema_function(nsp, "st_geomfromewkb", 1, &bytea_type),
+					  &calls->from_ewkb, mcxt);
+		fmgr_info_cxt(schema_function(nsp, "geography", 1, &geometry),
+					  &calls->to_geography, mcxt);
 		fcinfo->flinfo->fn_extra = calls;
 	}
 	return calls;
@@ -146,9 +156,9 @@ check_compatible(const ewkb_curve *a, const ewkb_curve *b)
 				 errhint("Use ST_Force2D or ST_Force3D on one of them.")));
 }
 
-/* Replaces lon/lat (degrees) by WGS84 Earth-centred coordinates; Z is ignored. */
-static void
-to_ecef(ewkb_curve *c, int argno)
+/* WGS84 Earth-centred coordinates of a lon/lat (degrees) curve; Z is ignored. */
+static double *
+to_ecef(const ewkb_curve *c, int argno)
 {
 	double	   *xyz = palloc(sizeof(double) * 3 * c->n);
 
@@ -165,32 +175,212 @@ to_ecef(ewkb_curve *c, int argno)
 							   argno, lon, lat, i + 1)));
 		fr_geo_to_ecef(lon, lat, xyz + 3 * i);
 	}
-	pfree(c->coords);
-	c->coords = xyz;
-	c->dim = 3;
+	return xyz;
+}
+
+/* Decodes both EWKB arguments into engine curves, keeping the decoded input. */
+static void
+decode_curves(bytea *a, bytea *b, bool geodetic, geo_curves *gc)
+{
+	ewkb_decode((const uint8 *) VARDATA_ANY(a), VARSIZE_ANY_EXHDR(a), 1, &gc->a);
+	ewkb_decode((const uint8 *) VARDATA_ANY(b), VARSIZE_ANY_EXHDR(b), 2, &gc->b);
+	check_compatible(&gc->a, &gc->b);
+	gc->geodetic = geodetic;
+	gc->p.n = gc->a.n;
+	gc->q.n = gc->b.n;
+	if (geodetic)
+	{
+		gc->p.coords = to_ecef(&gc->a, 1);
+		gc->q.coords = to_ecef(&gc->b, 2);
+		gc->p.dim = gc->q.dim = 3;
+	}
+	else
+	{
+		gc->p.coords = gc->a.coords;
+		gc->q.coords = gc->b.coords;
+		gc->p.dim = gc->q.dim = gc->a.dim;
+	}
 }
 
 /* Decodes both EWKB arguments into engine curves, geodetic: lon/lat to ECEF. */
 static void
 decode_pair(bytea *a, bytea *b, bool geodetic, fr_curve *p, fr_curve *q)
 {
-	ewkb_curve	ca,
-				cb;
+	geo_curves	gc;
 
-	ewkb_decode((const uint8 *) VARDATA_ANY(a), VARSIZE_ANY_EXHDR(a), 1, &ca);
-	ewkb_decode((const uint8 *) VARDATA_ANY(b), VARSIZE_ANY_EXHDR(b), 2, &cb);
-	check_compatible(&ca, &cb);
-	if (geodetic)
+	decode_curves(a, b, geodetic, &gc);
+	*p = gc.p;
+	*q = gc.q;
+}
+
+/* Decodes the first two arguments (geometry, or geography when geodetic). */
+void
+geo_decode_args(FunctionCallInfo fcinfo, bool geodetic, geo_curves *gc)
+{
+	decode_curves(argument_ewkb(fcinfo, 0, geodetic), argument_ewkb(fcinfo, 1, geodetic),
+				  geodetic, gc);
+}
+
+/* Appends a little-endian 32-bit integer. */
+static void
+put_u32(StringInfo buf, uint32 v)
+{
+	for (int i = 0; i < 4; i++)
+		appendStringInfoChar(buf, (char) ((v >> (8 * i)) & 0xff));
+}
+
+/* Appends a little-endian IEEE 754 double. */
+static void
+put_f64(StringInfo buf, double d)
+{
+	uint64		u;
+
+	memcpy(&u, &d, sizeof(u));
+	for (int i = 0; i < 8; i++)
+		appendStringInfoChar(buf, (char) ((u >> (8 * i)) & 0xff));
+}
+
+/* Output coordinates of position pos (0-based k + t) of curve which (0: a, 1: b). */
+static void
+output_point(const geo_curves *gc, int which, double pos, double *out)
+{
+	const fr_curve *c = which ? &gc->q : &gc->p;
+	const ewkb_curve *orig = which ? &gc->b : &gc->a;
+	int			odim = geo_output_dim(gc);
+	double		k = floor(pos);
+
+	if (pos == k && k >= 0 && k < (double) orig->n)
 	{
-		to_ecef(&ca, 1);
-		to_ecef(&cb, 2);
+		/* a vertex: the input's own coordinates, exactly */
+		memcpy(out, orig->coords + (size_t) k * orig->dim, odim * sizeof(double));
+		return;
 	}
-	p->coords = ca.coords;
-	p->n = ca.n;
-	p->dim = ca.dim;
-	q->coords = cb.coords;
-	q->n = cb.n;
-	q->dim = cb.dim;
+	if (gc->geodetic)
+	{
+		double		xyz[3];
+
+		fr_curve_point(c, pos, xyz);
+		fr_ecef_to_geo(xyz, &out[0], &out[1]);
+	}
+	else
+		fr_curve_point(c, pos, out);
+}
+
+/* Coordinates per output vertex: 2 for geography, else the input's. */
+int
+geo_output_dim(const geo_curves *gc)
+{
+	return gc->geodetic ? 2 : gc->a.dim;
+}
+
+/* Starts an EWKB geometry of the given OGC type with the inputs' SRID. */
+static void
+begin_ewkb(StringInfo buf, const geo_curves *gc, uint32 type)
+{
+	uint32		flags = 0x20000000u | (geo_output_dim(gc) == 3 ? 0x80000000u : 0);
+
+	initStringInfo(buf);
+	appendBinaryStringInfo(buf, "\x00\x00\x00\x00", VARHDRSZ);
+	appendStringInfoChar(buf, 1);
+	put_u32(buf, type | flags);
+	put_u32(buf, (uint32) gc->a.srid);
+}
+
+/* Appends a LineString body (no header) through the given output points. */
+static void
+put_points(StringInfo buf, const geo_curves *gc, const double *pts, size_t n)
+{
+	int			odim = geo_output_dim(gc);
+
+	put_u32(buf, (uint32) n);
+	for (size_t i = 0; i < n * odim; i++)
+		put_f64(buf, pts[i]);
+}
+
+/* Turns the EWKB in buf into a geometry (or geography) Datum through PostGIS. */
+static Datum
+finish_ewkb(FunctionCallInfo fcinfo, const geo_curves *gc, StringInfo buf)
+{
+	postgis_calls *calls = postgis_calls_for(fcinfo);
+	Datum		g;
+
+	SET_VARSIZE(buf->data, buf->len);
+	g = FunctionCall1(&calls->from_ewkb, PointerGetDatum(buf->data));
+	if (gc->geodetic)
+		g = FunctionCall1(&calls->to_geography, g);
+	return g;
+}
+
+/* A Point at position pos of curve which, as geometry or geography. */
+Datum
+geo_point_datum(FunctionCallInfo fcinfo, const geo_curves *gc, int which, double pos)
+{
+	StringInfoData buf;
+	double		pt[3];
+
+	output_point(gc, which, pos, pt);
+	begin_ewkb(&buf, gc, 1);
+	for (int i = 0; i < geo_output_dim(gc); i++)
+		put_f64(&buf, pt[i]);
+	return finish_ewkb(fcinfo, gc, &buf);
+}
+
+/* The part of curve which between positions from <= to, as a LineString. */
+Datum
+geo_subline_datum(FunctionCallInfo fcinfo, const geo_curves *gc, int which,
+				  double from, double to)
+{
+	StringInfoData buf;
+	int			odim = geo_output_dim(gc);
+	size_t		first = (size_t) floor(from) + 1,
+				n = 0;
+	double	   *pts = palloc(sizeof(double) * odim * ((size_t) (to - from) + 3));
+
+	output_point(gc, which, from, pts);
+	n = 1;
+	for (size_t k = first; (double) k < to; k++)
+		output_point(gc, which, (double) k, pts + odim * n++);
+	output_point(gc, which, to, pts + odim * n++);
+	begin_ewkb(&buf, gc, 2);
+	put_points(&buf, gc, pts, n);
+	return finish_ewkb(fcinfo, gc, &buf);
+}
+
+/* A MultiLineString of the leashes at the given breakpoints of a matching. */
+Datum
+geo_leashes_datum(FunctionCallInfo fcinfo, const geo_curves *gc,
+				  const fr_match_pt *pts, size_t count)
+{
+	StringInfoData buf;
+	int			odim = geo_output_dim(gc);
+
+	begin_ewkb(&buf, gc, 5);
+	put_u32(&buf, (uint32) count);
+	for (size_t k = 0; k < count; k++)
+	{
+		double		seg[6];
+
+		output_point(gc, 0, pts[k].a_pos, seg);
+		output_point(gc, 1, pts[k].b_pos, seg + odim);
+		appendStringInfoChar(&buf, 1);
+		put_u32(&buf, 2 | (odim == 3 ? 0x80000000u : 0));
+		put_points(&buf, gc, seg, 2);
+	}
+	return finish_ewkb(fcinfo, gc, &buf);
+}
+
+/* A distance from the engine in output units: metres when geodetic. */
+double
+geo_result_distance(const geo_curves *gc, double d)
+{
+	return gc->geodetic ? fr_chord_to_metres(d) : d;
+}
+
+/* A tolerance in output units as the engine's: a chord when geodetic. */
+double
+geo_engine_epsilon(const geo_curves *gc, double eps)
+{
+	return gc->geodetic ? fr_metres_to_chord(eps) : eps;
 }
 
 /* Continuous distance of two encoded curves; in metres when geodetic. */

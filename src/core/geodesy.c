@@ -40,6 +40,30 @@ fr_geo_to_ecef(double lon_deg, double lat_deg, double *xyz)
 	xyz[2] = n * (1.0 - e2) * sl;
 }
 
+/*
+ * Geodetic longitude and latitude of an ECEF point near the surface (such
+ * as a point on a chord between two surface points): the fixed-point
+ * iteration lat = atan2(z + e^2 N(lat) sin(lat), p), common practice,
+ * which converges to double precision within a few steps near the surface.
+ */
+void
+fr_ecef_to_geo(const double *xyz, double *lon_deg, double *lat_deg)
+{
+	const double e2 = FR_WGS84_F * (2.0 - FR_WGS84_F);
+	double		p = hypot(xyz[0], xyz[1]);
+	double		lat = atan2(xyz[2], p * (1.0 - e2));
+
+	for (int i = 0; i < 8; i++)
+	{
+		double		s = sin(lat);
+		double		n = FR_WGS84_A / sqrt(1.0 - e2 * s * s);
+
+		lat = atan2(xyz[2] + e2 * n * s, p);
+	}
+	*lon_deg = p == 0.0 ? 0.0 : atan2(xyz[1], xyz[0]) / DEG2RAD;
+	*lat_deg = lat / DEG2RAD;
+}
+
 /* Metres along the surface for a chord of length c: the arc 2a asin(c / 2a). */
 double
 fr_chord_to_metres(double c)

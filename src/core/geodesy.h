@@ -37,6 +37,9 @@ bool		fr_geo_valid(double lon_deg, double lat_deg);
 /* ECEF coordinates (metres) of (lon, lat) in degrees on the WGS84 ellipsoid. */
 void		fr_geo_to_ecef(double lon_deg, double lat_deg, double *xyz);
 
+/* Longitude and latitude (degrees) of the surface point below an ECEF point. */
+void		fr_ecef_to_geo(const double *xyz, double *lon_deg, double *lat_deg);
+
 /* Metres along the surface for a chord of length c (monotone, 0 .. pi a). */
 double		fr_chord_to_metres(double c);
 

