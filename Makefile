@@ -8,7 +8,7 @@ EXTVERSION = 0.1
 
 CORE_OBJS = src/core/freespace.o src/core/decide.o src/core/distance.o \
 	src/core/discrete.o src/core/matching.o src/core/partial.o \
-	src/core/excursions.o
+	src/core/excursions.o src/core/prune.o
 OBJS = $(CORE_OBJS) src/frechet_ext.o src/point_array.o src/witness.o
 
 DATA_built = sql/frechet_ext--$(EXTVERSION).sql
@@ -58,7 +58,10 @@ test/core/test_partial.bin: test/core/test_partial.c test/core/testutil.h $(CORE
 test/core/test_excursions.bin: test/core/test_excursions.c test/core/testutil.h $(CORE_SRC) src/core/*.h
 	$(CC) $(CORE_TEST_CFLAGS) -o $@ test/core/test_excursions.c $(CORE_SRC) -lcmocka -lm
 
-CORE_TESTS = test/core/test_engine.bin test/core/test_geos.bin test/core/test_matching.bin \
+test/core/test_prune.bin: test/core/test_prune.c test/core/testutil.h $(CORE_SRC) src/core/*.h
+	$(CC) $(CORE_TEST_CFLAGS) -o $@ test/core/test_prune.c $(CORE_SRC) -lcmocka -lm
+
+CORE_TESTS = test/core/test_prune.bin test/core/test_engine.bin test/core/test_geos.bin test/core/test_matching.bin \
 	test/core/test_partial.bin test/core/test_excursions.bin
 
 .PHONY: check-core core-tests bench

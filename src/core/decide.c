@@ -213,12 +213,95 @@ fr_decide_plain(const fr_env *env, const fr_curve *p, const fr_curve *q,
 }
 
 /*
- * The decision offered to callers.  For now it is the plain decider; faster
- * deciders must agree with fr_decide_plain and are tested against it.
+ * Cheap tests that settle a decision without the free space (Bringmann,
+ * Künnemann & Nusser 2019, section 3, in spirit): returns 1 (close),
+ * 0 (far) or -1 (undecided).  Curves have two or more vertices.
+ */
+static int
+filters(const fr_prep *p, const fr_prep *q, double eps)
+{
+	const size_t n = p->n,
+				m = q->n;
+	double		lo[3],
+				hi[3];
+
+	/* the end pairs must be matched */
+	if (fr_pt_dist(&p->v[0], &q->v[0]) > eps || fr_pt_dist(&p->v[n - 1], &q->v[m - 1]) > eps)
+		return 0;
+	/* a greedy vertex walk within eps is a matching within eps */
+	if (fr_greedy_upper_bound(p, q) <= eps)
+		return 1;
+	/* every vertex must lie within eps of the other curve, so of its box */
+	for (int side = 0; side < 2; side++)
+	{
+		const fr_prep *a = side ? q : p,
+				   *b = side ? p : q;
+
+		lo[0] = lo[1] = lo[2] = INFINITY;
+		hi[0] = hi[1] = hi[2] = -INFINITY;
+		for (size_t k = 0; k < b->n; k++)
+		{
+			lo[0] = fmin(lo[0], b->v[k].x);
+			hi[0] = fmax(hi[0], b->v[k].x);
+			lo[1] = fmin(lo[1], b->v[k].y);
+			hi[1] = fmax(hi[1], b->v[k].y);
+			lo[2] = fmin(lo[2], b->v[k].z);
+			hi[2] = fmax(hi[2], b->v[k].z);
+		}
+		for (size_t k = 0; k < a->n; k++)
+		{
+			const fr_pt *v = &a->v[k];
+
+			if (v->x < lo[0] - eps || v->x > hi[0] + eps ||
+				v->y < lo[1] - eps || v->y > hi[1] + eps ||
+				v->z < lo[2] - eps || v->z > hi[2] + eps)
+				return 0;
+		}
+	}
+	return -1;
+}
+
+/*
+ * The decision offered to callers: filters, then the pruning decider.  It
+ * agrees with fr_decide_plain on every input (tests compare them).
  */
 fr_status
 fr_decide(const fr_env *env, const fr_curve *p, const fr_curve *q,
 		  double eps, bool *result, fr_stats *stats)
 {
-	return fr_decide_plain(env, p, q, eps, result, stats);
+	fr_prep		pp,
+				pq;
+	void	   *work;
+	fr_status	st;
+	int			f;
+
+	st = fr_prepare_pair(env, p, q, &pp, &pq);
+	if (st != FR_OK)
+		return st;
+	if (isinf(eps) || pp.n == 1 || pq.n == 1)
+	{
+		double		row;
+
+		/* no diagram to prune: the plain decider is O(n + m) here */
+		st = fr_decide_prepared(env, &pp, &pq, eps, &row, result, stats);
+		fr_release_pair(env, &pp, &pq);
+		return st;
+	}
+	if (stats)
+		stats->decisions++;
+	f = filters(&pp, &pq, eps);
+	if (f >= 0)
+	{
+		*result = f == 1;
+		fr_release_pair(env, &pp, &pq);
+		return FR_OK;
+	}
+	work = fr_alloc(env, fr_prune_work_bytes(pp.n, pq.n));
+	if (work == NULL)
+		st = FR_ENOMEM;
+	else
+		st = fr_decide_pruned(env, &pp, &pq, eps, work, result, stats, NULL);
+	fr_free(env, work);
+	fr_release_pair(env, &pp, &pq);
+	return st;
 }

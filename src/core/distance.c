@@ -299,24 +299,222 @@ fr_threshold_search(const fr_env *env, const fr_prep *p, const fr_prep *q,
 }
 
 /*
- * Continuous Fréchet distance on prepared curves; row has room for
- * p->n - 1 doubles (unused when a curve is a single point).
+ * The reference distance on prepared curves (two or more vertices each):
+ * type (a) and greedy bounds, type (b) values sampled over all n*m pairs,
+ * then bisection to adjacent doubles, every step with the plain decider.
+ * Slow, simple, and kept to check the fast search against.
  */
+static fr_status
+reference_distance(const fr_env *env, const fr_prep *p, const fr_prep *q,
+				   double *row, double *result, fr_stats *stats)
+{
+	double		lo = fmax(fr_pt_dist(&p->v[0], &q->v[0]),
+						  fr_pt_dist(&p->v[p->n - 1], &q->v[q->n - 1]));
+
+	return fr_threshold_search(env, p, q, fr_decide_prepared, lo,
+							   fr_greedy_upper_bound(p, q), row, result, stats);
+}
+
+/* State of the fast search: decide(lo) false, decide(hi) true. */
+typedef struct fast
+{
+	const fr_env *env;
+	const fr_prep *p;
+	const fr_prep *q;
+	void	   *work;
+	fr_cands	cands;
+	fr_stats   *stats;
+	double		lo;
+	double		hi;
+	double		greedy;
+} fast;
+
+/* One decision of the fast search, narrowing the bracket; may collect openings. */
+static fr_status
+fast_probe(fast *f, double eps, bool collect, bool *yes)
+{
+	fr_status	st = FR_OK;
+
+	if (eps >= f->greedy)
+		*yes = true;			/* the greedy walk is a matching within eps */
+	else if (fr_pt_dist(&f->p->v[0], &f->q->v[0]) > eps ||
+			 fr_pt_dist(&f->p->v[f->p->n - 1], &f->q->v[f->q->n - 1]) > eps)
+		*yes = false;
+	else
+	{
+		if (f->stats)
+			f->stats->decisions++;
+		f->cands.count = 0;
+		f->cands.overflow = false;
+		f->cands.lo = f->lo;
+		f->cands.hi = f->hi;
+		st = fr_decide_pruned(f->env, f->p, f->q, eps, f->work, yes, f->stats,
+							  collect ? &f->cands : NULL);
+	}
+	if (st == FR_OK)
+	{
+		if (*yes)
+			f->hi = eps;
+		else
+			f->lo = eps;
+	}
+	return st;
+}
+
+/* Bisection on the bit patterns of non-negative doubles, to adjacent doubles. */
+static fr_status
+fast_bisect(fast *f)
+{
+	bool		yes;
+
+	for (;;)
+	{
+		uint64_t	lb = double_bits(f->lo),
+					hb = double_bits(f->hi);
+		fr_status	st;
+
+		if (hb - lb <= 1)
+			return FR_OK;
+		st = fast_probe(f, bits_double(lb + (hb - lb) / 2), false, &yes);
+		if (st != FR_OK)
+			return st;
+	}
+}
+
+/*
+ * The fast search for the distance, on prepared curves with two or more
+ * vertices each:
+ *  1. bounds: type (a) below, a greedy vertex walk above;
+ *  2. bisection by value until the bracket is 1e-4 wide (relative);
+ *  3. rounds: a decision at lo reports the values at which its blocked
+ *     steps would open (critical values of types b and c, Alt & Godau 1995);
+ *     those inside the bracket are tested by binary search; repeated until
+ *     a round reports none, which means no decision changes inside;
+ *  4. a check that the double just below hi is rejected, falling back to
+ *     bisection on doubles if not (rounding can hide an opening).
+ * Every decision is the pruning decider (prune.c), which agrees with the
+ * plain one exactly, so the result is the same as the reference search's.
+ */
+static fr_status
+fast_distance(fast *f, double *result)
+{
+	bool		yes;
+	fr_status	st;
+
+	f->lo = fmax(fr_pt_dist(&f->p->v[0], &f->q->v[0]),
+				 fr_pt_dist(&f->p->v[f->p->n - 1], &f->q->v[f->q->n - 1]));
+	f->greedy = f->hi = fr_greedy_upper_bound(f->p, f->q);
+	if (f->hi <= f->lo)
+	{
+		*result = f->lo;
+		return FR_OK;
+	}
+	st = fast_probe(f, f->lo, false, &yes);
+	if (st != FR_OK || yes)
+	{
+		*result = f->lo;
+		return st;
+	}
+	/* the greedy bound is a matching; confirm it as the decider sees it */
+	f->greedy = INFINITY;
+	st = fast_probe(f, f->hi, false, &yes);
+	for (double step = 4 * DBL_EPSILON; st == FR_OK && !yes; step *= 2)
+		st = fast_probe(f, f->hi = f->hi * (1 + step), false, &yes);
+	if (st != FR_OK)
+		return st;
+
+	while (f->hi - f->lo > 1e-4 * f->hi)
+	{
+		st = fast_probe(f, f->lo + (f->hi - f->lo) / 2, false, &yes);
+		if (st != FR_OK)
+			return st;
+	}
+
+	for (int round = 0; round < 64; round++)
+	{
+		size_t		a,
+					b,
+					k = 0;
+
+		st = fast_probe(f, f->lo, true, &yes);
+		if (st != FR_OK)
+			return st;
+		if (f->cands.count == 0)
+			break;
+		qsort(f->cands.v, f->cands.count, sizeof(double), cmp_double);
+		for (size_t i = 0; i < f->cands.count; i++)
+			if (k == 0 || f->cands.v[i] != f->cands.v[k - 1])
+				f->cands.v[k++] = f->cands.v[i];
+		if (f->stats)
+			f->stats->candidates += k;
+		a = 0;
+		b = k;
+		while (a < b)
+		{
+			size_t		mid = a + (b - a) / 2;
+			double		v = f->cands.v[mid];
+
+			if (!(v > f->lo && v < f->hi))
+			{
+				if (v <= f->lo)
+					a = mid + 1;
+				else
+					b = mid;
+				continue;
+			}
+			st = fast_probe(f, v, false, &yes);
+			if (st != FR_OK)
+				return st;
+			if (yes)
+				b = mid;
+			else
+				a = mid + 1;
+		}
+	}
+
+	/* no opening left inside: the double below hi must be rejected */
+	if (nextafter(f->hi, 0) > f->lo)
+	{
+		double		below = nextafter(f->hi, 0);
+
+		st = fast_probe(f, below, false, &yes);
+		if (st == FR_OK && yes)
+			st = fast_bisect(f);
+		if (st != FR_OK)
+			return st;
+	}
+	*result = f->hi;
+	return FR_OK;
+}
+
+/* Continuous Fréchet distance on prepared curves (fast search). */
 fr_status
 fr_distance_prepared(const fr_env *env, const fr_prep *p, const fr_prep *q,
-					 double *row, double *result, fr_stats *stats)
+					 double *result, fr_stats *stats)
 {
-	double		lo;
+	fast		f;
+	fr_status	st;
 
 	if (p->n == 1 || q->n == 1)
 	{
 		*result = p->n == 1 ? fr_point_curve_dist(&p->v[0], q) : fr_point_curve_dist(&q->v[0], p);
 		return FR_OK;
 	}
-	/* (a): both end pairs must be matched, so the distance is at least this */
-	lo = fmax(fr_pt_dist(&p->v[0], &q->v[0]), fr_pt_dist(&p->v[p->n - 1], &q->v[q->n - 1]));
-	return fr_threshold_search(env, p, q, fr_decide_prepared, lo,
-							   fr_greedy_upper_bound(p, q), row, result, stats);
+	memset(&f, 0, sizeof(f));
+	f.env = env;
+	f.p = p;
+	f.q = q;
+	f.stats = stats;
+	f.cands.cap = FR_CANDIDATES;
+	f.work = fr_alloc(env, fr_prune_work_bytes(p->n, q->n));
+	f.cands.v = fr_alloc(env, FR_CANDIDATES * sizeof(double));
+	if (f.work == NULL || f.cands.v == NULL)
+		st = FR_ENOMEM;
+	else
+		st = fast_distance(&f, result);
+	fr_free(env, f.work);
+	fr_free(env, f.cands.v);
+	return st;
 }
 
 /* Continuous Fréchet distance between two curves. */
@@ -327,16 +525,39 @@ fr_distance(const fr_env *env, const fr_curve *p, const fr_curve *q,
 	fr_prep		pp,
 				pq;
 	fr_status	st;
+
+	st = fr_prepare_pair(env, p, q, &pp, &pq);
+	if (st != FR_OK)
+		return st;
+	st = fr_distance_prepared(env, &pp, &pq, result, stats);
+	fr_release_pair(env, &pp, &pq);
+	return st;
+}
+
+/* The reference distance: the same value, by the plain decider only. */
+fr_status
+fr_distance_plain(const fr_env *env, const fr_curve *p, const fr_curve *q,
+				  double *result, fr_stats *stats)
+{
+	fr_prep		pp,
+				pq;
+	fr_status	st;
 	double	   *row;
 
 	st = fr_prepare_pair(env, p, q, &pp, &pq);
 	if (st != FR_OK)
 		return st;
+	if (pp.n == 1 || pq.n == 1)
+	{
+		*result = pp.n == 1 ? fr_point_curve_dist(&pp.v[0], &pq) : fr_point_curve_dist(&pq.v[0], &pp);
+		fr_release_pair(env, &pp, &pq);
+		return FR_OK;
+	}
 	row = fr_alloc(env, pp.n * sizeof(double));
 	if (row == NULL)
 		st = FR_ENOMEM;
 	else
-		st = fr_distance_prepared(env, &pp, &pq, row, result, stats);
+		st = reference_distance(env, &pp, &pq, row, result, stats);
 	fr_free(env, row);
 	fr_release_pair(env, &pp, &pq);
 	return st;

@@ -124,6 +124,22 @@ fr_status	fr_row_step(const fr_prep *p, const fr_prep *q, size_t j, double eps,
 fr_status	fr_decide_prepared(const fr_env *env, const fr_prep *p, const fr_prep *q,
 							   double eps, double *row, bool *result, fr_stats *stats);
 
+/* Opening values (critical values) a pruned decision reports inside (lo, hi). */
+typedef struct fr_cands
+{
+	double	   *v;
+	size_t		count;
+	size_t		cap;
+	double		lo;
+	double		hi;
+	bool		overflow;
+} fr_cands;
+
+/* The pruning decider (prune.c); curves of two or more vertices, ends within eps. */
+fr_status	fr_decide_pruned(const fr_env *env, const fr_prep *p, const fr_prep *q, double eps,
+							 void *work, bool *result, fr_stats *stats, fr_cands *cands);
+size_t		fr_prune_work_bytes(size_t n, size_t m);
+
 /* A decider on prepared curves; row has room for p->n - 1 doubles. */
 typedef fr_status (*fr_decider) (const fr_env *env, const fr_prep *p, const fr_prep *q,
 								 double eps, double *row, bool *result, fr_stats *stats);
@@ -138,7 +154,10 @@ double		fr_greedy_upper_bound(const fr_prep *p, const fr_prep *q);
 
 /* Continuous distance on prepared curves (distance.c). */
 fr_status	fr_distance_prepared(const fr_env *env, const fr_prep *p, const fr_prep *q,
-								 double *row, double *result, fr_stats *stats);
+								 double *result, fr_stats *stats);
+
+/* Opening values a search round keeps at most. */
+#define FR_CANDIDATES 4096
 
 /* Parameter in [lo, hi] of segment k of c nearest to p (freespace.c). */
 double		fr_nearest_param(const fr_pt *p, const fr_prep *c, size_t k, double lo, double hi);

@@ -96,6 +96,14 @@ fr_status	fr_distance(const fr_env *env, const fr_curve *p, const fr_curve *q,
 						double *result, fr_stats *stats);
 
 /*
+ * The same distance by the reference search: every decision by the plain
+ * decider, critical values of type (b) sampled over all n*m pairs.  Much
+ * slower; kept to test fr_distance against (the results are identical).
+ */
+fr_status	fr_distance_plain(const fr_env *env, const fr_curve *p, const fr_curve *q,
+							  double *result, fr_stats *stats);
+
+/*
  * Discrete Fréchet distance (Eiter & Mannila 1994): couplings of vertices
  * only.  O(nm) time, O(min(n,m)) memory.
  */

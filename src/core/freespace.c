@@ -56,8 +56,9 @@ fr_status_text(fr_status st)
 size_t
 fr_scratch_bytes(size_t n, size_t m)
 {
-	/* vertices and segments of both curves, plus one reachability row */
-	return (n + m) * (sizeof(fr_pt) + sizeof(fr_seg) + sizeof(double)) + 256;
+	/* vertices and segments of both curves, reachability rows and sources, openings */
+	return (n + m) * (sizeof(fr_pt) + sizeof(fr_seg) + 2 * sizeof(double) + sizeof(int32_t))
+		+ 4096 * sizeof(double) + 256;
 }
 
 /*
@@ -391,7 +392,15 @@ fr_free_interval(const fr_pt *p, const fr_pt *a, const fr_seg *s, const fr_pt *b
 	}
 	tlo = in_a ? 0.0 : rlo / s->len;
 	thi = in_b ? 1.0 : rhi / s->len;
-	/* endpoints are in or out exactly as their distances say */
+	/*
+	 * Endpoints are in or out exactly as their distances say: a free end
+	 * keeps the interval reaching it even when rounding put the other root
+	 * past it (a foot beyond the end, at exactly eps from it).
+	 */
+	if (in_b && tlo > 1.0)
+		tlo = 1.0;
+	if (in_a && thi < 0.0)
+		thi = 0.0;
 	if (!in_a && tlo <= 0.0)
 		tlo = DBL_MIN;
 	if (!in_b && thi >= 1.0)

@@ -390,7 +390,7 @@ fr_matching(const fr_env *env, const fr_curve *p, const fr_curve *q, double eps,
 	}
 	if (isnan(eps) || eps < 0)
 	{
-		st = fr_distance_prepared(env, w.x, w.y, row, &eps, stats);
+		st = fr_distance_prepared(env, w.x, w.y, &eps, stats);
 		if (st != FR_OK)
 			goto done;
 	}

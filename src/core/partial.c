@@ -268,7 +268,7 @@ fr_partial_match(const fr_env *env, const fr_curve *trip, const fr_curve *route,
 	/* the distance between the trip and that part of the route */
 	st = fr_prep_subcurve(env, &q, start, end, false, &sub, &sub_pos);
 	if (st == FR_OK)
-		st = fr_distance_prepared(env, &p, &sub, row, distance, stats);
+		st = fr_distance_prepared(env, &p, &sub, distance, stats);
 
 done:
 	fr_release_prep(env, &rp);

@@ -457,7 +457,27 @@ interrupt_stops_and_frees(void **state)
 	assert_int_equal(h.live, 0);
 	e = test_env(&h);
 	h.interrupt_after = 2;
-	assert_int_equal(fr_decide(&e, &p, &q, 100.0, &yes, NULL), FR_EINTR);
+	assert_int_equal(fr_decide_plain(&e, &p, &q, 100.0, &yes, NULL), FR_EINTR);
+	assert_int_equal(h.live, 0);
+	e = test_env(&h);
+	h.interrupt_after = 2;
+	{
+		/* two zig-zags in opposite phase: no filter settles it, little prunes */
+		double	   *za = malloc(2 * n * sizeof(double)),
+				   *zb = malloc(2 * n * sizeof(double));
+		fr_curve	zp = {za, n, 2},
+					zq = {zb, n, 2};
+
+		for (size_t i = 0; i < n; i++)
+		{
+			za[2 * i] = zb[2 * i] = (double) i;
+			za[2 * i + 1] = (i % 2) * 10.0;
+			zb[2 * i + 1] = i == 0 || i == n - 1 ? za[2 * i + 1] : ((i + 1) % 2) * 10.0;
+		}
+		assert_int_equal(fr_decide(&e, &zp, &zq, 6.0, &yes, NULL), FR_EINTR);
+		free(za);
+		free(zb);
+	}
 	assert_int_equal(h.live, 0);
 	e = test_env(&h);
 	h.interrupt_after = 2;
@@ -484,7 +504,7 @@ interrupt_is_polled_often(void **state)
 	fr_stats	st = {0};
 	bool		yes;
 
-	assert_int_equal(fr_decide(&e, &p, &q, 1e6, &yes, &st), FR_OK);
+	assert_int_equal(fr_decide_plain(&e, &p, &q, 1e6, &yes, &st), FR_OK);
 	assert_true(yes);
 	assert_true(st.cells >= (uint64_t) (n - 1) * (n - 1));
 	assert_true((uint64_t) h.interrupt_calls >= st.cells / FR_INTERRUPT_CELLS);

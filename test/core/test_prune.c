@@ -1,0 +1,227 @@
+/*
+ * test_prune.c - the pruning decider (Bringmann, Künnemann & Nusser 2019)
+ * against the plain Alt & Godau decider: they must agree on every decision,
+ * including eps exactly at a critical value and one double either side.
+ */
+#include <float.h>
+#include <setjmp.h>
+#include <stdarg.h>
+#include <stddef.h>
+#include <stdio.h>
+
+#include <cmocka.h>
+
+#include "testutil.h"
+#include "fr_internal.h"
+
+/*
+ * The deciders on one input: fr_decide (filters, then pruning), the pruning
+ * decider alone, and the plain one.  Fails with the input described when
+ * they differ.
+ */
+static void
+agree(const fr_curve *a, const fr_curve *b, double eps, long *count)
+{
+	test_heap	h;
+	fr_env		e = test_env(&h);
+	bool		fast,
+				plain,
+				pruned;
+
+	assert_int_equal(fr_decide(&e, a, b, eps, &fast, NULL), FR_OK);
+	assert_int_equal(fr_decide_plain(&e, a, b, eps, &plain, NULL), FR_OK);
+	pruned = plain;
+	if (a->n > 1 && b->n > 1)
+	{
+		fr_prep		pp,
+					pq;
+		void	   *w = malloc(fr_prune_work_bytes(a->n, b->n));
+
+		assert_int_equal(fr_prepare_pair(&e, a, b, &pp, &pq), FR_OK);
+		/* the pruning decider's own contract: both end pairs within eps */
+		if (fr_pt_dist(&pp.v[0], &pq.v[0]) <= eps &&
+			fr_pt_dist(&pp.v[a->n - 1], &pq.v[b->n - 1]) <= eps)
+			assert_int_equal(fr_decide_pruned(&e, &pp, &pq, eps, w, &pruned, NULL, NULL), FR_OK);
+		fr_release_pair(&e, &pp, &pq);
+		free(w);
+	}
+	assert_int_equal(h.live, 0);
+	if (fast != plain || pruned != plain)
+		fail_msg("n=%zu m=%zu eps=%.17g: decide %d, pruned %d, plain %d",
+				 a->n, b->n, eps, fast, pruned, plain);
+	(*count)++;
+}
+
+/* Distance between vertex i of a and segment k of b, computed here. */
+static double
+vertex_segment(const fr_curve *a, size_t i, const fr_curve *b, size_t k)
+{
+	double		px = a->coords[2 * i],
+				py = a->coords[2 * i + 1],
+				ax = b->coords[2 * k],
+				ay = b->coords[2 * k + 1],
+				dx = b->coords[2 * k + 2] - ax,
+				dy = b->coords[2 * k + 3] - ay,
+				l2 = dx * dx + dy * dy,
+				t = l2 > 0 ? ((px - ax) * dx + (py - ay) * dy) / l2 : 0;
+
+	t = t < 0 ? 0 : t > 1 ? 1 : t;
+	return hypot(px - ax - t * dx, py - ay - t * dy);
+}
+
+/* One family of inputs: random walks, noisy copies, zig-zags, GPS-like. */
+static double *
+make_curve(int kind, size_t n, const double *other, size_t on)
+{
+	double	   *c;
+
+	switch (kind)
+	{
+		case 0:
+			return test_walk(n, 0, 0, 5);
+		case 1:
+			return test_jitter(other, on, 2, 1.5);
+		case 2:
+			/* a zig-zag strip: nearly all of the free space open near eps = amplitude */
+			c = malloc(2 * n * sizeof(double));
+			for (size_t i = 0; i < n; i++)
+			{
+				c[2 * i] = (double) i + test_uniform(0, 0.3);
+				c[2 * i + 1] = (i % 2) * 10 + test_uniform(-0.5, 0.5);
+			}
+			return c;
+		default:
+			/* GPS-like: a street with noise, sampled unevenly */
+			c = malloc(2 * n * sizeof(double));
+			{
+				double		x = 0,
+							y = 0,
+							hd = 0;
+
+				for (size_t i = 0; i < n; i++)
+				{
+					hd += test_uniform(-0.2, 0.2);
+					x += test_uniform(5, 25) * cos(hd);
+					y += test_uniform(5, 25) * sin(hd);
+					c[2 * i] = x + test_uniform(-8, 8);
+					c[2 * i + 1] = y + test_uniform(-8, 8);
+				}
+			}
+			return c;
+	}
+}
+
+/*
+ * 100,000+ decisions: random eps, the distance and its neighbouring
+ * doubles, and vertex-to-segment critical values (type b) and theirs.
+ */
+static void
+pruned_agrees_with_plain(void **state)
+{
+	long		decisions = 0;
+
+	for (int t = 0; decisions < 100000; t++)
+	{
+		int			kind = t % 4;
+		size_t		n = 2 + test_rand64() % (t % 10 == 0 ? 160 : 40),
+					m;
+		double	   *ca = make_curve(kind == 1 ? 0 : kind, n, NULL, 0),
+				   *cb;
+		fr_curve	a,
+					b;
+		test_heap	h;
+		fr_env		e = test_env(&h);
+		double		d;
+
+		test_rng_state ^= 0x1234;
+		if (kind == 1)
+		{
+			m = n;
+			cb = make_curve(1, n, ca, n);
+		}
+		else
+		{
+			m = 2 + test_rand64() % (t % 10 == 0 ? 160 : 40);
+			cb = make_curve(kind, m, NULL, 0);
+			if (kind == 2)
+				for (size_t i = 0; i < m; i++)
+					cb[2 * i + 1] = 10 - cb[2 * i + 1];
+			if (kind == 3)
+			{
+				/* the same street driven again: start from a's track */
+				free(cb);
+				m = n;
+				cb = test_jitter(ca, n, 2, 6);
+			}
+		}
+		a = (fr_curve) {ca, n, 2};
+		b = (fr_curve) {cb, m, 2};
+		assert_int_equal(fr_distance(&e, &a, &b, &d, NULL), FR_OK);
+		agree(&a, &b, d, &decisions);
+		agree(&a, &b, nextafter(d, 0), &decisions);
+		agree(&a, &b, nextafter(d, INFINITY), &decisions);
+		agree(&a, &b, d * 1.05, &decisions);
+		agree(&a, &b, d * 0.95, &decisions);
+		for (int r = 0; r < 6; r++)
+			agree(&a, &b, test_uniform(0, 2 * d), &decisions);
+		for (int r = 0; r < 6; r++)
+		{
+			size_t		i = test_rand64() % n,
+						k = test_rand64() % (m - 1);
+			double		v = vertex_segment(&a, i, &b, k);
+
+			agree(&a, &b, v, &decisions);
+			agree(&a, &b, nextafter(v, 0), &decisions);
+			agree(&a, &b, nextafter(v, INFINITY), &decisions);
+		}
+		free(ca);
+		free(cb);
+	}
+	print_message("%ld decisions compared\n", decisions);
+}
+
+/*
+ * The fast distance search returns exactly what the reference search
+ * returns (both find the smallest double the deciders accept, and the
+ * deciders agree), on 600 pairs of every family.
+ */
+static void
+fast_distance_equals_reference(void **state)
+{
+	for (int t = 0; t < 600; t++)
+	{
+		int			kind = t % 4;
+		size_t		n = 2 + test_rand64() % (t % 10 == 0 ? 120 : 40),
+					m = kind == 1 || kind == 3 ? n : 2 + test_rand64() % 40;
+		double	   *ca = make_curve(kind == 1 ? 0 : kind, n, NULL, 0),
+				   *cb = kind == 1 ? make_curve(1, n, ca, n) : kind == 3 ? test_jitter(ca, n, 2, 6) : make_curve(kind, m, NULL, 0);
+		fr_curve	a = {ca, n, 2},
+					b = {cb, m, 2};
+		test_heap	h;
+		fr_env		e = test_env(&h);
+		double		fast,
+					ref;
+
+		if (kind == 2)
+			for (size_t i = 0; i < m; i++)
+				cb[2 * i + 1] = 10 - cb[2 * i + 1];
+		assert_int_equal(fr_distance(&e, &a, &b, &fast, NULL), FR_OK);
+		assert_int_equal(fr_distance_plain(&e, &a, &b, &ref, NULL), FR_OK);
+		assert_int_equal(h.live, 0);
+		if (fast != ref)
+			fail_msg("pair %d (kind %d, n=%zu m=%zu): fast %.17g, reference %.17g", t, kind, n, m, fast, ref);
+		free(ca);
+		free(cb);
+	}
+}
+
+int
+main(void)
+{
+	const struct CMUnitTest tests[] = {
+		cmocka_unit_test(pruned_agrees_with_plain),
+		cmocka_unit_test(fast_distance_equals_reference),
+	};
+
+	return cmocka_run_group_tests_name("prune", tests, NULL, NULL);
+}
