@@ -26,6 +26,16 @@ PG_CFLAGS = -Wall -Wextra -Wno-unused-parameter -Wno-missing-field-initializers 
 	-Wno-sign-compare -Werror=implicit-function-declaration
 PG_CPPFLAGS = -I$(srcdir)/src/core
 
+# PostGIS layer: a second extension, frechet_ext_postgis, whose C functions
+# live in the same library (EWKB decoding, geodesy, planner support; no
+# PostGIS headers, no PostGIS link).  Its pg_regress files are named
+# postgis_*.sql and run only where PostGIS is installed.
+EXTENSION += frechet_ext_postgis
+CORE_OBJS += src/core/geodesy.o
+OBJS += src/ewkb.o src/geo_glue.o src/geo_witness.o
+DATA_built += sql/frechet_ext_postgis--$(EXTVERSION).sql
+EXTRA_CLEAN += sql/frechet_ext_postgis--$(EXTVERSION).sql
+
 # Debian installs several majors side by side; prefer 15, the supported one.
 PG_CONFIG ?= $(firstword $(wildcard /usr/lib/postgresql/15/bin/pg_config) pg_config)
 PGXS := $(shell $(PG_CONFIG) --pgxs)
@@ -54,3 +64,13 @@ check-core: $(CORE_TESTS)
 
 bench:
 	$(MAKE) -C bench
+
+# PostGIS layer: install script, regress filter, geodesy reference checks.
+sql/frechet_ext_postgis--$(EXTVERSION).sql: sql/frechet_ext_postgis.sql
+	cp $< $@
+
+ifeq ($(wildcard $(shell $(PG_CONFIG) --sharedir)/extension/postgis.control),)
+REGRESS := $(filter-out postgis_%,$(REGRESS))
+endif
+
+# Checks our WGS84 metric against PROJ's geodesics (geod_inverse, Karney 2013).

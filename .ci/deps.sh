@@ -8,6 +8,8 @@ FRECHET_PACKAGES=(
 	postgresql-15 postgresql-server-dev-15 postgresql-contrib
 	postgresql-15-postgis-3
 	libgeos-dev libcmocka-dev
+	# PostGIS layer: PROJ's geodesics for the reference checks of the metres
+	libproj-dev
 )
 
 missing=()

@@ -1,0 +1,245 @@
+-- frechet_ext_postgis install script: Fréchet distances on PostGIS geometry
+-- and geography.  The C functions live in the frechet_ext library, which
+-- neither includes PostGIS headers nor links PostGIS: it asks PostGIS for
+-- ST_AsEWKB of each argument and decodes the EWKB itself.
+\echo Use "CREATE EXTENSION frechet_ext_postgis" to load this file. \quit
+
+-- PostgreSQL 15 has no @extschema:postgis@; while this script runs, the
+-- schema of postgis (a required extension) is on search_path after ours.
+-- Make sure the type names below resolve to PostGIS's own types.
+DO $$
+DECLARE
+	pg_nsp oid := (SELECT extnamespace FROM pg_catalog.pg_extension WHERE extname = 'postgis');
+BEGIN
+	IF (SELECT typnamespace FROM pg_catalog.pg_type WHERE oid = 'geometry'::pg_catalog.regtype) <> pg_nsp
+	   OR (SELECT typnamespace FROM pg_catalog.pg_type WHERE oid = 'geography'::pg_catalog.regtype) <> pg_nsp THEN
+		RAISE EXCEPTION 'geometry or geography does not resolve to the types of postgis'
+			USING DETAIL = 'Another type of that name is in the target schema.',
+			      HINT = 'Install frechet_ext_postgis in the schema of postgis or in a schema without such types.';
+	END IF;
+END $$;
+
+-- EWKB entry points: usable without PostGIS values, e.g. on EWKB from elsewhere.
+CREATE FUNCTION @extschema@.frechet_distance_ewkb(a pg_catalog.bytea, b pg_catalog.bytea, geodetic pg_catalog.bool DEFAULT false)
+RETURNS pg_catalog.float8
+AS 'MODULE_PATHNAME', 'frechet_distance_ewkb'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 50000;
+
+COMMENT ON FUNCTION @extschema@.frechet_distance_ewkb(pg_catalog.bytea, pg_catalog.bytea, pg_catalog.bool) IS
+'continuous Fréchet distance between two EWKB/WKB LineStrings or Points; geodetic: lon/lat degrees, result in metres on WGS84';
+
+CREATE FUNCTION @extschema@.frechet_at_most_ewkb(a pg_catalog.bytea, b pg_catalog.bytea, epsilon pg_catalog.float8, geodetic pg_catalog.bool DEFAULT false)
+RETURNS pg_catalog.bool
+AS 'MODULE_PATHNAME', 'frechet_at_most_ewkb'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 5000;
+
+COMMENT ON FUNCTION @extschema@.frechet_at_most_ewkb(pg_catalog.bytea, pg_catalog.bytea, pg_catalog.float8, pg_catalog.bool) IS
+'true when the continuous Fréchet distance between two EWKB/WKB curves is at most epsilon (metres on WGS84 when geodetic)';
+
+CREATE FUNCTION @extschema@.discrete_frechet_distance_ewkb(a pg_catalog.bytea, b pg_catalog.bytea, geodetic pg_catalog.bool DEFAULT false)
+RETURNS pg_catalog.float8
+AS 'MODULE_PATHNAME', 'discrete_frechet_distance_ewkb'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 10000;
+
+COMMENT ON FUNCTION @extschema@.discrete_frechet_distance_ewkb(pg_catalog.bytea, pg_catalog.bytea, pg_catalog.bool) IS
+'discrete Fréchet distance between two EWKB/WKB curves; geodetic: lon/lat degrees, result in metres on WGS84';
+
+-- Used by the index condition that the planner support function builds.
+CREATE FUNCTION @extschema@.frechet_index_expansion(epsilon pg_catalog.float8, geodetic pg_catalog.bool)
+RETURNS pg_catalog.float8
+AS 'MODULE_PATHNAME', 'frechet_index_expansion'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+
+COMMENT ON FUNCTION @extschema@.frechet_index_expansion(pg_catalog.float8, pg_catalog.bool) IS
+'how far a bounding box is expanded for the index filter of frechet_at_most (internal; validates epsilon)';
+
+CREATE FUNCTION @extschema@.frechet_geo_at_most_support(internal)
+RETURNS internal
+AS 'MODULE_PATHNAME', 'frechet_geo_at_most_support'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+
+COMMENT ON FUNCTION @extschema@.frechet_geo_at_most_support(internal) IS
+'planner support for frechet_at_most on geometry and geography: a lossy bounding-box index condition expanded by epsilon';
+
+-- geometry: planar, in the units of the SRID; 3-D when both curves have Z.
+CREATE FUNCTION @extschema@.frechet_distance(a geometry, b geometry)
+RETURNS pg_catalog.float8
+AS 'MODULE_PATHNAME', 'frechet_distance_geometry'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 50000;
+
+COMMENT ON FUNCTION @extschema@.frechet_distance(geometry, geometry) IS
+'continuous Fréchet distance between two LineStrings (or Points), in the units of their SRID; 3-D when both have Z';
+
+CREATE FUNCTION @extschema@.frechet_at_most(a geometry, b geometry, epsilon pg_catalog.float8)
+RETURNS pg_catalog.bool
+AS 'MODULE_PATHNAME', 'frechet_at_most_geometry'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 5000
+SUPPORT @extschema@.frechet_geo_at_most_support;
+
+COMMENT ON FUNCTION @extschema@.frechet_at_most(geometry, geometry, pg_catalog.float8) IS
+'true when the continuous Fréchet distance is at most epsilon (units of the SRID); uses a PostGIS index on either argument';
+
+CREATE FUNCTION @extschema@.discrete_frechet_distance(a geometry, b geometry)
+RETURNS pg_catalog.float8
+AS 'MODULE_PATHNAME', 'discrete_frechet_distance_geometry'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 10000;
+
+COMMENT ON FUNCTION @extschema@.discrete_frechet_distance(geometry, geometry) IS
+'discrete Fréchet distance (vertex couplings only) between two LineStrings, in the units of their SRID';
+
+-- geography: metres on the WGS84 ellipsoid (Earth-centred chord metric).
+CREATE FUNCTION @extschema@.frechet_distance(a geography, b geography)
+RETURNS pg_catalog.float8
+AS 'MODULE_PATHNAME', 'frechet_distance_geography'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 50000;
+
+COMMENT ON FUNCTION @extschema@.frechet_distance(geography, geography) IS
+'continuous Fréchet distance between two lon/lat LineStrings, in metres on WGS84';
+
+CREATE FUNCTION @extschema@.frechet_at_most(a geography, b geography, epsilon pg_catalog.float8)
+RETURNS pg_catalog.bool
+AS 'MODULE_PATHNAME', 'frechet_at_most_geography'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 5000
+SUPPORT @extschema@.frechet_geo_at_most_support;
+
+COMMENT ON FUNCTION @extschema@.frechet_at_most(geography, geography, pg_catalog.float8) IS
+'true when the continuous Fréchet distance is at most epsilon metres on WGS84; uses a PostGIS geography index on either argument';
+
+CREATE FUNCTION @extschema@.discrete_frechet_distance(a geography, b geography)
+RETURNS pg_catalog.float8
+AS 'MODULE_PATHNAME', 'discrete_frechet_distance_geography'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 10000;
+
+COMMENT ON FUNCTION @extschema@.discrete_frechet_distance(geography, geography) IS
+'discrete Fréchet distance between two lon/lat LineStrings, in metres on WGS84';
+
+-- PostGIS already owns <-> on geometry and geography (box and centroid
+-- distance for nearest-neighbour searches), so the Fréchet distance
+-- operator of these types is spelled <~>.
+CREATE OPERATOR @extschema@.<~> (
+	LEFTARG = geometry,
+	RIGHTARG = geometry,
+	FUNCTION = @extschema@.frechet_distance,
+	COMMUTATOR = OPERATOR(@extschema@.<~>)
+);
+
+COMMENT ON OPERATOR @extschema@.<~> (geometry, geometry) IS
+'continuous Fréchet distance, the same as frechet_distance(geometry, geometry)';
+
+CREATE OPERATOR @extschema@.<~> (
+	LEFTARG = geography,
+	RIGHTARG = geography,
+	FUNCTION = @extschema@.frechet_distance,
+	COMMUTATOR = OPERATOR(@extschema@.<~>)
+);
+
+COMMENT ON OPERATOR @extschema@.<~> (geography, geography) IS
+'continuous Fréchet distance in metres, the same as frechet_distance(geography, geography)';
+
+-- Witnesses on geometry (units of the SRID); results for maps keep the inputs' SRID.
+CREATE FUNCTION @extschema@.frechet_matching(a geometry, b geometry, epsilon pg_catalog.float8 DEFAULT NULL)
+RETURNS TABLE (step pg_catalog.int4, a_pos pg_catalog.float8, b_pos pg_catalog.float8,
+	a_point geometry, b_point geometry, leash pg_catalog.float8)
+AS 'MODULE_PATHNAME', 'frechet_matching_geometry'
+LANGUAGE C IMMUTABLE CALLED ON NULL INPUT PARALLEL SAFE COST 100000 ROWS 200;
+
+COMMENT ON FUNCTION @extschema@.frechet_matching(geometry, geometry, pg_catalog.float8) IS
+'breakpoints of a monotone matching (positions k + t, 1-based) with their points; leash in units of the SRID; optimal when epsilon is NULL, else any within epsilon, or no rows';
+
+CREATE FUNCTION @extschema@.frechet_matching_leashes(a geometry, b geometry, epsilon pg_catalog.float8 DEFAULT NULL)
+RETURNS geometry
+AS 'MODULE_PATHNAME', 'frechet_matching_leashes_geometry'
+LANGUAGE C IMMUTABLE CALLED ON NULL INPUT PARALLEL SAFE COST 100000;
+
+COMMENT ON FUNCTION @extschema@.frechet_matching_leashes(geometry, geometry, pg_catalog.float8) IS
+'the matching of frechet_matching as a MultiLineString of leash segments (one per breakpoint), for a map; NULL when no matching within epsilon exists';
+
+CREATE FUNCTION @extschema@.frechet_bottleneck(a geometry, b geometry)
+RETURNS TABLE (a_pos pg_catalog.float8, b_pos pg_catalog.float8,
+	a_point geometry, b_point geometry, leash pg_catalog.float8)
+AS 'MODULE_PATHNAME', 'frechet_bottleneck_geometry'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 100000 ROWS 1;
+
+COMMENT ON FUNCTION @extschema@.frechet_bottleneck(geometry, geometry) IS
+'where the longest leash of an optimal matching is: positions, points and the leash (units of the SRID), which equals the Fréchet distance';
+
+CREATE FUNCTION @extschema@.frechet_partial_distance(trip geometry, route geometry)
+RETURNS pg_catalog.float8
+AS 'MODULE_PATHNAME', 'frechet_partial_distance_geometry'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 50000;
+
+COMMENT ON FUNCTION @extschema@.frechet_partial_distance(geometry, geometry) IS
+'smallest Fréchet distance between the trip and any part of the route, in units of the SRID';
+
+CREATE FUNCTION @extschema@.frechet_partial_match(trip geometry, route geometry, epsilon pg_catalog.float8)
+RETURNS TABLE (route_from pg_catalog.float8, route_to pg_catalog.float8, distance pg_catalog.float8,
+	route_part geometry)
+AS 'MODULE_PATHNAME', 'frechet_partial_match_geometry'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 20000 ROWS 1;
+
+COMMENT ON FUNCTION @extschema@.frechet_partial_match(geometry, geometry, pg_catalog.float8) IS
+'the part of the route the trip follows within epsilon (units of the SRID): positions, distance and the route sub-line; no row if none';
+
+CREATE FUNCTION @extschema@.frechet_excursions(trip geometry, route geometry, epsilon pg_catalog.float8)
+RETURNS TABLE (trip_from pg_catalog.float8, trip_to pg_catalog.float8,
+	route_from pg_catalog.float8, route_to pg_catalog.float8,
+	max_leash pg_catalog.float8, trip_length pg_catalog.float8, trip_piece geometry)
+AS 'MODULE_PATHNAME', 'frechet_excursions_geometry'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 100000 ROWS 2;
+
+COMMENT ON FUNCTION @extschema@.frechet_excursions(geometry, geometry, pg_catalog.float8) IS
+'stretches of the trip that no order-preserving matching keeps within epsilon (units of the SRID) of the route, with the trip piece as a LineString; no rows exactly when frechet_at_most is true';
+
+-- Witnesses on geography (metres on WGS84); results for maps keep the inputs' SRID.
+CREATE FUNCTION @extschema@.frechet_matching(a geography, b geography, epsilon pg_catalog.float8 DEFAULT NULL)
+RETURNS TABLE (step pg_catalog.int4, a_pos pg_catalog.float8, b_pos pg_catalog.float8,
+	a_point geography, b_point geography, leash pg_catalog.float8)
+AS 'MODULE_PATHNAME', 'frechet_matching_geography'
+LANGUAGE C IMMUTABLE CALLED ON NULL INPUT PARALLEL SAFE COST 100000 ROWS 200;
+
+COMMENT ON FUNCTION @extschema@.frechet_matching(geography, geography, pg_catalog.float8) IS
+'breakpoints of a monotone matching (positions k + t, 1-based) with their points; leash in metres on WGS84; optimal when epsilon is NULL, else any within epsilon, or no rows';
+
+CREATE FUNCTION @extschema@.frechet_matching_leashes(a geography, b geography, epsilon pg_catalog.float8 DEFAULT NULL)
+RETURNS geography
+AS 'MODULE_PATHNAME', 'frechet_matching_leashes_geography'
+LANGUAGE C IMMUTABLE CALLED ON NULL INPUT PARALLEL SAFE COST 100000;
+
+COMMENT ON FUNCTION @extschema@.frechet_matching_leashes(geography, geography, pg_catalog.float8) IS
+'the matching of frechet_matching as a MultiLineString of leash segments (one per breakpoint), for a map; NULL when no matching within epsilon exists';
+
+CREATE FUNCTION @extschema@.frechet_bottleneck(a geography, b geography)
+RETURNS TABLE (a_pos pg_catalog.float8, b_pos pg_catalog.float8,
+	a_point geography, b_point geography, leash pg_catalog.float8)
+AS 'MODULE_PATHNAME', 'frechet_bottleneck_geography'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 100000 ROWS 1;
+
+COMMENT ON FUNCTION @extschema@.frechet_bottleneck(geography, geography) IS
+'where the longest leash of an optimal matching is: positions, points and the leash (metres on WGS84), which equals the Fréchet distance';
+
+CREATE FUNCTION @extschema@.frechet_partial_distance(trip geography, route geography)
+RETURNS pg_catalog.float8
+AS 'MODULE_PATHNAME', 'frechet_partial_distance_geography'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 50000;
+
+COMMENT ON FUNCTION @extschema@.frechet_partial_distance(geography, geography) IS
+'smallest Fréchet distance between the trip and any part of the route, in metres on WGS84';
+
+CREATE FUNCTION @extschema@.frechet_partial_match(trip geography, route geography, epsilon pg_catalog.float8)
+RETURNS TABLE (route_from pg_catalog.float8, route_to pg_catalog.float8, distance pg_catalog.float8,
+	route_part geography)
+AS 'MODULE_PATHNAME', 'frechet_partial_match_geography'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 20000 ROWS 1;
+
+COMMENT ON FUNCTION @extschema@.frechet_partial_match(geography, geography, pg_catalog.float8) IS
+'the part of the route the trip follows within epsilon (metres on WGS84): positions, distance and the route sub-line; no row if none';
+
+CREATE FUNCTION @extschema@.frechet_excursions(trip geography, route geography, epsilon pg_catalog.float8)
+RETURNS TABLE (trip_from pg_catalog.float8, trip_to pg_catalog.float8,
+	route_from pg_catalog.float8, route_to pg_catalog.float8,
+	max_leash pg_catalog.float8, trip_length pg_catalog.float8, trip_piece geography)
+AS 'MODULE_PATHNAME', 'frechet_excursions_geography'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 100000 ROWS 2;
+
+COMMENT ON FUNCTION @extschema@.frechet_excursions(geography, geography, pg_catalog.float8) IS
+'stretches of the trip that no order-preserving matching keeps within epsilon (metres on WGS84) of the route, with the trip piece as a LineString; no rows exactly when frechet_at_most is true';

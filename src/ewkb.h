@@ -1,0 +1,23 @@
+/*
+ * ewkb.h - EWKB/WKB Point and LineString decoding into engine curves; see ewkb.c.
+ */
+#ifndef FRECHET_EWKB_H
+#define FRECHET_EWKB_H
+
+#include "postgres.h"
+
+/* A decoded curve: n vertices of dim (2 or 3) coordinates, M dropped. */
+typedef struct ewkb_curve
+{
+	double	   *coords;
+	size_t		n;
+	int			dim;
+	bool		has_m;
+	bool		has_srid;
+	int32		srid;
+} ewkb_curve;
+
+/* Decodes buf[0..len); ERRORs name argument argno. */
+void		ewkb_decode(const uint8 *buf, size_t len, int argno, ewkb_curve *out);
+
+#endif							/* FRECHET_EWKB_H */

@@ -1,0 +1,623 @@
+/*
+ * geo_glue.c - the PostGIS layer: Fréchet functions on EWKB (bytea), on
+ * PostGIS geometry (planar, in the units of the SRID) and on geography
+ * (metres on WGS84), and the planner support function that lets
+ * frechet_at_most use an existing PostGIS index.
+ *
+ * This library neither includes PostGIS headers nor links PostGIS.  A
+ * geometry or geography argument reaches us as an opaque varlena; we call
+ * PostGIS's own ST_AsEWKB on it through the function manager (looked up in
+ * the schema of the postgis extension, never through search_path) and
+ * decode the EWKB ourselves (ewkb.c).
+ */
+#include "postgres.h"
+
+#include <math.h>
+
+#include "access/genam.h"
+#include "access/htup_details.h"
+#include "access/table.h"
+#include "catalog/indexing.h"
+#include "catalog/pg_extension.h"
+#include "catalog/pg_type.h"
+#include "fmgr.h"
+#include "nodes/makefuncs.h"
+#include "nodes/nodeFuncs.h"
+#include "nodes/supportnodes.h"
+#include "optimizer/optimizer.h"
+#include "parser/parse_func.h"
+#include "parser/parse_oper.h"
+#include "utils/builtins.h"
+#include "utils/fmgroids.h"
+#include "utils/lsyscache.h"
+#include "utils/syscache.h"
+
+#include "lib/stringinfo.h"
+
+#include "glue.h"
+#include "ewkb.h"
+#include "geo_glue.h"
+#include "geodesy.h"
+
+/* The PostGIS functions a call site needs, found once and kept in fn_extra. */
+typedef struct postgis_calls
+{
+	FmgrInfo	as_ewkb;		/* ST_AsEWKB(geometry) */
+	FmgrInfo	to_geometry;	/* geometry(geography), for geography input */
+	FmgrInfo	from_ewkb;		/* ST_GeomFromEWKB(bytea), for results */
+	FmgrInfo	to_geography;	/* geography(geometry), for geography results */
+} postgis_calls;
+
+/* Schema of the installed postgis extension; ERROR when it is not installed. */
+static Oid
+postgis_namespace(void)
+{
+	Relation	rel;
+	ScanKeyData key;
+	SysScanDesc scan;
+	HeapTuple	tup;
+	Oid			nsp = InvalidOid;
+
+	rel = table_open(ExtensionRelationId, AccessShareLock);
+	ScanKeyInit(&key, Anum_pg_extension_extname, BTEqualStrategyNumber,
+				F_NAMEEQ, CStringGetDatum("postgis"));
+	scan = systable_beginscan(rel, ExtensionNameIndexId, true, NULL, 1, &key);
+	tup = systable_getnext(scan);
+	if (HeapTupleIsValid(tup))
+		nsp = ((Form_pg_extension) GETSTRUCT(tup))->extnamespace;
+	systable_endscan(scan);
+	table_close(rel, AccessShareLock);
+	if (!OidIsValid(nsp))
+		ereport(ERROR,
+				(errcode(ERRCODE_UNDEFINED_OBJECT),
+				 errmsg("extension \"postgis\" is not installed"),
+				 errdetail("The geometry and geography functions of frechet_ext call PostGIS.")));
+	return nsp;
+}
+
+/* OID of a type of the postgis schema. */
+static Oid
+postgis_type(Oid nsp, const char *name)
+{
+	Oid			typ = GetSysCacheOid2(TYPENAMENSP, Anum_pg_type_oid,
+									  CStringGetDatum(name), ObjectIdGetDatum(nsp));
+
+	if (!OidIsValid(typ))
+		elog(ERROR, "type %s not found in the schema of postgis", name);
+	return typ;
+}
+
+/* OID of a function of the given schema, by name and argument types. */
+static Oid
+schema_function(Oid nsp, const char *name, int nargs, Oid *argtypes)
+{
+	List	   *qname = list_make2(makeString(get_namespace_name(nsp)),
+								   makeString(pstrdup(name)));
+
+	return LookupFuncName(qname, nargs, argtypes, false);
+}
+
+/* Finds ST_AsEWKB (and the geography-to-geometry cast) for one call site. */
+static postgis_calls *
+postgis_calls_for(FunctionCallInfo fcinfo)
+{
+	postgis_calls *calls = fcinfo->flinfo->fn_extra;
+
+	if (calls == NULL)
+	{
+		MemoryContext mcxt = fcinfo->flinfo->fn_mcxt;
+		Oid			nsp = postgis_namespace();
+		Oid			geometry = postgis_type(nsp, "geometry");
+		Oid			geography = postgis_type(nsp, "geography");
+		Oid			bytea_type = BYTEAOID;
+
+		calls = MemoryContextAllocZero(mcxt, sizeof(postgis_calls));
+		fmgr_info_cxt(schema_function(nsp, "st_asewkb", 1, &geometry),
+					  &calls->as_ewkb, mcxt);
+		fmgr_info_cxt(schema_function(nsp, "geometry", 1, &geography),
+					  &calls->to_geometry, mcxt);
+		fmgr_info_cxt(schema_function(nsp, "st_geomfromewkb", 1, &bytea_type),
+					  &calls->from_ewkb, mcxt);
+		fmgr_info_cxt(schema_function(nsp, "geography", 1, &geometry),
+					  &calls->to_geography, mcxt);
+		fcinfo->flinfo->fn_extra = calls;
+	}
+	return calls;
+}
+
+/* The EWKB of a geometry or geography argument, made by PostGIS. */
+static bytea *
+argument_ewkb(FunctionCallInfo fcinfo, int argno, bool geography)
+{
+	postgis_calls *calls = postgis_calls_for(fcinfo);
+	Datum		g = PG_GETARG_DATUM(argno);
+
+	if (geography)
+		g = FunctionCall1(&calls->to_geometry, g);
+	return DatumGetByteaPP(FunctionCall1(&calls->as_ewkb, g));
+}
+
+/* Checks that two decoded curves agree on SRID and dimension. */
+static void
+check_compatible(const ewkb_curve *a, const ewkb_curve *b)
+{
+	if (a->srid != b->srid)
+		ereport(ERROR,
+				(errcode(ERRCODE_INVALID_PARAMETER_VALUE),
+				 errmsg("curves must have the same SRID"),
+				 errdetail("Argument 1 has SRID %d and argument 2 has SRID %d.",
+						   a->srid, b->srid),
+				 errhint("Transform one of them first, e.g. with ST_Transform.")));
+	if (a->dim != b->dim)
+		ereport(ERROR,
+				(errcode(ERRCODE_INVALID_PARAMETER_VALUE),
+				 errmsg("curves must both be 2-D or both be 3-D"),
+				 errdetail("Argument 1 is %d-D and argument 2 is %d-D.", a->dim, b->dim),
+				 errhint("Use ST_Force2D or ST_Force3D on one of them.")));
+}
+
+/* WGS84 Earth-centred coordinates of a lon/lat (degrees) curve; Z is ignored. */
+static double *
+to_ecef(const ewkb_curve *c, int argno)
+{
+	double	   *xyz = palloc(sizeof(double) * 3 * c->n);
+
+	for (size_t i = 0; i < c->n; i++)
+	{
+		double		lon = c->coords[i * c->dim],
+					lat = c->coords[i * c->dim + 1];
+
+		if (!fr_geo_valid(lon, lat))
+			ereport(ERROR,
+					(errcode(ERRCODE_NUMERIC_VALUE_OUT_OF_RANGE),
+					 errmsg("longitude or latitude out of range"),
+					 errdetail("Argument %d has (longitude %g, latitude %g) at vertex %zu; longitude must be in [-180, 180] and latitude in [-90, 90].",
+							   argno, lon, lat, i + 1)));
+		fr_geo_to_ecef(lon, lat, xyz + 3 * i);
+	}
+	return xyz;
+}
+
+/* Decodes both EWKB arguments into engine curves, keeping the decoded input. */
+static void
+decode_curves(bytea *a, bytea *b, bool geodetic, geo_curves *gc)
+{
+	ewkb_decode((const uint8 *) VARDATA_ANY(a), VARSIZE_ANY_EXHDR(a), 1, &gc->a);
+	ewkb_decode((const uint8 *) VARDATA_ANY(b), VARSIZE_ANY_EXHDR(b), 2, &gc->b);
+	check_compatible(&gc->a, &gc->b);
+	gc->geodetic = geodetic;
+	gc->p.n = gc->a.n;
+	gc->q.n = gc->b.n;
+	if (geodetic)
+	{
+		gc->p.coords = to_ecef(&gc->a, 1);
+		gc->q.coords = to_ecef(&gc->b, 2);
+		gc->p.dim = gc->q.dim = 3;
+	}
+	else
+	{
+		gc->p.coords = gc->a.coords;
+		gc->q.coords = gc->b.coords;
+		gc->p.dim = gc->q.dim = gc->a.dim;
+	}
+}
+
+/* Decodes both EWKB arguments into engine curves, geodetic: lon/lat to ECEF. */
+static void
+decode_pair(bytea *a, bytea *b, bool geodetic, fr_curve *p, fr_curve *q)
+{
+	geo_curves	gc;
+
+	decode_curves(a, b, geodetic, &gc);
+	*p = gc.p;
+	*q = gc.q;
+}
+
+/* Decodes the first two arguments (geometry, or geography when geodetic). */
+void
+geo_decode_args(FunctionCallInfo fcinfo, bool geodetic, geo_curves *gc)
+{
+	decode_curves(argument_ewkb(fcinfo, 0, geodetic), argument_ewkb(fcinfo, 1, geodetic),
+				  geodetic, gc);
+}
+
+/* Appends a little-endian 32-bit integer. */
+static void
+put_u32(StringInfo buf, uint32 v)
+{
+	for (int i = 0; i < 4; i++)
+		appendStringInfoChar(buf, (char) ((v >> (8 * i)) & 0xff));
+}
+
+/* Appends a little-endian IEEE 754 double. */
+static void
+put_f64(StringInfo buf, double d)
+{
+	uint64		u;
+
+	memcpy(&u, &d, sizeof(u));
+	for (int i = 0; i < 8; i++)
+		appendStringInfoChar(buf, (char) ((u >> (8 * i)) & 0xff));
+}
+
+/* Output coordinates of position pos (0-based k + t) of curve which (0: a, 1: b). */
+static void
+output_point(const geo_curves *gc, int which, double pos, double *out)
+{
+	const fr_curve *c = which ? &gc->q : &gc->p;
+	const ewkb_curve *orig = which ? &gc->b : &gc->a;
+	int			odim = geo_output_dim(gc);
+	double		k = floor(pos);
+
+	if (pos == k && k >= 0 && k < (double) orig->n)
+	{
+		/* a vertex: the input's own coordinates, exactly */
+		memcpy(out, orig->coords + (size_t) k * orig->dim, odim * sizeof(double));
+		return;
+	}
+	if (gc->geodetic)
+	{
+		double		xyz[3];
+
+		fr_curve_point(c, pos, xyz);
+		fr_ecef_to_geo(xyz, &out[0], &out[1]);
+	}
+	else
+		fr_curve_point(c, pos, out);
+}
+
+/* Coordinates per output vertex: 2 for geography, else the input's. */
+int
+geo_output_dim(const geo_curves *gc)
+{
+	return gc->geodetic ? 2 : gc->a.dim;
+}
+
+/* Starts an EWKB geometry of the given OGC type with the inputs' SRID. */
+static void
+begin_ewkb(StringInfo buf, const geo_curves *gc, uint32 type)
+{
+	uint32		flags = 0x20000000u | (geo_output_dim(gc) == 3 ? 0x80000000u : 0);
+
+	initStringInfo(buf);
+	appendBinaryStringInfo(buf, "\x00\x00\x00\x00", VARHDRSZ);
+	appendStringInfoChar(buf, 1);
+	put_u32(buf, type | flags);
+	put_u32(buf, (uint32) gc->a.srid);
+}
+
+/* Appends a LineString body (no header) through the given output points. */
+static void
+put_points(StringInfo buf, const geo_curves *gc, const double *pts, size_t n)
+{
+	int			odim = geo_output_dim(gc);
+
+	put_u32(buf, (uint32) n);
+	for (size_t i = 0; i < n * odim; i++)
+		put_f64(buf, pts[i]);
+}
+
+/* Turns the EWKB in buf into a geometry (or geography) Datum through PostGIS. */
+static Datum
+finish_ewkb(FunctionCallInfo fcinfo, const geo_curves *gc, StringInfo buf)
+{
+	postgis_calls *calls = postgis_calls_for(fcinfo);
+	Datum		g;
+
+	SET_VARSIZE(buf->data, buf->len);
+	g = FunctionCall1(&calls->from_ewkb, PointerGetDatum(buf->data));
+	if (gc->geodetic)
+		g = FunctionCall1(&calls->to_geography, g);
+	return g;
+}
+
+/* A Point at position pos of curve which, as geometry or geography. */
+Datum
+geo_point_datum(FunctionCallInfo fcinfo, const geo_curves *gc, int which, double pos)
+{
+	StringInfoData buf;
+	double		pt[3];
+
+	output_point(gc, which, pos, pt);
+	begin_ewkb(&buf, gc, 1);
+	for (int i = 0; i < geo_output_dim(gc); i++)
+		put_f64(&buf, pt[i]);
+	return finish_ewkb(fcinfo, gc, &buf);
+}
+
+/* The part of curve which between positions from <= to, as a LineString. */
+Datum
+geo_subline_datum(FunctionCallInfo fcinfo, const geo_curves *gc, int which,
+				  double from, double to)
+{
+	StringInfoData buf;
+	int			odim = geo_output_dim(gc);
+	size_t		first = (size_t) floor(from) + 1,
+				n = 0;
+	double	   *pts = palloc(sizeof(double) * odim * ((size_t) (to - from) + 3));
+
+	output_point(gc, which, from, pts);
+	n = 1;
+	for (size_t k = first; (double) k < to; k++)
+		output_point(gc, which, (double) k, pts + odim * n++);
+	output_point(gc, which, to, pts + odim * n++);
+	begin_ewkb(&buf, gc, 2);
+	put_points(&buf, gc, pts, n);
+	return finish_ewkb(fcinfo, gc, &buf);
+}
+
+/* A MultiLineString of the leashes at the given breakpoints of a matching. */
+Datum
+geo_leashes_datum(FunctionCallInfo fcinfo, const geo_curves *gc,
+				  const fr_match_pt *pts, size_t count)
+{
+	StringInfoData buf;
+	int			odim = geo_output_dim(gc);
+
+	begin_ewkb(&buf, gc, 5);
+	put_u32(&buf, (uint32) count);
+	for (size_t k = 0; k < count; k++)
+	{
+		double		seg[6];
+
+		output_point(gc, 0, pts[k].a_pos, seg);
+		output_point(gc, 1, pts[k].b_pos, seg + odim);
+		appendStringInfoChar(&buf, 1);
+		put_u32(&buf, 2 | (odim == 3 ? 0x80000000u : 0));
+		put_points(&buf, gc, seg, 2);
+	}
+	return finish_ewkb(fcinfo, gc, &buf);
+}
+
+/* A distance from the engine in output units: metres when geodetic. */
+double
+geo_result_distance(const geo_curves *gc, double d)
+{
+	return gc->geodetic ? fr_chord_to_metres(d) : d;
+}
+
+/* A tolerance in output units as the engine's: a chord when geodetic. */
+double
+geo_engine_epsilon(const geo_curves *gc, double eps)
+{
+	return gc->geodetic ? fr_metres_to_chord(eps) : eps;
+}
+
+/* Continuous distance of two encoded curves; in metres when geodetic. */
+static double
+distance_of(bytea *a, bytea *b, bool geodetic)
+{
+	fr_curve	p,
+				q;
+	glue_env	g;
+	double		d;
+	fr_status	st;
+
+	decode_pair(a, b, geodetic, &p, &q);
+	glue_env_begin(&g, fr_scratch_bytes(p.n, q.n), "frechet_distance");
+	st = fr_distance(&g.env, &p, &q, &d, NULL);
+	glue_env_end(&g);
+	glue_check_status(st, "frechet_distance");
+	return geodetic ? fr_chord_to_metres(d) : d;
+}
+
+/* Decision on two encoded curves; eps in metres when geodetic. */
+static bool
+at_most_of(bytea *a, bytea *b, double eps, bool geodetic)
+{
+	fr_curve	p,
+				q;
+	glue_env	g;
+	bool		yes;
+	fr_status	st;
+
+	decode_pair(a, b, geodetic, &p, &q);
+	glue_check_epsilon(eps, 3);
+	glue_env_begin(&g, fr_scratch_bytes(p.n, q.n), "frechet_at_most");
+	st = fr_decide(&g.env, &p, &q, geodetic ? fr_metres_to_chord(eps) : eps, &yes, NULL);
+	glue_env_end(&g);
+	glue_check_status(st, "frechet_at_most");
+	return yes;
+}
+
+/* Discrete distance of two encoded curves; in metres when geodetic. */
+static double
+discrete_of(bytea *a, bytea *b, bool geodetic)
+{
+	fr_curve	p,
+				q;
+	glue_env	g;
+	double		d;
+	fr_status	st;
+
+	decode_pair(a, b, geodetic, &p, &q);
+	glue_env_begin(&g, fr_scratch_bytes(p.n, q.n), "discrete_frechet_distance");
+	st = fr_discrete_distance(&g.env, &p, &q, &d);
+	glue_env_end(&g);
+	glue_check_status(st, "discrete_frechet_distance");
+	return geodetic ? fr_chord_to_metres(d) : d;
+}
+
+PG_FUNCTION_INFO_V1(frechet_distance_ewkb);
+/* frechet_distance_ewkb(bytea, bytea, geodetic bool): distance of two EWKB curves. */
+Datum
+frechet_distance_ewkb(PG_FUNCTION_ARGS)
+{
+	PG_RETURN_FLOAT8(distance_of(PG_GETARG_BYTEA_PP(0), PG_GETARG_BYTEA_PP(1),
+								 PG_GETARG_BOOL(2)));
+}
+
+PG_FUNCTION_INFO_V1(frechet_at_most_ewkb);
+/* frechet_at_most_ewkb(bytea, bytea, float8, geodetic bool): is the distance at most epsilon? */
+Datum
+frechet_at_most_ewkb(PG_FUNCTION_ARGS)
+{
+	PG_RETURN_BOOL(at_most_of(PG_GETARG_BYTEA_PP(0), PG_GETARG_BYTEA_PP(1),
+							  PG_GETARG_FLOAT8(2), PG_GETARG_BOOL(3)));
+}
+
+PG_FUNCTION_INFO_V1(discrete_frechet_distance_ewkb);
+/* discrete_frechet_distance_ewkb(bytea, bytea, geodetic bool): discrete distance of two EWKB curves. */
+Datum
+discrete_frechet_distance_ewkb(PG_FUNCTION_ARGS)
+{
+	PG_RETURN_FLOAT8(discrete_of(PG_GETARG_BYTEA_PP(0), PG_GETARG_BYTEA_PP(1),
+								 PG_GETARG_BOOL(2)));
+}
+
+PG_FUNCTION_INFO_V1(frechet_distance_geometry);
+/* frechet_distance(geometry, geometry): in the units of the SRID. */
+Datum
+frechet_distance_geometry(PG_FUNCTION_ARGS)
+{
+	PG_RETURN_FLOAT8(distance_of(argument_ewkb(fcinfo, 0, false),
+								 argument_ewkb(fcinfo, 1, false), false));
+}
+
+PG_FUNCTION_INFO_V1(frechet_at_most_geometry);
+/* frechet_at_most(geometry, geometry, float8): epsilon in the units of the SRID. */
+Datum
+frechet_at_most_geometry(PG_FUNCTION_ARGS)
+{
+	PG_RETURN_BOOL(at_most_of(argument_ewkb(fcinfo, 0, false),
+							  argument_ewkb(fcinfo, 1, false),
+							  PG_GETARG_FLOAT8(2), false));
+}
+
+PG_FUNCTION_INFO_V1(discrete_frechet_distance_geometry);
+/* discrete_frechet_distance(geometry, geometry): in the units of the SRID. */
+Datum
+discrete_frechet_distance_geometry(PG_FUNCTION_ARGS)
+{
+	PG_RETURN_FLOAT8(discrete_of(argument_ewkb(fcinfo, 0, false),
+								 argument_ewkb(fcinfo, 1, false), false));
+}
+
+PG_FUNCTION_INFO_V1(frechet_distance_geography);
+/* frechet_distance(geography, geography): metres on WGS84. */
+Datum
+frechet_distance_geography(PG_FUNCTION_ARGS)
+{
+	PG_RETURN_FLOAT8(distance_of(argument_ewkb(fcinfo, 0, true),
+								 argument_ewkb(fcinfo, 1, true), true));
+}
+
+PG_FUNCTION_INFO_V1(frechet_at_most_geography);
+/* frechet_at_most(geography, geography, float8): epsilon in metres on WGS84. */
+Datum
+frechet_at_most_geography(PG_FUNCTION_ARGS)
+{
+	PG_RETURN_BOOL(at_most_of(argument_ewkb(fcinfo, 0, true),
+							  argument_ewkb(fcinfo, 1, true),
+							  PG_GETARG_FLOAT8(2), true));
+}
+
+PG_FUNCTION_INFO_V1(discrete_frechet_distance_geography);
+/* discrete_frechet_distance(geography, geography): metres on WGS84. */
+Datum
+discrete_frechet_distance_geography(PG_FUNCTION_ARGS)
+{
+	PG_RETURN_FLOAT8(discrete_of(argument_ewkb(fcinfo, 0, true),
+								 argument_ewkb(fcinfo, 1, true), true));
+}
+
+PG_FUNCTION_INFO_V1(frechet_index_expansion);
+/*
+ * frechet_index_expansion(epsilon, geodetic): how far the index filter
+ * expands the other curve's bounding box.  Planar: epsilon.  Geodetic:
+ * metres for PostGIS's _ST_Expand(geography), which works on a unit sphere
+ * (see geodesy.h for the factor).  Validates epsilon like frechet_at_most,
+ * so an index scan with a bad epsilon fails as the function would.
+ */
+Datum
+frechet_index_expansion(PG_FUNCTION_ARGS)
+{
+	double		eps = PG_GETARG_FLOAT8(0);
+
+	glue_check_epsilon(eps, 3);
+	PG_RETURN_FLOAT8(PG_GETARG_BOOL(1) ? fr_geog_index_expansion(eps) : eps);
+}
+
+/*
+ * The lossy index condition for frechet_at_most(a, b, eps) on an index of
+ * a (or b): key && expand(other, expansion).  A Fréchet distance of at most
+ * eps puts every vertex of one curve within eps of the other curve, so the
+ * bounding boxes overlap once one is expanded by eps.
+ */
+static List *
+at_most_index_condition(SupportRequestIndexCondition *req)
+{
+	FuncExpr   *call = (FuncExpr *) req->node;
+	Node	   *key,
+			   *other,
+			   *eps;
+	Oid			keytype,
+				nsp,
+				geometry,
+				geography,
+				opno,
+				expand_fn,
+				expansion_fn;
+	Oid			argtypes[2];
+	bool		geodetic;
+	Expr	   *expansion,
+			   *expanded;
+
+	if (!IsA(call, FuncExpr) || list_length(call->args) != 3 || req->indexarg > 1)
+		return NIL;
+	key = list_nth(call->args, req->indexarg);
+	other = list_nth(call->args, 1 - req->indexarg);
+	eps = list_nth(call->args, 2);
+	if (!is_pseudo_constant_for_index(req->root, other, req->index) ||
+		!is_pseudo_constant_for_index(req->root, eps, req->index))
+		return NIL;
+
+	nsp = postgis_namespace();
+	geometry = postgis_type(nsp, "geometry");
+	geography = postgis_type(nsp, "geography");
+	keytype = exprType(key);
+	if (keytype != geometry && keytype != geography)
+		return NIL;
+	geodetic = (keytype == geography);
+
+	/* && of the postgis schema; only if the index's operator family has it */
+	opno = OpernameGetOprid(list_make2(makeString(get_namespace_name(nsp)), makeString("&&")),
+							keytype, keytype);
+	if (!OidIsValid(opno) || !op_in_opfamily(opno, req->opfamily))
+		return NIL;
+
+	argtypes[0] = keytype;
+	argtypes[1] = FLOAT8OID;
+	expand_fn = schema_function(nsp, geodetic ? "_st_expand" : "st_expand", 2, argtypes);
+	argtypes[0] = FLOAT8OID;
+	argtypes[1] = BOOLOID;
+	expansion_fn = schema_function(get_func_namespace(req->funcid),
+								   "frechet_index_expansion", 2, argtypes);
+
+	expansion = (Expr *) makeFuncExpr(expansion_fn, FLOAT8OID,
+									  list_make2(eps, makeBoolConst(geodetic, false)),
+									  InvalidOid, InvalidOid, COERCE_EXPLICIT_CALL);
+	expanded = (Expr *) makeFuncExpr(expand_fn, keytype,
+									 list_make2(other, expansion),
+									 InvalidOid, InvalidOid, COERCE_EXPLICIT_CALL);
+	req->lossy = true;
+	return list_make1(make_opclause(opno, BOOLOID, false, (Expr *) key, expanded,
+									InvalidOid, InvalidOid));
+}
+
+PG_FUNCTION_INFO_V1(frechet_geo_at_most_support);
+/* Planner support for frechet_at_most on geometry and geography: index conditions. */
+Datum
+frechet_geo_at_most_support(PG_FUNCTION_ARGS)
+{
+	Node	   *rawreq = (Node *) PG_GETARG_POINTER(0);
+
+	if (IsA(rawreq, SupportRequestIndexCondition))
+	{
+		List	   *conds = at_most_index_condition((SupportRequestIndexCondition *) rawreq);
+
+		if (conds != NIL)
+			PG_RETURN_POINTER(conds);
+	}
+	PG_RETURN_POINTER(NULL);
+}

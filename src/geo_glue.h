@@ -1,0 +1,35 @@
+/*
+ * geo_glue.h - shared pieces of the PostGIS layer: decoding geometry or
+ * geography arguments into engine curves, and building geometry or
+ * geography results; see geo_glue.c.
+ */
+#ifndef FRECHET_GEO_GLUE_H
+#define FRECHET_GEO_GLUE_H
+
+#include "postgres.h"
+#include "fmgr.h"
+
+#include "frechet.h"
+#include "ewkb.h"
+
+/* Both curve arguments: as decoded (lon/lat for geography) and as the engine sees them. */
+typedef struct geo_curves
+{
+	ewkb_curve	a,
+				b;
+	fr_curve	p,
+				q;
+	bool		geodetic;
+} geo_curves;
+
+void		geo_decode_args(FunctionCallInfo fcinfo, bool geodetic, geo_curves *gc);
+int			geo_output_dim(const geo_curves *gc);
+Datum		geo_point_datum(FunctionCallInfo fcinfo, const geo_curves *gc, int which, double pos);
+Datum		geo_subline_datum(FunctionCallInfo fcinfo, const geo_curves *gc, int which,
+							  double from, double to);
+Datum		geo_leashes_datum(FunctionCallInfo fcinfo, const geo_curves *gc,
+							  const fr_match_pt *pts, size_t count);
+double		geo_result_distance(const geo_curves *gc, double d);
+double		geo_engine_epsilon(const geo_curves *gc, double eps);
+
+#endif							/* FRECHET_GEO_GLUE_H */

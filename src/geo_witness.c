@@ -1,0 +1,247 @@
+/*
+ * geo_witness.c - the matching, bottleneck, partial matching and
+ * excursions on PostGIS geometry (units of the SRID) and geography (metres
+ * on WGS84), with geometry results for maps: points, leash segments, route
+ * parts and trip pieces, all with the inputs' SRID.  Positions are k + t
+ * with 1-based vertex numbers, as for point[]; for geography they are
+ * fractions of the straight (Earth-centred) chord of an edge.
+ */
+#include "postgres.h"
+
+#include <math.h>
+
+#include "fmgr.h"
+#include "funcapi.h"
+#include "utils/tuplestore.h"
+
+#include "glue.h"
+#include "geo_glue.h"
+
+/* Runs the witness matching; breakpoints copied into the caller's context, or NULL. */
+static fr_match_pt *
+geo_matching(const geo_curves *gc, double eps, size_t *count, const char *what)
+{
+	glue_env	g;
+	fr_match_pt *pts,
+			   *copy = NULL;
+	bool		found;
+	double		used;
+	fr_status	st;
+
+	glue_env_begin(&g, fr_matching_scratch_bytes(gc->p.n, gc->q.n), what);
+	st = fr_matching(&g.env, &gc->p, &gc->q, eps, &pts, count, &found, &used, NULL);
+	if (st == FR_OK && found)
+	{
+		copy = MemoryContextAllocHuge(MemoryContextGetParent(g.cxt), *count * sizeof(fr_match_pt));
+		memcpy(copy, pts, *count * sizeof(fr_match_pt));
+	}
+	glue_env_end(&g);
+	glue_check_status(st, what);
+	if (!found)
+		*count = 0;
+	return copy;
+}
+
+/* Tolerance argument 3 when given (else -1: optimal), validated, as the engine's. */
+static double
+optional_epsilon(FunctionCallInfo fcinfo, const geo_curves *gc)
+{
+	double		eps;
+
+	if (PG_ARGISNULL(2))
+		return -1;
+	eps = PG_GETARG_FLOAT8(2);
+	glue_check_epsilon(eps, 3);
+	return geo_engine_epsilon(gc, eps);
+}
+
+/* frechet_matching(a, b, epsilon DEFAULT NULL): breakpoints with their points. */
+static Datum
+matching_rows(FunctionCallInfo fcinfo, bool geodetic)
+{
+	ReturnSetInfo *rsinfo = (ReturnSetInfo *) fcinfo->resultinfo;
+	geo_curves	gc;
+	fr_match_pt *pts;
+	size_t		count;
+	double		eps;
+
+	InitMaterializedSRF(fcinfo, 0);
+	if (PG_ARGISNULL(0) || PG_ARGISNULL(1))
+		return (Datum) 0;
+	geo_decode_args(fcinfo, geodetic, &gc);
+	eps = optional_epsilon(fcinfo, &gc);
+	pts = geo_matching(&gc, eps, &count, "frechet_matching");
+	for (size_t k = 0; k < count; k++)
+	{
+		Datum		values[6];
+		bool		nulls[6] = {false};
+
+		values[0] = Int32GetDatum((int32) k + 1);
+		values[1] = Float8GetDatum(pts[k].a_pos + 1);
+		values[2] = Float8GetDatum(pts[k].b_pos + 1);
+		values[3] = geo_point_datum(fcinfo, &gc, 0, pts[k].a_pos);
+		values[4] = geo_point_datum(fcinfo, &gc, 1, pts[k].b_pos);
+		values[5] = Float8GetDatum(geo_result_distance(&gc, pts[k].leash));
+		tuplestore_putvalues(rsinfo->setResult, rsinfo->setDesc, values, nulls);
+	}
+	return (Datum) 0;
+}
+
+/* frechet_matching_leashes(a, b, epsilon DEFAULT NULL): the matching as leash segments. */
+static Datum
+matching_leashes(FunctionCallInfo fcinfo, bool geodetic)
+{
+	geo_curves	gc;
+	fr_match_pt *pts;
+	size_t		count;
+	double		eps;
+
+	if (PG_ARGISNULL(0) || PG_ARGISNULL(1))
+		PG_RETURN_NULL();
+	geo_decode_args(fcinfo, geodetic, &gc);
+	eps = optional_epsilon(fcinfo, &gc);
+	pts = geo_matching(&gc, eps, &count, "frechet_matching_leashes");
+	if (count == 0)
+		PG_RETURN_NULL();
+	PG_RETURN_DATUM(geo_leashes_datum(fcinfo, &gc, pts, count));
+}
+
+/* frechet_bottleneck(a, b): the longest leash of an optimal matching. */
+static Datum
+bottleneck_row(FunctionCallInfo fcinfo, bool geodetic)
+{
+	ReturnSetInfo *rsinfo = (ReturnSetInfo *) fcinfo->resultinfo;
+	geo_curves	gc;
+	fr_match_pt *pts;
+	size_t		count,
+				worst = 0;
+	Datum		values[5];
+	bool		nulls[5] = {false};
+
+	InitMaterializedSRF(fcinfo, 0);
+	geo_decode_args(fcinfo, geodetic, &gc);
+	pts = geo_matching(&gc, -1, &count, "frechet_bottleneck");
+	if (count == 0)
+		elog(ERROR, "frechet_bottleneck found no optimal matching");
+	/* the leash is convex between breakpoints, so the longest is at one */
+	for (size_t k = 1; k < count; k++)
+		if (pts[k].leash > pts[worst].leash)
+			worst = k;
+	values[0] = Float8GetDatum(pts[worst].a_pos + 1);
+	values[1] = Float8GetDatum(pts[worst].b_pos + 1);
+	values[2] = geo_point_datum(fcinfo, &gc, 0, pts[worst].a_pos);
+	values[3] = geo_point_datum(fcinfo, &gc, 1, pts[worst].b_pos);
+	values[4] = Float8GetDatum(geo_result_distance(&gc, pts[worst].leash));
+	tuplestore_putvalues(rsinfo->setResult, rsinfo->setDesc, values, nulls);
+	return (Datum) 0;
+}
+
+/* frechet_partial_distance(trip, route): best fit of the trip to any part of the route. */
+static Datum
+partial_distance(FunctionCallInfo fcinfo, bool geodetic)
+{
+	geo_curves	gc;
+	glue_env	g;
+	double		d;
+	fr_status	st;
+
+	geo_decode_args(fcinfo, geodetic, &gc);
+	glue_env_begin(&g, fr_scratch_bytes(gc.p.n, gc.q.n), "frechet_partial_distance");
+	st = fr_partial_distance(&g.env, &gc.p, &gc.q, &d, NULL);
+	glue_env_end(&g);
+	glue_check_status(st, "frechet_partial_distance");
+	PG_RETURN_FLOAT8(geo_result_distance(&gc, d));
+}
+
+/* frechet_partial_match(trip, route, epsilon): the route part, with its sub-line. */
+static Datum
+partial_match_row(FunctionCallInfo fcinfo, bool geodetic)
+{
+	ReturnSetInfo *rsinfo = (ReturnSetInfo *) fcinfo->resultinfo;
+	geo_curves	gc;
+	double		eps = PG_GETARG_FLOAT8(2),
+				from,
+				to,
+				d;
+	glue_env	g;
+	bool		found;
+	fr_status	st;
+
+	InitMaterializedSRF(fcinfo, 0);
+	geo_decode_args(fcinfo, geodetic, &gc);
+	glue_check_epsilon(eps, 3);
+	glue_env_begin(&g, 3 * fr_scratch_bytes(gc.p.n, gc.q.n), "frechet_partial_match");
+	st = fr_partial_match(&g.env, &gc.p, &gc.q, geo_engine_epsilon(&gc, eps),
+						  &found, &from, &to, &d, NULL);
+	glue_env_end(&g);
+	glue_check_status(st, "frechet_partial_match");
+	if (found)
+	{
+		Datum		values[4];
+		bool		nulls[4] = {false};
+
+		values[0] = Float8GetDatum(from + 1);
+		values[1] = Float8GetDatum(to + 1);
+		values[2] = Float8GetDatum(geo_result_distance(&gc, d));
+		values[3] = geo_subline_datum(fcinfo, &gc, 1, from, to);
+		tuplestore_putvalues(rsinfo->setResult, rsinfo->setDesc, values, nulls);
+	}
+	return (Datum) 0;
+}
+
+/* frechet_excursions(trip, route, epsilon): the stretches off the route, with the trip pieces. */
+static Datum
+excursion_rows(FunctionCallInfo fcinfo, bool geodetic)
+{
+	ReturnSetInfo *rsinfo = (ReturnSetInfo *) fcinfo->resultinfo;
+	geo_curves	gc;
+	double		eps = PG_GETARG_FLOAT8(2);
+	glue_env	g;
+	fr_excursion *x,
+			   *copy = NULL;
+	size_t		count;
+	fr_status	st;
+
+	InitMaterializedSRF(fcinfo, 0);
+	geo_decode_args(fcinfo, geodetic, &gc);
+	glue_check_epsilon(eps, 3);
+	glue_env_begin(&g, fr_excursions_scratch_bytes(gc.p.n, gc.q.n), "frechet_excursions");
+	st = fr_excursions(&g.env, &gc.p, &gc.q, geo_engine_epsilon(&gc, eps), &x, &count, NULL);
+	if (st == FR_OK && count > 0)
+	{
+		copy = palloc(count * sizeof(fr_excursion));
+		memcpy(copy, x, count * sizeof(fr_excursion));
+	}
+	glue_env_end(&g);
+	glue_check_status(st, "frechet_excursions");
+	for (size_t k = 0; k < count; k++)
+	{
+		Datum		values[7];
+		bool		nulls[7] = {false};
+
+		values[0] = Float8GetDatum(copy[k].trip_from + 1);
+		values[1] = Float8GetDatum(copy[k].trip_to + 1);
+		values[2] = Float8GetDatum(copy[k].route_from + 1);
+		values[3] = Float8GetDatum(copy[k].route_to + 1);
+		values[4] = Float8GetDatum(geo_result_distance(&gc, copy[k].max_leash));
+		/* chord lengths; metres along the surface differ by below 1e-7 for edges under 10 km */
+		values[5] = Float8GetDatum(copy[k].trip_length);
+		values[6] = geo_subline_datum(fcinfo, &gc, 0, copy[k].trip_from, copy[k].trip_to);
+		tuplestore_putvalues(rsinfo->setResult, rsinfo->setDesc, values, nulls);
+	}
+	return (Datum) 0;
+}
+
+#define GEO_PAIR(sqlname, impl) \
+PG_FUNCTION_INFO_V1(sqlname##_geometry); \
+Datum sqlname##_geometry(PG_FUNCTION_ARGS) { return impl(fcinfo, false); } \
+PG_FUNCTION_INFO_V1(sqlname##_geography); \
+Datum sqlname##_geography(PG_FUNCTION_ARGS) { return impl(fcinfo, true); }
+
+/* The SQL-callable pairs: geometry (planar) and geography (metres on WGS84). */
+GEO_PAIR(frechet_matching, matching_rows)
+GEO_PAIR(frechet_matching_leashes, matching_leashes)
+GEO_PAIR(frechet_bottleneck, bottleneck_row)
+GEO_PAIR(frechet_partial_distance, partial_distance)
+GEO_PAIR(frechet_partial_match, partial_match_row)
+GEO_PAIR(frechet_excursions, excursion_rows)
