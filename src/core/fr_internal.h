@@ -112,6 +112,9 @@ double		fr_point_segment_dist(const fr_pt *p, const fr_pt *a, const fr_seg *s,
  */
 void		fr_free_interval(const fr_pt *p, const fr_pt *a, const fr_seg *s,
 							 const fr_pt *b, double eps, double *lo, double *hi);
+void		fr_free_interval_d(const fr_pt *p, const fr_pt *a, const fr_seg *s,
+							   double eps, double da, double db,
+							   double *lo, double *hi);
 
 /* Row-by-row reachability pieces shared by the deciders and witnesses (decide.c). */
 void		fr_bottom_edge(const fr_prep *p, const fr_prep *q, double eps, double *row);

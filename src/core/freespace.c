@@ -327,8 +327,15 @@ void
 fr_free_interval(const fr_pt *p, const fr_pt *a, const fr_seg *s, const fr_pt *b,
 				 double eps, double *lo, double *hi)
 {
-	double		da = fr_pt_dist(p, a);
-	double		db;
+	fr_free_interval_d(p, a, s, eps, fr_pt_dist(p, a),
+					   s->len == 0.0 ? 0.0 : fr_pt_dist(p, b), lo, hi);
+}
+
+/* The same, given the distances da = |p - a| and db = |p - b| (callers cache them). */
+void
+fr_free_interval_d(const fr_pt *p, const fr_pt *a, const fr_seg *s,
+				   double eps, double da, double db, double *lo, double *hi)
+{
 	bool		in_a = da <= eps,
 				in_b;
 	double		foot,
@@ -345,7 +352,6 @@ fr_free_interval(const fr_pt *p, const fr_pt *a, const fr_seg *s, const fr_pt *b
 		*hi = in_a ? 1.0 : 0.0;
 		return;
 	}
-	db = fr_pt_dist(p, b);
 	in_b = db <= eps;
 	if (in_a && in_b)
 	{

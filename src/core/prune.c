@@ -29,7 +29,7 @@
 #include "fr_internal.h"
 
 /* Boxes of at most this many cells are solved cell by cell. */
-#define BASE_CELLS 1024
+#define BASE_CELLS 4096
 
 /* Boxes entered through at most 1/SPARSE_RATIO of their sides are swept directly. */
 #define SPARSE_RATIO 8
@@ -45,6 +45,8 @@ typedef struct prune
 	int32_t    *Hs;				/* source vertex (of q) of each H */
 	int32_t    *Vs;				/* source vertex (of p) of each V */
 	fr_cands   *cands;			/* where to report opening values, or NULL */
+	double	   *dq;				/* dq[i] = |p[i] - q[dstamp[i]]|, a cache of vertex distances */
+	int32_t    *dstamp;
 	fr_poll    *poll;
 	fr_stats   *stats;
 	bool		stop;			/* interrupted */
@@ -94,6 +96,18 @@ passage_value(const fr_pt *x, const fr_pt *y, const fr_pt *a, const fr_seg *s)
 	return fr_pt_dist(&c, x);
 }
 
+/* |p[i] - q[j]|, from the cache when it holds that pair. */
+static inline double
+vertex_dist(prune *s, size_t i, size_t j)
+{
+	if (s->dstamp[i] != (int32_t) j)
+	{
+		s->dq[i] = fr_pt_dist(&s->p->v[i], &s->q->v[j]);
+		s->dstamp[i] = (int32_t) j;
+	}
+	return s->dq[i];
+}
+
 /*
  * Cell-by-cell propagation through the box [x0,x1) x [y0,y1), visiting in
  * each row only the cells that something can enter: from the first column
@@ -140,7 +154,10 @@ solve_cells(prune *s, size_t x0, size_t x1, size_t y0, size_t y1)
 						c,
 						d,
 						nlr,
-						nbr;
+						nbr,
+						d_tl,
+						d_br,
+						d_tr;
 			int32_t		bs = s->Hs[i],
 						nls,
 						nbs;
@@ -149,8 +166,16 @@ solve_cells(prune *s, size_t x0, size_t x1, size_t y0, size_t y1)
 				continue;
 			visited++;
 
+			/*
+			 * The four vertex distances of the cell: each is computed once and
+			 * shared with the neighbouring cells through the cache.
+			 */
+			d_tl = vertex_dist(s, i, j + 1);
+			d_br = vertex_dist(s, i + 1, j);
+			d_tr = vertex_dist(s, i + 1, j + 1);
+
 			/* right boundary: vertex p[i+1] against segment q[j] */
-			fr_free_interval(&pv[i + 1], qa, qs, qb, eps, &a, &b);
+			fr_free_interval_d(&pv[i + 1], qa, qs, eps, d_br, d_tr, &a, &b);
 			nls = (int32_t) (i + 1);
 			if (br != FR_EMPTY)
 				nlr = a <= b ? a : FR_EMPTY;
@@ -169,7 +194,7 @@ solve_cells(prune *s, size_t x0, size_t x1, size_t y0, size_t y1)
 					note(s, passage_value(&pv[ls], &pv[i + 1], qa, qs));
 			}
 			/* top boundary: vertex q[j+1] against segment p[i] */
-			fr_free_interval(qb, &pv[i], &p->s[i], &pv[i + 1], eps, &c, &d);
+			fr_free_interval_d(qb, &pv[i], &p->s[i], eps, d_tl, d_tr, &c, &d);
 			nbs = (int32_t) (j + 1);
 			if (lr != FR_EMPTY)
 				nbr = c <= d ? c : FR_EMPTY;
@@ -366,11 +391,16 @@ fr_decide_pruned(const fr_env *env, const fr_prep *p, const fr_prep *q, double e
 	s.p = p;
 	s.q = q;
 	s.eps = eps;
+	/* doubles first, then the int32 arrays, so every array is aligned */
 	s.H = work;
 	s.V = s.H + (n - 1);
-	s.Hs = (int32_t *) (s.V + (m - 1));
+	s.dq = s.V + (m - 1);
+	s.Hs = (int32_t *) (s.dq + n);
 	s.Vs = s.Hs + (n - 1);
+	s.dstamp = s.Vs + (m - 1);
 	s.cands = cands;
+	for (size_t i = 0; i < n; i++)
+		s.dstamp[i] = -1;
 	s.stats = stats;
 	fr_poll_init(&poll, env);
 	s.poll = &poll;
@@ -402,5 +432,6 @@ fr_decide_pruned(const fr_env *env, const fr_prep *p, const fr_prep *q, double e
 size_t
 fr_prune_work_bytes(size_t n, size_t m)
 {
-	return (n + m) * (sizeof(double) + sizeof(int32_t)) + 16;
+	/* H, V and their sources; the distance cache and its stamps */
+	return (n + m) * (sizeof(double) + sizeof(int32_t)) + n * (sizeof(double) + sizeof(int32_t)) + 64;
 }
