@@ -35,6 +35,14 @@ CREATE OPERATOR @extschema@.<-> (
 COMMENT ON OPERATOR @extschema@.<-> (pg_catalog.point[], pg_catalog.point[]) IS
 'continuous Fréchet distance, the same as frechet_distance';
 
+CREATE FUNCTION @extschema@.frechet_simplify(track pg_catalog.point[], tolerance pg_catalog.float8)
+RETURNS pg_catalog.point[]
+AS 'MODULE_PATHNAME', 'frechet_simplify_point_array'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 5000;
+
+COMMENT ON FUNCTION @extschema@.frechet_simplify(pg_catalog.point[], pg_catalog.float8) IS
+'a subset of the track''s vertices, first and last kept, whose polyline is within Fréchet distance tolerance of the track';
+
 -- Witness and diagnosis: the matching, its bottleneck, partial matches.
 
 CREATE FUNCTION @extschema@.frechet_matching(a pg_catalog.point[], b pg_catalog.point[],

@@ -9,7 +9,9 @@
 
 #include "fmgr.h"
 #include "miscadmin.h"
+#include "catalog/pg_type.h"
 #include "utils/builtins.h"
+#include "utils/geo_decls.h"
 #include "utils/guc.h"
 #include "utils/memutils.h"
 
@@ -197,4 +199,41 @@ discrete_frechet_distance_point_array(PG_FUNCTION_ARGS)
 	PG_FREE_IF_COPY(a, 0);
 	PG_FREE_IF_COPY(b, 1);
 	PG_RETURN_FLOAT8(d);
+}
+
+PG_FUNCTION_INFO_V1(frechet_simplify_point_array);
+/* frechet_simplify(track, tolerance): fewer vertices, within tolerance (Fréchet). */
+Datum
+frechet_simplify_point_array(PG_FUNCTION_ARGS)
+{
+	ArrayType  *a = PG_GETARG_ARRAYTYPE_P(0);
+	double		tol = PG_GETARG_FLOAT8(1);
+	fr_curve	c;
+	glue_env	g;
+	size_t	   *keep,
+				count;
+	Datum	   *elems = NULL;
+	ArrayType  *result;
+	fr_status	st;
+
+	point_array_curve(a, 1, &c);
+	if (isnan(tol) || tol < 0)
+		ereport(ERROR,
+				(errcode(ERRCODE_INVALID_PARAMETER_VALUE),
+				 errmsg("tolerance must be a non-negative number"),
+				 errdetail("Argument 2 is %s.", isnan(tol) ? "NaN" : "negative")));
+	glue_env_begin(&g, fr_scratch_bytes(c.n, 1) + c.n * sizeof(size_t), "frechet_simplify");
+	st = fr_simplify(&g.env, &c, tol, &keep, &count);
+	if (st == FR_OK)
+	{
+		const Point *pts = (const Point *) c.coords;
+
+		elems = MemoryContextAlloc(MemoryContextGetParent(g.cxt), count * sizeof(Datum));
+		for (size_t k = 0; k < count; k++)
+			elems[k] = PointPGetDatum(&pts[keep[k]]);
+	}
+	glue_env_end(&g);
+	glue_check_status(st, "frechet_simplify");
+	result = construct_array(elems, (int) count, POINTOID, sizeof(Point), false, TYPALIGN_DOUBLE);
+	PG_RETURN_ARRAYTYPE_P(result);
 }

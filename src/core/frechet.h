@@ -192,6 +192,15 @@ size_t		fr_excursions_scratch_bytes(size_t n, size_t m);
 /* The point at position pos (k + t, 0-based) of a curve, into out[dim]. */
 void		fr_curve_point(const fr_curve *c, double pos, double *out);
 
+/*
+ * Simplification within tol (Agarwal, Har-Peled, Mustafa & Wang 2005): the
+ * indices of the kept vertices, first and last included, in *keep
+ * (allocated through env, *count of them); the curve through them is
+ * within Fréchet distance tol of c.  tol >= 0.
+ */
+fr_status	fr_simplify(const fr_env *env, const fr_curve *c, double tol,
+						size_t **keep, size_t *count);
+
 /* Length of the longest edge of a curve (0 for one vertex). */
 double		fr_longest_edge(const fr_curve *c);
 

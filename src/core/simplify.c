@@ -1,0 +1,152 @@
+/*
+ * simplify.c - simplification with a Fréchet guarantee (Agarwal,
+ * Har-Peled, Mustafa & Wang, "Near-linear time approximation algorithms for
+ * curve simplification", Algorithmica 2005).  Greedily, from the last kept
+ * vertex i, take the vertex j as far along as an exponential then binary
+ * search finds with the piece P[i..j] within tol of the segment P_i P_j
+ * (Fréchet distance); keep j, repeat.  Each piece is within tol of its
+ * segment, and matchings of consecutive pieces concatenate, so the result is
+ * within tol of the curve.  They show the result has no more vertices than
+ * an optimal simplification with error tol / 2 (our reading of their
+ * analysis).  Each test is a decision on a 1-row free space, so the whole
+ * takes O(n log n) time.
+ */
+#include <math.h>
+#include <string.h>
+
+#include "fr_internal.h"
+
+/* Is the piece c[i..j] within tol of the segment from c[i] to c[j]? */
+static fr_status
+piece_fits(const fr_env *env, const fr_prep *c, size_t i, size_t j, double tol,
+		   double *row, bool *fits)
+{
+	fr_prep		piece,
+				seg;
+	fr_pt		ends[2];
+	fr_seg		s;
+	double		dx,
+				dy,
+				dz,
+				len;
+
+	if (j <= i + 1)
+	{
+		*fits = true;			/* a single segment is its own simplification */
+		return FR_OK;
+	}
+	piece.v = c->v + i;
+	piece.s = c->s + i;
+	piece.n = j - i + 1;
+	ends[0] = c->v[i];
+	ends[1] = c->v[j];
+	dx = ends[1].x - ends[0].x;
+	dy = ends[1].y - ends[0].y;
+	dz = ends[1].z - ends[0].z;
+	len = sqrt(dx * dx + dy * dy + dz * dz);
+	if (len > 0)
+	{
+		s.ux = dx / len;
+		s.uy = dy / len;
+		s.uz = dz / len;
+		s.len = len;
+	}
+	else
+		s.ux = s.uy = s.uz = s.len = 0;
+	seg.v = ends;
+	seg.s = &s;
+	seg.n = 2;
+	/* the piece runs along the rows: a row of j - i cells */
+	return fr_decide_prepared(env, &piece, &seg, tol, row, fits, NULL);
+}
+
+/* Simplification of a curve within tol; see the top of this file. */
+fr_status
+fr_simplify(const fr_env *env, const fr_curve *c, double tol, size_t **keep, size_t *count)
+{
+	fr_prep		p,
+				unused;
+	fr_curve	none = {c->coords, 1, c->dim};
+	size_t	   *out = NULL;
+	double	   *row = NULL;
+	size_t		k = 0,
+				i = 0;
+	fr_status	st;
+	fr_poll		poll;
+
+	*keep = NULL;
+	*count = 0;
+	st = fr_prepare_pair(env, c, &none, &p, &unused);
+	if (st != FR_OK)
+		return st;
+	out = fr_alloc(env, c->n * sizeof(size_t));
+	row = fr_alloc(env, c->n * sizeof(double));
+	if (out == NULL || row == NULL)
+	{
+		st = FR_ENOMEM;
+		goto done;
+	}
+	fr_poll_init(&poll, env);
+	out[k++] = 0;
+	while (i + 1 < p.n)
+	{
+		size_t		step = 1,
+					good = i + 1,
+					bad = SIZE_MAX;
+		bool		fits;
+
+		/* exponential search for a piece that no longer fits */
+		while (bad == SIZE_MAX)
+		{
+			size_t		j = i + step < p.n - 1 ? i + step : p.n - 1;
+
+			st = piece_fits(env, &p, i, j, tol, row, &fits);
+			if (st != FR_OK)
+				goto done;
+			if (fits)
+				good = j;
+			else
+				bad = j;
+			if (j == p.n - 1)
+				break;
+			step *= 2;
+			if (fr_poll_add(&poll, j - i))
+			{
+				st = FR_EINTR;
+				goto done;
+			}
+		}
+		/* then binary search between the last fit and the first misfit */
+		while (bad != SIZE_MAX && bad - good > 1)
+		{
+			size_t		mid = good + (bad - good) / 2;
+
+			st = piece_fits(env, &p, i, mid, tol, row, &fits);
+			if (st != FR_OK)
+				goto done;
+			if (fits)
+				good = mid;
+			else
+				bad = mid;
+			if (fr_poll_add(&poll, mid - i))
+			{
+				st = FR_EINTR;
+				goto done;
+			}
+		}
+		out[k++] = good;
+		i = good;
+	}
+
+done:
+	fr_free(env, row);
+	fr_release_pair(env, &p, &unused);
+	if (st == FR_OK)
+	{
+		*keep = out;
+		*count = k;
+	}
+	else
+		fr_free(env, out);
+	return st;
+}
