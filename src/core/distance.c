@@ -18,6 +18,9 @@
 
 #include "fr_internal.h"
 
+/* Curves with this many vertices together try certified bounds from simplification. */
+#define SIMPLIFY_MIN 2000
+
 /* Type (b) values sampled per round; the search does about log2 of it decisions. */
 #define SAMPLE_SIZE 64
 
@@ -381,10 +384,83 @@ fast_bisect(fast *f)
 	}
 }
 
+/* A prepared curve through the vertices keep[0..k-1] of c. */
+static fr_status
+prep_through(const fr_env *env, const fr_prep *c, const size_t *keep, size_t k, fr_prep *out)
+{
+	out->n = k;
+	out->s = NULL;
+	out->v = fr_alloc(env, k * sizeof(fr_pt));
+	if (out->v == NULL)
+		return FR_ENOMEM;
+	for (size_t i = 0; i < k; i++)
+		out->v[i] = c->v[keep[i]];
+	return fr_prep_segments(env, out);
+}
+
+/*
+ * Certified bounds from simplified curves, where they pay: with P' and Q'
+ * within delta of P and Q (fr_simplify, Agarwal et al. 2005), the triangle
+ * inequality gives |d(P,Q) - d(P',Q')| <= 2 delta, and d(P',Q') is cheap
+ * when P' and Q' are much shorter.  Only narrows the bracket; every bound
+ * is still confirmed by a decision on the curves themselves.
+ */
+static fr_status
+simplified_bracket(fast *f)
+{
+	const fr_env *env = f->env;
+	double		delta = (f->hi - f->lo) / 64,
+				d;
+	fr_curve	cp,
+				cq;
+	size_t	   *kp = NULL,
+			   *kq = NULL,
+				np = 0,
+				nq = 0;
+	fr_prep		sp = {0},
+				sq = {0};
+	fr_status	st;
+
+	if (f->p->n + f->q->n < SIMPLIFY_MIN || !(delta > 0))
+		return FR_OK;
+	/* simplify the prepared coordinates: a view of them as raw curves */
+	cp = (fr_curve) {&f->p->v[0].x, f->p->n, 3};
+	cq = (fr_curve) {&f->q->v[0].x, f->q->n, 3};
+	st = fr_simplify(env, &cp, delta, &kp, &np);
+	if (st == FR_OK && np * 4 <= f->p->n)
+		st = fr_simplify(env, &cq, delta, &kq, &nq);
+	if (st != FR_OK || kq == NULL || nq * 4 > f->q->n)
+		goto done;				/* does not pay: barely shorter */
+	st = prep_through(env, f->p, kp, np, &sp);
+	if (st == FR_OK)
+		st = prep_through(env, f->q, kq, nq, &sq);
+	if (st == FR_OK)
+		st = fr_distance_prepared(env, &sp, &sq, &d, f->stats);
+	if (st == FR_OK)
+	{
+		/* a margin for rounding in the simplification's own decisions */
+		double		slack = 2 * delta * (1 + 1e-9) + 1e-12 * d;
+
+		f->lo = fmax(f->lo, d - slack);
+		if (d + slack < f->hi)
+			f->hi = d + slack;
+		if (f->stats)
+			f->stats->candidates += np + nq;
+	}
+
+done:
+	fr_release_prep(env, &sp);
+	fr_release_prep(env, &sq);
+	fr_free(env, kp);
+	fr_free(env, kq);
+	return st;
+}
+
 /*
  * The fast search for the distance, on prepared curves with two or more
  * vertices each:
- *  1. bounds: type (a) below, a greedy vertex walk above;
+ *  1. bounds: type (a) below, a greedy vertex walk above, both narrowed
+ *     by simplified curves where that pays;
  *  2. bisection by value until the bracket is 1e-3 wide (relative);
  *  3. rounds: a decision at lo reports the values at which its blocked
  *     steps would open (critical values of types b and c, Alt & Godau 1995);
@@ -409,13 +485,16 @@ fast_distance(fast *f, double *result)
 		*result = f->lo;
 		return FR_OK;
 	}
+	st = simplified_bracket(f);
+	if (st != FR_OK)
+		return st;
 	st = fast_probe(f, f->lo, false, &yes);
 	if (st != FR_OK || yes)
 	{
 		*result = f->lo;
 		return st;
 	}
-	/* the greedy bound is a matching; confirm it as the decider sees it */
+	/* the upper bound is a matching; confirm it as the decider sees it */
 	f->greedy = INFINITY;
 	st = fast_probe(f, f->hi, false, &yes);
 	for (double step = 4 * DBL_EPSILON; st == FR_OK && !yes; step *= 2)

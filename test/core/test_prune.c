@@ -215,12 +215,59 @@ fast_distance_equals_reference(void **state)
 	}
 }
 
+/*
+ * Long, densely sampled curves against sparse ones: the search narrows its
+ * bracket with simplified curves there (distance.c); the result must still
+ * equal the reference search's.
+ */
+static void
+simplified_bounds_keep_the_result(void **state)
+{
+	for (int t = 0; t < 3; t++)
+	{
+		const size_t n = 6000,
+					m = 120;
+		double	   *a = malloc(2 * n * sizeof(double)),
+				   *b = malloc(2 * m * sizeof(double));
+		fr_curve	ca = {a, n, 2},
+					cb = {b, m, 2};
+		test_heap	h;
+		fr_env		e = test_env(&h);
+		double		fast,
+					ref;
+
+		for (size_t i = 0; i < n; i++)
+		{
+			double		u = 3.0 * i / (n - 1);
+
+			a[2 * i] = 1000 * cos(u) + test_uniform(-0.01, 0.01);
+			a[2 * i + 1] = 1000 * sin(u);
+		}
+		for (size_t i = 0; i < m; i++)
+		{
+			double		u = 3.0 * i / (m - 1);
+
+			b[2 * i] = (1003 + t) * cos(u);
+			b[2 * i + 1] = (1003 + t) * sin(u);
+		}
+		b[2 * (m / 2) + 1] += 20 + 10 * t;
+		assert_int_equal(fr_distance(&e, &ca, &cb, &fast, NULL), FR_OK);
+		assert_int_equal(fr_distance_plain(&e, &ca, &cb, &ref, NULL), FR_OK);
+		assert_int_equal(h.live, 0);
+		if (fast != ref)
+			fail_msg("case %d: fast %.17g, reference %.17g", t, fast, ref);
+		free(a);
+		free(b);
+	}
+}
+
 int
 main(void)
 {
 	const struct CMUnitTest tests[] = {
 		cmocka_unit_test(pruned_agrees_with_plain),
 		cmocka_unit_test(fast_distance_equals_reference),
+		cmocka_unit_test(simplified_bounds_keep_the_result),
 	};
 
 	return cmocka_run_group_tests_name("prune", tests, NULL, NULL);
