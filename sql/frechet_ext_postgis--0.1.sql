@@ -243,3 +243,20 @@ LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 100000 ROWS 2;
 
 COMMENT ON FUNCTION @extschema@.frechet_excursions(geography, geography, pg_catalog.float8) IS
 'stretches of the trip that no order-preserving matching keeps within epsilon (metres on WGS84) of the route, with the trip piece as a LineString; no rows exactly when frechet_at_most is true';
+
+-- Simplification within a Fréchet tolerance, keeping the SRID.
+CREATE FUNCTION @extschema@.frechet_simplify(track geometry, tolerance pg_catalog.float8)
+RETURNS geometry
+AS 'MODULE_PATHNAME', 'frechet_simplify_geometry'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 5000;
+
+COMMENT ON FUNCTION @extschema@.frechet_simplify(geometry, pg_catalog.float8) IS
+'a LineString through a subset of the track''s vertices, ends kept, within Fréchet distance tolerance (units of the SRID) of the track';
+
+CREATE FUNCTION @extschema@.frechet_simplify(track geography, tolerance pg_catalog.float8)
+RETURNS geography
+AS 'MODULE_PATHNAME', 'frechet_simplify_geography'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 5000;
+
+COMMENT ON FUNCTION @extschema@.frechet_simplify(geography, pg_catalog.float8) IS
+'a LineString through a subset of the track''s vertices, ends kept, within Fréchet distance tolerance (metres on WGS84) of the track';

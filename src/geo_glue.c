@@ -221,6 +221,15 @@ geo_decode_args(FunctionCallInfo fcinfo, bool geodetic, geo_curves *gc)
 				  geodetic, gc);
 }
 
+/* Decodes the first argument alone (the curve of a one-curve function), as both a and b. */
+void
+geo_decode_one(FunctionCallInfo fcinfo, bool geodetic, geo_curves *gc)
+{
+	bytea	   *a = argument_ewkb(fcinfo, 0, geodetic);
+
+	decode_curves(a, a, geodetic, gc);
+}
+
 /* Appends a little-endian 32-bit integer. */
 static void
 put_u32(StringInfo buf, uint32 v)
@@ -343,6 +352,29 @@ geo_subline_datum(FunctionCallInfo fcinfo, const geo_curves *gc, int which,
 	output_point(gc, which, to, pts + odim * n++);
 	begin_ewkb(&buf, gc, 2);
 	put_points(&buf, gc, pts, n);
+	return finish_ewkb(fcinfo, gc, &buf);
+}
+
+/* A LineString through the given vertices (0-based indices) of curve a. */
+Datum
+geo_vertices_datum(FunctionCallInfo fcinfo, const geo_curves *gc, const size_t *keep, size_t count)
+{
+	StringInfoData buf;
+	int			odim = geo_output_dim(gc);
+	double	   *pts = palloc(sizeof(double) * odim * (count > 1 ? count : 2));
+
+	for (size_t k = 0; k < count; k++)
+		output_point(gc, 0, (double) keep[k], pts + odim * k);
+	if (count == 1)
+	{
+		/* a one-point curve stays a point: a Point body is its coordinates */
+		begin_ewkb(&buf, gc, 1);
+		for (int d = 0; d < odim; d++)
+			put_f64(&buf, pts[d]);
+		return finish_ewkb(fcinfo, gc, &buf);
+	}
+	begin_ewkb(&buf, gc, 2);
+	put_points(&buf, gc, pts, count);
 	return finish_ewkb(fcinfo, gc, &buf);
 }
 

@@ -23,6 +23,9 @@ typedef struct geo_curves
 } geo_curves;
 
 void		geo_decode_args(FunctionCallInfo fcinfo, bool geodetic, geo_curves *gc);
+void		geo_decode_one(FunctionCallInfo fcinfo, bool geodetic, geo_curves *gc);
+Datum		geo_vertices_datum(FunctionCallInfo fcinfo, const geo_curves *gc,
+							   const size_t *keep, size_t count);
 int			geo_output_dim(const geo_curves *gc);
 Datum		geo_point_datum(FunctionCallInfo fcinfo, const geo_curves *gc, int which, double pos);
 Datum		geo_subline_datum(FunctionCallInfo fcinfo, const geo_curves *gc, int which,

@@ -232,6 +232,36 @@ excursion_rows(FunctionCallInfo fcinfo, bool geodetic)
 	return (Datum) 0;
 }
 
+/* frechet_simplify(track, tolerance): fewer vertices within tolerance, as a geometry. */
+static Datum
+simplify_line(FunctionCallInfo fcinfo, bool geodetic)
+{
+	geo_curves	gc;
+	double		tol = PG_GETARG_FLOAT8(1);
+	glue_env	g;
+	size_t	   *keep,
+			   *copy = NULL,
+				count = 0;
+	fr_status	st;
+
+	geo_decode_one(fcinfo, geodetic, &gc);
+	if (isnan(tol) || tol < 0)
+		ereport(ERROR,
+				(errcode(ERRCODE_INVALID_PARAMETER_VALUE),
+				 errmsg("tolerance must be a non-negative number"),
+				 errdetail("Argument 2 is %s.", isnan(tol) ? "NaN" : "negative")));
+	glue_env_begin(&g, fr_scratch_bytes(gc.p.n, 1) + gc.p.n * sizeof(size_t), "frechet_simplify");
+	st = fr_simplify(&g.env, &gc.p, geo_engine_epsilon(&gc, tol), &keep, &count);
+	if (st == FR_OK)
+	{
+		copy = palloc(count * sizeof(size_t));
+		memcpy(copy, keep, count * sizeof(size_t));
+	}
+	glue_env_end(&g);
+	glue_check_status(st, "frechet_simplify");
+	return geo_vertices_datum(fcinfo, &gc, copy, count);
+}
+
 #define GEO_PAIR(sqlname, impl) \
 PG_FUNCTION_INFO_V1(sqlname##_geometry); \
 Datum sqlname##_geometry(PG_FUNCTION_ARGS) { return impl(fcinfo, false); } \
@@ -245,3 +275,4 @@ GEO_PAIR(frechet_bottleneck, bottleneck_row)
 GEO_PAIR(frechet_partial_distance, partial_distance)
 GEO_PAIR(frechet_partial_match, partial_match_row)
 GEO_PAIR(frechet_excursions, excursion_rows)
+GEO_PAIR(frechet_simplify, simplify_line)
