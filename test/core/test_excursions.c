@@ -15,39 +15,6 @@
 
 #include "testutil.h"
 
-/* The part of a raw 2-D curve between positions from and to, as a new array. */
-static double *
-part_of(const fr_curve *c, double from, double to, size_t *n)
-{
-	double	   *out = malloc(2 * (c->n + 2) * sizeof(double));
-	size_t		k = 1;
-
-	fr_curve_point(c, from, out);
-	for (size_t i = 0; i < c->n; i++)
-		if ((double) i > from && (double) i < to)
-		{
-			out[2 * k] = c->coords[2 * i];
-			out[2 * k + 1] = c->coords[2 * i + 1];
-			k++;
-		}
-	if (to > from)
-		fr_curve_point(c, to, out + 2 * k++);
-	*n = k;
-	return out;
-}
-
-/* Continuous distance through the public API. */
-static double
-distance(const fr_curve *a, const fr_curve *b)
-{
-	test_heap	h;
-	fr_env		e = test_env(&h);
-	double		d;
-
-	assert_int_equal(fr_distance(&e, a, b, &d, NULL), FR_OK);
-	return d;
-}
-
 /* Excursions through the public API, asserting no leak. */
 static fr_excursion *
 excursions(const fr_curve *t, const fr_curve *r, double eps, size_t *count)
@@ -83,11 +50,11 @@ check_plan(const fr_curve *t, const fr_curve *r, double eps, const fr_excursion 
 		{
 			size_t		nt,
 						nr;
-			double	   *pt = part_of(t, tv, tw, &nt),
-					   *pr = part_of(r, rv, rw, &nr);
+			double	   *pt = test_part_of(t, tv, tw, &nt),
+					   *pr = test_part_of(r, rv, rw, &nr);
 			fr_curve	ct = {pt, nt, 2},
 						cr = {pr, nr, 2};
-			double		d = distance(&ct, &cr);
+			double		d = test_distance(&ct, &cr);
 
 			if (!(d <= eps * (1 + 1e-9)))
 				fail_msg("on-route run %g..%g (route %g..%g) at distance %g > eps %g", tv, tw, rv, rw, d, eps);
@@ -312,7 +279,7 @@ none_exactly_when_close(void **state)
 			m = n;
 		a = (fr_curve) {ca, n, 2};
 		b = (fr_curve) {cb, m, 2};
-		d = distance(&a, &b);
+		d = test_distance(&a, &b);
 		x = excursions(&a, &b, d, &count);
 		assert_int_equal(count, 0);
 		if (d > 0)

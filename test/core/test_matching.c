@@ -86,18 +86,6 @@ match(const fr_curve *a, const fr_curve *b, double eps, fr_match_pt **pts,
 	return found;
 }
 
-/* Distance from the public API. */
-static double
-distance(const fr_curve *a, const fr_curve *b)
-{
-	test_heap	h;
-	fr_env		e = test_env(&h);
-	double		d;
-
-	assert_int_equal(fr_distance(&e, a, b, &d, NULL), FR_OK);
-	return d;
-}
-
 /* 1,000 random pairs: the optimal matching is valid and its longest leash is d. */
 static void
 optimal_matchings_are_valid(void **state)
@@ -120,7 +108,7 @@ optimal_matchings_are_valid(void **state)
 			m = n;
 		a = (fr_curve) {ca, n, 2};
 		b = (fr_curve) {cb, m, 2};
-		d = distance(&a, &b);
+		d = test_distance(&a, &b);
 		assert_true(match(&a, &b, -1, &pts, &count, &used));
 		assert_true(used == d);
 		worst = check_matching(&a, &b, pts, count, d, 1e-9);
@@ -148,7 +136,7 @@ matchings_within_eps(void **state)
 		fr_match_pt *pts;
 		size_t		count;
 		double		used,
-					d = distance(&a, &b);
+					d = test_distance(&a, &b);
 
 		assert_true(match(&a, &b, d * 1.3, &pts, &count, &used));
 		check_matching(&a, &b, pts, count, d * 1.3, 1e-12);
@@ -249,7 +237,7 @@ long_pair_and_memory_bound(void **state)
 		cb[2 * i] = pt[0] + test_uniform(-1, 1);
 		cb[2 * i + 1] = pt[1] + test_uniform(-1, 1);
 	}
-	d = distance(&a, &b);
+	d = test_distance(&a, &b);
 	assert_true(match(&a, &b, -1, &pts, &count, &used));
 	assert_true(test_close(check_matching(&a, &b, pts, count, d, 1e-9), d, 1e-9));
 	free(pts);

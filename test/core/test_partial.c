@@ -13,43 +13,6 @@
 
 #include "testutil.h"
 
-/* The part of a raw 2-D curve between positions from and to, as a new array. */
-static double *
-part_of(const fr_curve *c, double from, double to, size_t *n)
-{
-	double	   *out = malloc(2 * (c->n + 2) * sizeof(double));
-	size_t		k = 0;
-
-	fr_curve_point(c, from, out);
-	k = 1;
-	for (size_t i = 0; i < c->n; i++)
-		if ((double) i > from && (double) i < to)
-		{
-			out[2 * k] = c->coords[2 * i];
-			out[2 * k + 1] = c->coords[2 * i + 1];
-			k++;
-		}
-	if (to > from)
-	{
-		fr_curve_point(c, to, out + 2 * k);
-		k++;
-	}
-	*n = k;
-	return out;
-}
-
-/* Continuous distance through the public API. */
-static double
-distance(const fr_curve *a, const fr_curve *b)
-{
-	test_heap	h;
-	fr_env		e = test_env(&h);
-	double		d;
-
-	assert_int_equal(fr_distance(&e, a, b, &d, NULL), FR_OK);
-	return d;
-}
-
 /* Partial distance through the public API, asserting no leak. */
 static double
 partial(const fr_curve *a, const fr_curve *b)
@@ -106,9 +69,9 @@ partial_distance_matches_brute_force(void **state)
 			for (double b = a; b <= m - 1; b += 0.125)
 			{
 				size_t		sn;
-				double	   *sc = part_of(&r, a, b, &sn);
+				double	   *sc = test_part_of(&r, a, b, &sn);
 				fr_curve	s = {sc, sn, 2};
-				double		e = distance(&t, &s);
+				double		e = test_distance(&t, &s);
 
 				if (e < brute)
 					brute = e;
@@ -138,7 +101,7 @@ partial_at_most_full(void **state)
 		fr_curve	t = {ct, n, 2},
 					r = {cr, m, 2};
 
-		assert_true(partial(&t, &r) <= distance(&t, &r) * (1 + 1e-12));
+		assert_true(partial(&t, &r) <= test_distance(&t, &r) * (1 + 1e-12));
 		free(ct);
 		free(cr);
 	}
@@ -192,9 +155,9 @@ middle_third_is_found(void **state)
 		if (fabs(from - 30) > 1 || fabs(to - 60) > 1)
 			fail_msg("case %d: matched %g..%g, expected 30..60", k, from, to);
 		assert_true(d <= eps * (1 + 1e-12));
-		sc = part_of(&r, from, to, &sn);
+		sc = test_part_of(&r, from, to, &sn);
 		s = (fr_curve) {sc, sn, 2};
-		assert_true(test_close(d, distance(&t, &s), 1e-12));
+		assert_true(test_close(d, test_distance(&t, &s), 1e-12));
 		/* far too small a tolerance finds nothing */
 		assert_false(partial_match(&t, &r, 0.5, &from, &to, &d));
 		free(sc);

@@ -129,4 +129,38 @@ test_close(double a, double b, double rel)
 	return fabs(a - b) <= rel * (scale > 1e-300 ? scale : 1e-300);
 }
 
+/* The part of a raw 2-D curve between positions from and to, as a new array. */
+static inline double *
+test_part_of(const fr_curve *c, double from, double to, size_t *n)
+{
+	double	   *out = malloc(2 * (c->n + 2) * sizeof(double));
+	size_t		k = 1;
+
+	fr_curve_point(c, from, out);
+	for (size_t i = 0; i < c->n; i++)
+		if ((double) i > from && (double) i < to)
+		{
+			out[2 * k] = c->coords[2 * i];
+			out[2 * k + 1] = c->coords[2 * i + 1];
+			k++;
+		}
+	if (to > from)
+		fr_curve_point(c, to, out + 2 * k++);
+	*n = k;
+	return out;
+}
+
+/* Continuous distance through the public API, on a fresh environment. */
+static inline double
+test_distance(const fr_curve *a, const fr_curve *b)
+{
+	test_heap	h;
+	fr_env		e = test_env(&h);
+	double		d = -1;
+
+	if (fr_distance(&e, a, b, &d, NULL) != FR_OK)
+		abort();
+	return d;
+}
+
 #endif							/* FR_TESTUTIL_H */
