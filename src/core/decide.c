@@ -241,12 +241,15 @@ filters(const fr_prep *p, const fr_prep *q, double eps)
 		hi[0] = hi[1] = hi[2] = -INFINITY;
 		for (size_t k = 0; k < b->n; k++)
 		{
-			lo[0] = fmin(lo[0], b->v[k].x);
-			hi[0] = fmax(hi[0], b->v[k].x);
-			lo[1] = fmin(lo[1], b->v[k].y);
-			hi[1] = fmax(hi[1], b->v[k].y);
-			lo[2] = fmin(lo[2], b->v[k].z);
-			hi[2] = fmax(hi[2], b->v[k].z);
+			const fr_pt *v = &b->v[k];
+
+			/* plain comparisons: coordinates are never NaN here */
+			lo[0] = v->x < lo[0] ? v->x : lo[0];
+			hi[0] = v->x > hi[0] ? v->x : hi[0];
+			lo[1] = v->y < lo[1] ? v->y : lo[1];
+			hi[1] = v->y > hi[1] ? v->y : hi[1];
+			lo[2] = v->z < lo[2] ? v->z : lo[2];
+			hi[2] = v->z > hi[2] ? v->z : hi[2];
 		}
 		for (size_t k = 0; k < a->n; k++)
 		{

@@ -402,57 +402,67 @@ prep_through(const fr_env *env, const fr_prep *c, const size_t *keep, size_t k, 
  * Certified bounds from simplified curves, where they pay: with P' and Q'
  * within delta of P and Q (fr_simplify, Agarwal et al. 2005), the triangle
  * inequality gives |d(P,Q) - d(P',Q')| <= 2 delta, and d(P',Q') is cheap
- * when P' and Q' are much shorter.  Only narrows the bracket; every bound
- * is still confirmed by a decision on the curves themselves.
+ * when P' and Q' are much shorter.  Each round takes delta as 1/64 of the
+ * bracket, so a loose first bracket (a greedy walk gone astray) shrinks
+ * fast; rounds stop when simplifying no longer shortens the curves four
+ * times over.  Only narrows the bracket: every bound is still confirmed by
+ * a decision on the curves themselves.
  */
 static fr_status
 simplified_bracket(fast *f)
 {
 	const fr_env *env = f->env;
-	double		delta = (f->hi - f->lo) / 64,
-				d;
-	fr_curve	cp,
-				cq;
-	size_t	   *kp = NULL,
-			   *kq = NULL,
-				np = 0,
-				nq = 0;
-	fr_prep		sp = {0},
-				sq = {0};
-	fr_status	st;
+	fr_status	st = FR_OK;
 
-	if (f->p->n + f->q->n < SIMPLIFY_MIN || !(delta > 0))
+	if (f->p->n + f->q->n < SIMPLIFY_MIN)
 		return FR_OK;
-	/* simplify the prepared coordinates: a view of them as raw curves */
-	cp = (fr_curve) {&f->p->v[0].x, f->p->n, 3};
-	cq = (fr_curve) {&f->q->v[0].x, f->q->n, 3};
-	st = fr_simplify(env, &cp, delta, &kp, &np);
-	if (st == FR_OK && np * 4 <= f->p->n)
-		st = fr_simplify(env, &cq, delta, &kq, &nq);
-	if (st != FR_OK || kq == NULL || nq * 4 > f->q->n)
-		goto done;				/* does not pay: barely shorter */
-	st = prep_through(env, f->p, kp, np, &sp);
-	if (st == FR_OK)
-		st = prep_through(env, f->q, kq, nq, &sq);
-	if (st == FR_OK)
-		st = fr_distance_prepared(env, &sp, &sq, &d, f->stats);
-	if (st == FR_OK)
+	for (int round = 0; round < 8 && st == FR_OK; round++)
 	{
-		/* a margin for rounding in the simplification's own decisions */
-		double		slack = 2 * delta * (1 + 1e-9) + 1e-12 * d;
+		double		delta = (f->hi - f->lo) / 64,
+					d = 0;
+		fr_curve	cp,
+					cq;
+		size_t	   *kp = NULL,
+				   *kq = NULL,
+					np = 0,
+					nq = 0;
+		fr_prep		sp = {0},
+					sq = {0};
+		bool		pays = false;
 
-		f->lo = fmax(f->lo, d - slack);
-		if (d + slack < f->hi)
-			f->hi = d + slack;
-		if (f->stats)
-			f->stats->candidates += np + nq;
+		if (!(delta > 0))
+			break;
+		/* simplify the prepared coordinates: a view of them as raw curves */
+		cp = (fr_curve) {&f->p->v[0].x, f->p->n, 3};
+		cq = (fr_curve) {&f->q->v[0].x, f->q->n, 3};
+		st = fr_simplify(env, &cp, delta, &kp, &np);
+		if (st == FR_OK && np * 4 <= f->p->n)
+			st = fr_simplify(env, &cq, delta, &kq, &nq);
+		if (st == FR_OK && kq != NULL && nq * 4 <= f->q->n)
+		{
+			pays = true;
+			st = prep_through(env, f->p, kp, np, &sp);
+			if (st == FR_OK)
+				st = prep_through(env, f->q, kq, nq, &sq);
+			if (st == FR_OK)
+				st = fr_distance_prepared(env, &sp, &sq, &d, f->stats);
+		}
+		if (st == FR_OK && pays)
+		{
+			/* a margin for rounding in the simplification's own decisions */
+			double		slack = 2 * delta * (1 + 1e-9) + 1e-12 * d;
+
+			f->lo = fmax(f->lo, d - slack);
+			if (d + slack < f->hi)
+				f->hi = d + slack;
+		}
+		fr_release_prep(env, &sp);
+		fr_release_prep(env, &sq);
+		fr_free(env, kp);
+		fr_free(env, kq);
+		if (!pays)
+			break;
 	}
-
-done:
-	fr_release_prep(env, &sp);
-	fr_release_prep(env, &sq);
-	fr_free(env, kp);
-	fr_free(env, kq);
 	return st;
 }
 
