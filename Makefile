@@ -36,6 +36,10 @@ OBJS += src/ewkb.o src/geo_glue.o src/geo_witness.o
 DATA_built += sql/frechet_ext_postgis--$(EXTVERSION).sql
 EXTRA_CLEAN += sql/frechet_ext_postgis--$(EXTVERSION).sql
 
+# k-nearest and range queries on geometry and geography through our own
+# GiST operator classes (frechet_geometry_ops, frechet_geography_ops).
+OBJS += src/geo_gist.o
+
 # Debian installs several majors side by side; prefer 15, the supported one.
 PG_CONFIG ?= $(firstword $(wildcard /usr/lib/postgresql/15/bin/pg_config) pg_config)
 PGXS := $(shell $(PG_CONFIG) --pgxs)

@@ -260,3 +260,229 @@ LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 5000;
 
 COMMENT ON FUNCTION @extschema@.frechet_simplify(geography, pg_catalog.float8) IS
 'a LineString through a subset of the track''s vertices, ends kept, within Fréchet distance tolerance (metres on WGS84) of the track';
+-- Index: our own GiST operator classes on geometry and geography, for
+-- k-nearest (ORDER BY track <~> route LIMIT k) and range queries
+-- (frechet_at_most, through its planner support function).  Not the
+-- default classes: PostGIS's stay the default, and a column may carry
+-- both indexes.  The key type, frechet_key, and the GiST support functions
+-- that need no decoding are those of frechet_ext (same C library).
+-- While this script runs, the schema of frechet_ext (a required extension)
+-- is on search_path; make sure frechet_key resolves to its type.
+DO $$
+DECLARE
+	fx_nsp oid := (SELECT extnamespace FROM pg_catalog.pg_extension WHERE extname = 'frechet_ext');
+BEGIN
+	IF (SELECT typnamespace FROM pg_catalog.pg_type WHERE oid = 'frechet_key'::pg_catalog.regtype) <> fx_nsp THEN
+		RAISE EXCEPTION 'frechet_key does not resolve to the type of frechet_ext'
+			USING DETAIL = 'Another type of that name is in the target schema or on search_path.',
+			      HINT = 'Install frechet_ext_postgis in the schema of frechet_ext or in a schema without such a type.';
+	END IF;
+END $$;
+
+CREATE FUNCTION @extschema@.frechet_track_key(track geometry)
+RETURNS frechet_key
+AS 'MODULE_PATHNAME', 'frechet_track_key_geometry'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 10;
+
+COMMENT ON FUNCTION @extschema@.frechet_track_key(geometry) IS
+'the summary frechet_geometry_ops keeps for a curve: first vertex, last vertex, bounding box (x and y)';
+
+CREATE FUNCTION @extschema@.frechet_track_key(track geography)
+RETURNS frechet_key
+AS 'MODULE_PATHNAME', 'frechet_track_key_geography'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 10;
+
+COMMENT ON FUNCTION @extschema@.frechet_track_key(geography) IS
+'the summary frechet_geography_ops keeps for a curve, in Earth-centred metres (x and y)';
+
+CREATE FUNCTION @extschema@.frechet_reach(route geometry, epsilon pg_catalog.float8)
+RETURNS frechet_key
+AS 'MODULE_PATHNAME', 'frechet_reach_geometry'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 10;
+
+COMMENT ON FUNCTION @extschema@.frechet_reach(geometry, pg_catalog.float8) IS
+'the route''s summary with epsilon (units of the SRID) as its reach: the right operand of &~ in range queries';
+
+CREATE FUNCTION @extschema@.frechet_reach(route geography, epsilon pg_catalog.float8)
+RETURNS frechet_key
+AS 'MODULE_PATHNAME', 'frechet_reach_geography'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 10;
+
+COMMENT ON FUNCTION @extschema@.frechet_reach(geography, pg_catalog.float8) IS
+'the route''s summary with epsilon (metres, kept as the largest chord within them) as its reach: the right operand of &~';
+
+CREATE FUNCTION @extschema@.frechet_within_reach(track geometry, reach frechet_key)
+RETURNS pg_catalog.bool
+AS 'MODULE_PATHNAME', 'frechet_within_reach_geometry'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 10;
+
+COMMENT ON FUNCTION @extschema@.frechet_within_reach(geometry, frechet_key) IS
+'false only when the curve cannot be within the reach''s epsilon of its route; a necessary condition for frechet_at_most';
+
+CREATE FUNCTION @extschema@.frechet_within_reach(reach frechet_key, track geometry)
+RETURNS pg_catalog.bool
+AS 'MODULE_PATHNAME', 'frechet_reach_within_geometry'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 10;
+
+COMMENT ON FUNCTION @extschema@.frechet_within_reach(frechet_key, geometry) IS
+'frechet_within_reach with its operands swapped';
+
+CREATE FUNCTION @extschema@.frechet_within_reach(track geography, reach frechet_key)
+RETURNS pg_catalog.bool
+AS 'MODULE_PATHNAME', 'frechet_within_reach_geography'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 10;
+
+COMMENT ON FUNCTION @extschema@.frechet_within_reach(geography, frechet_key) IS
+'false only when the curve cannot be within the reach''s epsilon (metres) of its route; a necessary condition for frechet_at_most';
+
+CREATE FUNCTION @extschema@.frechet_within_reach(reach frechet_key, track geography)
+RETURNS pg_catalog.bool
+AS 'MODULE_PATHNAME', 'frechet_reach_within_geography'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 10;
+
+COMMENT ON FUNCTION @extschema@.frechet_within_reach(frechet_key, geography) IS
+'frechet_within_reach with its operands swapped';
+
+CREATE OPERATOR @extschema@.&~ (
+	LEFTARG = geometry,
+	RIGHTARG = frechet_key,
+	FUNCTION = @extschema@.frechet_within_reach,
+	COMMUTATOR = OPERATOR(@extschema@.&~),
+	RESTRICT = pg_catalog.contsel,
+	JOIN = pg_catalog.contjoinsel
+);
+
+CREATE OPERATOR @extschema@.&~ (
+	LEFTARG = frechet_key,
+	RIGHTARG = geometry,
+	FUNCTION = @extschema@.frechet_within_reach,
+	COMMUTATOR = OPERATOR(@extschema@.&~),
+	RESTRICT = pg_catalog.contsel,
+	JOIN = pg_catalog.contjoinsel
+);
+
+CREATE OPERATOR @extschema@.&~ (
+	LEFTARG = geography,
+	RIGHTARG = frechet_key,
+	FUNCTION = @extschema@.frechet_within_reach,
+	COMMUTATOR = OPERATOR(@extschema@.&~),
+	RESTRICT = pg_catalog.contsel,
+	JOIN = pg_catalog.contjoinsel
+);
+
+CREATE OPERATOR @extschema@.&~ (
+	LEFTARG = frechet_key,
+	RIGHTARG = geography,
+	FUNCTION = @extschema@.frechet_within_reach,
+	COMMUTATOR = OPERATOR(@extschema@.&~),
+	RESTRICT = pg_catalog.contsel,
+	JOIN = pg_catalog.contjoinsel
+);
+
+COMMENT ON OPERATOR @extschema@.&~ (geometry, frechet_key) IS
+'the curve may lie within the reach''s epsilon of its route: the lossy index condition of frechet_at_most';
+COMMENT ON OPERATOR @extschema@.&~ (frechet_key, geometry) IS
+'the curve may lie within the reach''s epsilon of its route (operands swapped)';
+COMMENT ON OPERATOR @extschema@.&~ (geography, frechet_key) IS
+'the curve may lie within the reach''s epsilon of its route: the lossy index condition of frechet_at_most';
+COMMENT ON OPERATOR @extschema@.&~ (frechet_key, geography) IS
+'the curve may lie within the reach''s epsilon of its route (operands swapped)';
+
+-- GiST support.  consistent, union, penalty, picksplit and same are the C
+-- functions of frechet_track_ops; compress and distance decode PostGIS values.
+CREATE FUNCTION @extschema@.frechet_geometry_gist_consistent(internal, geometry, pg_catalog.int2, pg_catalog.oid, internal)
+RETURNS pg_catalog.bool
+AS 'MODULE_PATHNAME', 'frechet_gist_consistent'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+
+CREATE FUNCTION @extschema@.frechet_geography_gist_consistent(internal, geography, pg_catalog.int2, pg_catalog.oid, internal)
+RETURNS pg_catalog.bool
+AS 'MODULE_PATHNAME', 'frechet_gist_consistent'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+
+CREATE FUNCTION @extschema@.frechet_geo_gist_union(internal, internal)
+RETURNS frechet_key
+AS 'MODULE_PATHNAME', 'frechet_gist_union'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+
+CREATE FUNCTION @extschema@.frechet_geometry_gist_compress(internal)
+RETURNS internal
+AS 'MODULE_PATHNAME', 'frechet_gist_compress_geometry'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+
+CREATE FUNCTION @extschema@.frechet_geography_gist_compress(internal)
+RETURNS internal
+AS 'MODULE_PATHNAME', 'frechet_gist_compress_geography'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+
+CREATE FUNCTION @extschema@.frechet_geo_gist_penalty(internal, internal, internal)
+RETURNS internal
+AS 'MODULE_PATHNAME', 'frechet_gist_penalty'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+
+CREATE FUNCTION @extschema@.frechet_geo_gist_picksplit(internal, internal)
+RETURNS internal
+AS 'MODULE_PATHNAME', 'frechet_gist_picksplit'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+
+CREATE FUNCTION @extschema@.frechet_geo_gist_same(frechet_key, frechet_key, internal)
+RETURNS internal
+AS 'MODULE_PATHNAME', 'frechet_gist_same'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+
+CREATE FUNCTION @extschema@.frechet_geometry_gist_distance(internal, geometry, pg_catalog.int2, pg_catalog.oid, internal)
+RETURNS pg_catalog.float8
+AS 'MODULE_PATHNAME', 'frechet_gist_distance_geometry'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+
+CREATE FUNCTION @extschema@.frechet_geography_gist_distance(internal, geography, pg_catalog.int2, pg_catalog.oid, internal)
+RETURNS pg_catalog.float8
+AS 'MODULE_PATHNAME', 'frechet_gist_distance_geography'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+
+COMMENT ON FUNCTION @extschema@.frechet_geometry_gist_consistent(internal, geometry, pg_catalog.int2, pg_catalog.oid, internal) IS
+'GiST support: may an entry hold a curve within the query''s reach';
+COMMENT ON FUNCTION @extschema@.frechet_geography_gist_consistent(internal, geography, pg_catalog.int2, pg_catalog.oid, internal) IS
+'GiST support: may an entry hold a curve within the query''s reach';
+COMMENT ON FUNCTION @extschema@.frechet_geo_gist_union(internal, internal) IS
+'GiST support: the key covering a set of entries';
+COMMENT ON FUNCTION @extschema@.frechet_geometry_gist_compress(internal) IS
+'GiST support: the summary of a geometry curve (through ST_AsEWKB)';
+COMMENT ON FUNCTION @extschema@.frechet_geography_gist_compress(internal) IS
+'GiST support: the summary of a geography curve in Earth-centred metres';
+COMMENT ON FUNCTION @extschema@.frechet_geo_gist_penalty(internal, internal, internal) IS
+'GiST support: growth of a node''s key when it takes an entry';
+COMMENT ON FUNCTION @extschema@.frechet_geo_gist_picksplit(internal, internal) IS
+'GiST support: split of a full page';
+COMMENT ON FUNCTION @extschema@.frechet_geo_gist_same(frechet_key, frechet_key, internal) IS
+'GiST support: equality of keys';
+COMMENT ON FUNCTION @extschema@.frechet_geometry_gist_distance(internal, geometry, pg_catalog.int2, pg_catalog.oid, internal) IS
+'GiST support: a lower bound of the Fréchet distance from the query route to the curves under an entry';
+COMMENT ON FUNCTION @extschema@.frechet_geography_gist_distance(internal, geography, pg_catalog.int2, pg_catalog.oid, internal) IS
+'GiST support: a lower bound in metres of the Fréchet distance from the query route to the curves under an entry';
+
+CREATE OPERATOR CLASS @extschema@.frechet_geometry_ops
+FOR TYPE geometry USING gist AS
+	OPERATOR 1 @extschema@.&~ (geometry, frechet_key),
+	OPERATOR 15 @extschema@.<~> (geometry, geometry) FOR ORDER BY pg_catalog.float_ops,
+	FUNCTION 1 @extschema@.frechet_geometry_gist_consistent(internal, geometry, pg_catalog.int2, pg_catalog.oid, internal),
+	FUNCTION 2 @extschema@.frechet_geo_gist_union(internal, internal),
+	FUNCTION 3 @extschema@.frechet_geometry_gist_compress(internal),
+	FUNCTION 5 @extschema@.frechet_geo_gist_penalty(internal, internal, internal),
+	FUNCTION 6 @extschema@.frechet_geo_gist_picksplit(internal, internal),
+	FUNCTION 7 @extschema@.frechet_geo_gist_same(frechet_key, frechet_key, internal),
+	FUNCTION 8 @extschema@.frechet_geometry_gist_distance(internal, geometry, pg_catalog.int2, pg_catalog.oid, internal),
+	STORAGE frechet_key;
+
+CREATE OPERATOR CLASS @extschema@.frechet_geography_ops
+FOR TYPE geography USING gist AS
+	OPERATOR 1 @extschema@.&~ (geography, frechet_key),
+	OPERATOR 15 @extschema@.<~> (geography, geography) FOR ORDER BY pg_catalog.float_ops,
+	FUNCTION 1 @extschema@.frechet_geography_gist_consistent(internal, geography, pg_catalog.int2, pg_catalog.oid, internal),
+	FUNCTION 2 @extschema@.frechet_geo_gist_union(internal, internal),
+	FUNCTION 3 @extschema@.frechet_geography_gist_compress(internal),
+	FUNCTION 5 @extschema@.frechet_geo_gist_penalty(internal, internal, internal),
+	FUNCTION 6 @extschema@.frechet_geo_gist_picksplit(internal, internal),
+	FUNCTION 7 @extschema@.frechet_geo_gist_same(frechet_key, frechet_key, internal),
+	FUNCTION 8 @extschema@.frechet_geography_gist_distance(internal, geography, pg_catalog.int2, pg_catalog.oid, internal),
+	STORAGE frechet_key;

@@ -38,6 +38,8 @@ typedef struct wkb_reader
 	size_t		pos;
 	bool		big_endian;
 	int			argno;
+	bool		quiet;			/* on bad input set failed instead of raising an ERROR */
+	bool		failed;
 } wkb_reader;
 
 /* Reports bytes that end before the geometry does. */
@@ -51,12 +53,25 @@ truncated(const wkb_reader *r, const char *what)
 					   r->argno, r->len, what, r->pos)));
 }
 
-/* Reads one byte. */
+/* Bytes that end too early: an ERROR, or in quiet mode a failed reader. */
+static void
+short_read(wkb_reader *r, const char *what)
+{
+	if (r->quiet)
+		r->failed = true;
+	else
+		truncated(r, what);
+}
+
+/* Reads one byte (0 after a short read in quiet mode). */
 static uint8
 read_u8(wkb_reader *r, const char *what)
 {
 	if (r->len - r->pos < 1)
-		truncated(r, what);
+	{
+		short_read(r, what);
+		return 0;
+	}
 	return r->buf[r->pos++];
 }
 
@@ -67,7 +82,10 @@ read_u32(wkb_reader *r, const char *what)
 	const uint8 *p;
 
 	if (r->len - r->pos < 4)
-		truncated(r, what);
+	{
+		short_read(r, what);
+		return 0;
+	}
 	p = r->buf + r->pos;
 	r->pos += 4;
 	if (r->big_endian)
@@ -90,12 +108,16 @@ read_f64_unchecked(wkb_reader *r)
 	return d;
 }
 
-/* Reads the byte order marker: 0 big-endian (XDR), 1 little-endian (NDR). */
-static void
+/* Reads the byte order marker: 0 big-endian (XDR), 1 little-endian (NDR); false if bad (quiet). */
+static bool
 read_byte_order(wkb_reader *r)
 {
 	uint8		bo = read_u8(r, "byte order marker");
 
+	if (r->failed)
+		return false;
+	if (bo > 1 && r->quiet)
+		return false;
 	if (bo > 1)
 		ereport(ERROR,
 				(errcode(ERRCODE_INVALID_BINARY_REPRESENTATION),
@@ -103,6 +125,7 @@ read_byte_order(wkb_reader *r)
 				 errdetail("Argument %d has byte order marker %u at byte %zu; WKB allows 0 or 1.",
 						   r->argno, bo, r->pos - 1)));
 	r->big_endian = (bo == 0);
+	return true;
 }
 
 /* Name of an OGC geometry type code, for messages. */
@@ -170,6 +193,14 @@ reject_type(const wkb_reader *r, uint32 base)
 			 errdetail("Argument %d is a %s.", r->argno, name)));
 }
 
+/* Is a coordinate finite and within the engine's range? */
+static bool
+coordinate_ok(double v)
+{
+	/* fabs(NaN) <= limit is false */
+	return fabs(v) <= FR_MAX_ABS_COORD;
+}
+
 /* Rejects NaN, infinite and huge coordinates, naming the vertex (1-based). */
 static void
 check_coordinate(double v, int argno, size_t vertex)
@@ -189,13 +220,14 @@ check_coordinate(double v, int argno, size_t vertex)
 }
 
 /*
- * Decodes one EWKB or ISO WKB Point or LineString from buf[0..len) into
- * out: coordinates palloc'd, X Y [Z] per vertex, M dropped.
+ * Decodes one EWKB or ISO WKB Point or LineString from the reader's bytes
+ * into out: coordinates palloc'd, X Y [Z] per vertex, M dropped.  Bad input
+ * raises an ERROR naming the argument, or in quiet mode returns false.
  */
-void
-ewkb_decode(const uint8 *buf, size_t len, int argno, ewkb_curve *out)
+static bool
+decode(wkb_reader *r, ewkb_curve *out)
 {
-	wkb_reader	r = {buf, len, 0, false, argno};
+	int			argno = r->argno;
 	uint32		type,
 				base,
 				iso;
@@ -206,8 +238,11 @@ ewkb_decode(const uint8 *buf, size_t len, int argno, ewkb_curve *out)
 	uint32		npoints;
 	double	   *coords;
 
-	read_byte_order(&r);
-	type = read_u32(&r, "geometry type");
+	if (!read_byte_order(r))
+		return false;
+	type = read_u32(r, "geometry type");
+	if (r->failed)
+		return false;
 	has_z = (type & EWKB_Z) != 0;
 	has_m = (type & EWKB_M) != 0;
 	out->has_srid = (type & EWKB_SRID) != 0;
@@ -216,33 +251,56 @@ ewkb_decode(const uint8 *buf, size_t len, int argno, ewkb_curve *out)
 	iso = type / 1000;
 	base = type % 1000;
 	if (iso > 3 || (iso > 0 && (has_z || has_m)))
+	{
+		if (r->quiet)
+			return false;
 		ereport(ERROR,
 				(errcode(ERRCODE_INVALID_BINARY_REPRESENTATION),
 				 errmsg("invalid EWKB: unknown geometry type code %u", type),
 				 errdetail("Argument %d mixes ISO and EWKB dimension flags or uses an unknown code.",
 						   argno)));
+	}
 	has_z = has_z || iso == 1 || iso == 3;
 	has_m = has_m || iso == 2 || iso == 3;
 	out->srid = 0;
 	if (out->has_srid)
-		out->srid = (int32) read_u32(&r, "SRID");
+	{
+		out->srid = (int32) read_u32(r, "SRID");
+		if (r->failed)
+			return false;
+	}
 	if (base != WKB_POINT && base != WKB_LINESTRING)
-		reject_type(&r, base);
+	{
+		if (r->quiet)
+			return false;
+		reject_type(r, base);
+	}
 
 	stride = 2 + (has_z ? 1 : 0) + (has_m ? 1 : 0);
 	dim = has_z ? 3 : 2;
 	if (base == WKB_POINT)
 		npoints = 1;
 	else
-		npoints = read_u32(&r, "number of points");
+	{
+		npoints = read_u32(r, "number of points");
+		if (r->failed)
+			return false;
+	}
 	if (npoints == 0)
+	{
+		if (r->quiet)
+			return false;
 		ereport(ERROR,
 				(errcode(ERRCODE_INVALID_PARAMETER_VALUE),
 				 errmsg("curve must have at least one point"),
 				 errdetail("Argument %d is an empty LineString.", argno)));
+	}
 	/* checked before allocating: the bytes must be there */
-	if ((r.len - r.pos) / (8 * (size_t) stride) < npoints)
-		truncated(&r, "coordinates");
+	if ((r->len - r->pos) / (8 * (size_t) stride) < npoints)
+	{
+		short_read(r, "coordinates");
+		return false;
+	}
 
 	coords = palloc(sizeof(double) * dim * (size_t) npoints);
 	for (size_t i = 0; i < npoints; i++)
@@ -250,27 +308,68 @@ ewkb_decode(const uint8 *buf, size_t len, int argno, ewkb_curve *out)
 		double		v[4];
 
 		for (int k = 0; k < stride; k++)
-			v[k] = read_f64_unchecked(&r);
+			v[k] = read_f64_unchecked(r);
 		/* an empty Point is written as all-NaN coordinates (common practice) */
 		if (base == WKB_POINT && isnan(v[0]) && isnan(v[1]))
+		{
+			if (r->quiet)
+			{
+				pfree(coords);
+				return false;
+			}
 			ereport(ERROR,
 					(errcode(ERRCODE_INVALID_PARAMETER_VALUE),
 					 errmsg("curve must have at least one point"),
 					 errdetail("Argument %d is an empty Point.", argno)));
+		}
 		for (int k = 0; k < dim; k++)
 		{
-			check_coordinate(v[k], argno, i + 1);
+			if (!coordinate_ok(v[k]))
+			{
+				if (r->quiet)
+				{
+					pfree(coords);
+					return false;
+				}
+				check_coordinate(v[k], argno, i + 1);
+			}
 			coords[i * dim + k] = v[k];
 		}
 	}
-	if (r.pos != r.len)
+	if (r->pos != r->len)
+	{
+		if (r->quiet)
+		{
+			pfree(coords);
+			return false;
+		}
 		ereport(ERROR,
 				(errcode(ERRCODE_INVALID_BINARY_REPRESENTATION),
 				 errmsg("invalid EWKB: trailing bytes after the geometry"),
 				 errdetail("Argument %d has %zu bytes; the geometry ends at byte %zu.",
-						   argno, r.len, r.pos)));
+						   argno, r->len, r->pos)));
+	}
 	out->coords = coords;
 	out->n = npoints;
 	out->dim = dim;
 	out->has_m = has_m;
+	return true;
+}
+
+/* Decodes buf[0..len) into out; bad input raises an ERROR naming argument argno. */
+void
+ewkb_decode(const uint8 *buf, size_t len, int argno, ewkb_curve *out)
+{
+	wkb_reader	r = {buf, len, 0, false, argno, false, false};
+
+	decode(&r, out);
+}
+
+/* Decodes buf[0..len) into out; false, without an ERROR, when ewkb_decode would raise one. */
+bool
+ewkb_decode_quiet(const uint8 *buf, size_t len, ewkb_curve *out)
+{
+	wkb_reader	r = {buf, len, 0, false, 0, true, false};
+
+	return decode(&r, out);
 }

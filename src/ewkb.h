@@ -20,4 +20,7 @@ typedef struct ewkb_curve
 /* Decodes buf[0..len); ERRORs name argument argno. */
 void		ewkb_decode(const uint8 *buf, size_t len, int argno, ewkb_curve *out);
 
+/* The same, returning false instead of raising an ERROR (for index keys of stored rows). */
+bool		ewkb_decode_quiet(const uint8 *buf, size_t len, ewkb_curve *out);
+
 #endif							/* FRECHET_EWKB_H */

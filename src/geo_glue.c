@@ -35,18 +35,19 @@
 #include "lib/stringinfo.h"
 
 #include "glue.h"
+#include "index.h"
 #include "ewkb.h"
 #include "geo_glue.h"
 #include "geodesy.h"
 
 /* The PostGIS functions a call site needs, found once and kept in fn_extra. */
-typedef struct postgis_calls
+struct postgis_calls
 {
 	FmgrInfo	as_ewkb;		/* ST_AsEWKB(geometry) */
 	FmgrInfo	to_geometry;	/* geometry(geography), for geography input */
 	FmgrInfo	from_ewkb;		/* ST_GeomFromEWKB(bytea), for results */
 	FmgrInfo	to_geography;	/* geography(geometry), for geography results */
-} postgis_calls;
+};
 
 /* Schema of the installed postgis extension; ERROR when it is not installed. */
 static Oid
@@ -97,44 +98,50 @@ schema_function(Oid nsp, const char *name, int nargs, Oid *argtypes)
 	return LookupFuncName(qname, nargs, argtypes, false);
 }
 
-/* Finds ST_AsEWKB (and the geography-to-geometry cast) for one call site. */
+/* Finds ST_AsEWKB, ST_GeomFromEWKB and the casts, allocated in mcxt. */
+postgis_calls *
+geo_postgis_calls_new(MemoryContext mcxt)
+{
+	Oid			nsp = postgis_namespace();
+	Oid			geometry = postgis_type(nsp, "geometry");
+	Oid			geography = postgis_type(nsp, "geography");
+	Oid			bytea_type = BYTEAOID;
+	postgis_calls *calls = MemoryContextAllocZero(mcxt, sizeof(postgis_calls));
+
+	fmgr_info_cxt(schema_function(nsp, "st_asewkb", 1, &geometry),
+				  &calls->as_ewkb, mcxt);
+	fmgr_info_cxt(schema_function(nsp, "geometry", 1, &geography),
+				  &calls->to_geometry, mcxt);
+	fmgr_info_cxt(schema_function(nsp, "st_geomfromewkb", 1, &bytea_type),
+				  &calls->from_ewkb, mcxt);
+	fmgr_info_cxt(schema_function(nsp, "geography", 1, &geometry),
+				  &calls->to_geography, mcxt);
+	return calls;
+}
+
+/* The PostGIS look-ups of one call site, found once and kept in fn_extra. */
 static postgis_calls *
 postgis_calls_for(FunctionCallInfo fcinfo)
 {
-	postgis_calls *calls = fcinfo->flinfo->fn_extra;
+	if (fcinfo->flinfo->fn_extra == NULL)
+		fcinfo->flinfo->fn_extra = geo_postgis_calls_new(fcinfo->flinfo->fn_mcxt);
+	return (postgis_calls *) fcinfo->flinfo->fn_extra;
+}
 
-	if (calls == NULL)
-	{
-		MemoryContext mcxt = fcinfo->flinfo->fn_mcxt;
-		Oid			nsp = postgis_namespace();
-		Oid			geometry = postgis_type(nsp, "geometry");
-		Oid			geography = postgis_type(nsp, "geography");
-		Oid			bytea_type = BYTEAOID;
-
-		calls = MemoryContextAllocZero(mcxt, sizeof(postgis_calls));
-		fmgr_info_cxt(schema_function(nsp, "st_asewkb", 1, &geometry),
-					  &calls->as_ewkb, mcxt);
-		fmgr_info_cxt(schema_function(nsp, "geometry", 1, &geography),
-					  &calls->to_geometry, mcxt);
-		fmgr_info_cxt(schema_function(nsp, "st_geomfromewkb", 1, &bytea_type),
-					  &calls->from_ewkb, mcxt);
-		fmgr_info_cxt(schema_function(nsp, "geography", 1, &geometry),
-					  &calls->to_geography, mcxt);
-		fcinfo->flinfo->fn_extra = calls;
-	}
-	return calls;
+/* The EWKB of a geometry (or, when geography, a geography) value, made by PostGIS. */
+bytea *
+geo_datum_ewkb(postgis_calls *calls, Datum g, bool geography)
+{
+	if (geography)
+		g = FunctionCall1(&calls->to_geometry, g);
+	return DatumGetByteaPP(FunctionCall1(&calls->as_ewkb, g));
 }
 
 /* The EWKB of a geometry or geography argument, made by PostGIS. */
 static bytea *
 argument_ewkb(FunctionCallInfo fcinfo, int argno, bool geography)
 {
-	postgis_calls *calls = postgis_calls_for(fcinfo);
-	Datum		g = PG_GETARG_DATUM(argno);
-
-	if (geography)
-		g = FunctionCall1(&calls->to_geometry, g);
-	return DatumGetByteaPP(FunctionCall1(&calls->as_ewkb, g));
+	return geo_datum_ewkb(postgis_calls_for(fcinfo), PG_GETARG_DATUM(argno), geography);
 }
 
 /* Checks that two decoded curves agree on SRID and dimension. */
@@ -228,6 +235,30 @@ geo_decode_one(FunctionCallInfo fcinfo, bool geodetic, geo_curves *gc)
 	bytea	   *a = argument_ewkb(fcinfo, 0, geodetic);
 
 	decode_curves(a, a, geodetic, gc);
+}
+
+/*
+ * One geometry (or, when geodetic, geography) value as an engine curve:
+ * geography as Earth-centred coordinates.  Bad input raises the same
+ * ERROR as the distance functions, naming argument argno.
+ */
+void
+geo_datum_curve(postgis_calls *calls, Datum g, bool geodetic, int argno, fr_curve *out)
+{
+	bytea	   *ewkb = geo_datum_ewkb(calls, g, geodetic);
+	ewkb_curve	c;
+
+	ewkb_decode((const uint8 *) VARDATA_ANY(ewkb), VARSIZE_ANY_EXHDR(ewkb), argno, &c);
+	pfree(ewkb);
+	out->n = c.n;
+	out->coords = c.coords;
+	out->dim = c.dim;
+	if (geodetic)
+	{
+		out->coords = to_ecef(&c, argno);
+		out->dim = 3;
+		pfree(c.coords);
+	}
 }
 
 /* Appends a little-endian 32-bit integer. */
@@ -571,6 +602,39 @@ frechet_index_expansion(PG_FUNCTION_ARGS)
 }
 
 /*
+ * The lossy index condition for frechet_at_most on an index of our own
+ * operator classes (geo_gist.c): key &~ frechet_reach(other, eps), the
+ * test of first vertices, last vertices and box sides.  NIL when the
+ * index's operator family has no &~ for (keytype, frechet_key).
+ */
+static List *
+reach_index_condition(SupportRequestIndexCondition *req, Node *key, Node *other,
+					  Node *eps, Oid keytype)
+{
+	Oid			argtypes[2] = {keytype, FLOAT8OID};
+	Oid			reachfn,
+				reachtype,
+				opno;
+	Expr	   *reach;
+
+	/* frechet_reach(geometry|geography, float8) lives beside frechet_at_most */
+	reachfn = LookupFuncName(list_make2(makeString(get_namespace_name(get_func_namespace(req->funcid))),
+										makeString("frechet_reach")),
+							 2, argtypes, true);
+	if (!OidIsValid(reachfn))
+		return NIL;
+	reachtype = get_func_rettype(reachfn);
+	opno = get_opfamily_member(req->opfamily, keytype, reachtype, FRECHET_STRATEGY_REACH);
+	if (!OidIsValid(opno))
+		return NIL;
+	reach = (Expr *) makeFuncExpr(reachfn, reachtype, list_make2(other, eps),
+								  InvalidOid, InvalidOid, COERCE_EXPLICIT_CALL);
+	req->lossy = true;
+	return list_make1(make_opclause(opno, BOOLOID, false, (Expr *) key, reach,
+									InvalidOid, InvalidOid));
+}
+
+/*
  * The lossy index condition for frechet_at_most(a, b, eps) on an index of
  * a (or b): key && expand(other, expansion).  A Fréchet distance of at most
  * eps puts every vertex of one curve within eps of the other curve, so the
@@ -594,6 +658,7 @@ at_most_index_condition(SupportRequestIndexCondition *req)
 	bool		geodetic;
 	Expr	   *expansion,
 			   *expanded;
+	List	   *reach;
 
 	if (!IsA(call, FuncExpr) || list_length(call->args) != 3 || req->indexarg > 1)
 		return NIL;
@@ -611,6 +676,11 @@ at_most_index_condition(SupportRequestIndexCondition *req)
 	if (keytype != geometry && keytype != geography)
 		return NIL;
 	geodetic = (keytype == geography);
+
+	/* an index of frechet_geometry_ops or frechet_geography_ops: key &~ frechet_reach(other, eps) */
+	reach = reach_index_condition(req, key, other, eps, keytype);
+	if (reach != NIL)
+		return reach;
 
 	/* && of the postgis schema; only if the index's operator family has it */
 	opno = OpernameGetOprid(list_make2(makeString(get_namespace_name(nsp)), makeString("&&")),

@@ -22,6 +22,14 @@ typedef struct geo_curves
 	bool		geodetic;
 } geo_curves;
 
+/* PostGIS's own functions, looked up in the schema of the postgis extension. */
+typedef struct postgis_calls postgis_calls;
+
+postgis_calls *geo_postgis_calls_new(MemoryContext mcxt);
+bytea	   *geo_datum_ewkb(postgis_calls *calls, Datum g, bool geography);
+void		geo_datum_curve(postgis_calls *calls, Datum g, bool geodetic, int argno,
+							fr_curve *out);
+
 void		geo_decode_args(FunctionCallInfo fcinfo, bool geodetic, geo_curves *gc);
 void		geo_decode_one(FunctionCallInfo fcinfo, bool geodetic, geo_curves *gc);
 Datum		geo_vertices_datum(FunctionCallInfo fcinfo, const geo_curves *gc,

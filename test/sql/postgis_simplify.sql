@@ -1,7 +1,7 @@
 -- frechet_simplify on geometry and geography: the guarantee recomputed with
 -- frechet_distance, the SRID kept, bad tolerance refused.
-CREATE EXTENSION IF NOT EXISTS postgis;
-CREATE EXTENSION IF NOT EXISTS frechet_ext_postgis;
+CREATE EXTENSION postgis;
+CREATE EXTENSION frechet_ext_postgis;
 
 CREATE TABLE simplify_geo AS
 SELECT i, ST_SetSRID(ST_MakeLine(array(SELECT ST_MakePoint(k * 11 + 4 * sin(k * i), 3 * cos(k + i) + k % 4)
@@ -24,3 +24,5 @@ SELECT ST_AsText(frechet_simplify('SRID=3857;POINT(1 2)'::geometry, 5)) AS one_p
 SELECT frechet_simplify('LINESTRING(0 0, 1 1)'::geometry, -1);
 
 DROP TABLE simplify_geo;
+DROP EXTENSION frechet_ext_postgis;
+DROP EXTENSION postgis;
