@@ -48,7 +48,13 @@ check-core: $(CORE_TESTS)
 bench:
 	$(MAKE) -C bench
 
-# ---- Reliability (issue 7): fuzzing, sanitizers, valgrind, load test ----
+# ---- Reliability (issue 7): upgrade scripts, fuzzing, sanitizers, valgrind, load test ----
+
+# Released install scripts (sql/<ext>--<old>.sql, committed when a version
+# is released) and upgrade scripts (sql/<ext>--<from>--<to>.sql) are
+# installed as they are; test/reliability/upgrade.sh checks every path.
+DATA += $(filter-out $(DATA_built),$(wildcard sql/*--*.sql))
+
 # See DEVELOPERS.md, "Reliability".  Fuzz targets are test/fuzz/fuzz_*.c;
 # each links the engine (CORE_SRC) and, for glue targets, the glue file it
 # names in FUZZ_GLUE_<target> with the server stubs.
