@@ -154,7 +154,7 @@ fail(const char *what, const expectation *want)
  * out what the decoder must say about it.
  */
 static ArrayType *
-build_array(reader *r, int argno, expectation *want, bool **isnull_out, Point **pts_out)
+build_array(reader *r, expectation *want, bool **isnull_out, Point **pts_out)
 {
 	uint8		shape = read_u8(r);
 	int			ndim = Min(shape % 8, MAXDIM);
@@ -256,7 +256,6 @@ build_array(reader *r, int argno, expectation *want, bool **isnull_out, Point **
 				want->subscript = lbs[0] + i;	/* no NULLs here: i is the position */
 		}
 	}
-	(void) argno;
 	*isnull_out = isnull;
 	*pts_out = pts;
 	return arr;
@@ -299,7 +298,7 @@ LLVMFuzzerTestOneInput(const uint8 *data, size_t size)
 	expectation want;
 	bool	   *isnull;
 	Point	   *pts;
-	ArrayType  *arr = build_array(&r, argno, &want, &isnull, &pts);
+	ArrayType  *arr = build_array(&r, &want, &isnull, &pts);
 	sigjmp_buf	jb;
 	fr_curve	curve;
 

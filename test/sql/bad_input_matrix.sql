@@ -84,6 +84,14 @@ SELECT p.oid::regprocedure::text AS member, p.proisstrict AS strict, p.proretset
 FROM members m JOIN pg_proc p ON m.classid = 'pg_proc'::regclass AND p.oid = m.objid
 JOIN pg_namespace n ON n.oid = p.pronamespace
 WHERE p.prokind = 'f' AND p.pronargs > 0
+  -- what SQL can call: no pseudo-type argument (internal, cstring), no
+  -- internal or cstring result, not a type's I/O function
+  AND NOT EXISTS (SELECT 1 FROM unnest(p.proargtypes::oid[]) AS a(typ)
+                  JOIN pg_type t ON t.oid = a.typ WHERE t.typtype = 'p')
+  AND p.prorettype NOT IN ('internal'::regtype, 'cstring'::regtype)
+  AND NOT EXISTS (SELECT 1 FROM pg_type t
+                  WHERE p.oid IN (t.typinput, t.typoutput, t.typreceive, t.typsend,
+                                  t.typmodin, t.typmodout, t.typanalyze))
 UNION ALL
 SELECT o.oid::regoperator::text, f.proisstrict, false,
        format('SELECT ((%%s) OPERATOR(%I.%s) (%%s))::text', n.nspname, o.oprname),

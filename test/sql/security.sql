@@ -17,6 +17,19 @@ FROM pg_depend d
 JOIN pg_extension e ON d.refclassid = 'pg_extension'::regclass AND d.refobjid = e.oid
 WHERE e.extname = 'frechet_ext' AND d.deptype = 'e';
 
+-- Member functions SQL can call: no pseudo-type argument (internal,
+-- cstring), no internal or cstring result, not a type's I/O function.
+CREATE TEMP VIEW callable_functions AS
+SELECT p.*
+FROM members m JOIN pg_proc p ON m.classid = 'pg_proc'::regclass AND p.oid = m.objid
+WHERE p.prokind = 'f'
+  AND NOT EXISTS (SELECT 1 FROM unnest(p.proargtypes::oid[]) AS a(typ)
+                  JOIN pg_type t ON t.oid = a.typ WHERE t.typtype = 'p')
+  AND p.prorettype NOT IN ('internal'::regtype, 'cstring'::regtype)
+  AND NOT EXISTS (SELECT 1 FROM pg_type t
+                  WHERE p.oid IN (t.typinput, t.typoutput, t.typreceive, t.typsend,
+                                  t.typmodin, t.typmodout, t.typanalyze));
+
 -- No SECURITY DEFINER function; every function and operator has a comment.
 SELECT count(*) > 0 AS has_functions,
        count(*) FILTER (WHERE p.prosecdef) AS security_definer
@@ -39,15 +52,13 @@ INSERT INTO samples VALUES
 CREATE TEMP TABLE calls AS
 WITH args AS (
 	SELECT p.oid, a.ord, s.val
-	FROM members m
-	JOIN pg_proc p ON m.classid = 'pg_proc'::regclass AND p.oid = m.objid
+	FROM callable_functions p
 	CROSS JOIN LATERAL unnest(p.proargtypes::oid[]) WITH ORDINALITY AS a(typ, ord)
 	LEFT JOIN LATERAL (
 		SELECT count(*) + 1 AS k
 		FROM unnest(p.proargtypes::oid[]) WITH ORDINALITY AS b(typ, ord)
 		WHERE b.typ = a.typ AND b.ord < a.ord) r ON true
-	LEFT JOIN samples s ON s.typ = format_type(a.typ, NULL) AND s.k = r.k
-	WHERE p.prokind = 'f')
+	LEFT JOIN samples s ON s.typ = format_type(a.typ, NULL) AND s.k = r.k)
 SELECT p.oid::regprocedure::text AS member,
        format('SELECT pg_catalog.array_agg(x::text ORDER BY x::text) FROM %I.%I(%s) AS x',
               n.nspname, p.proname, string_agg(args.val, ', ' ORDER BY args.ord)) AS stmt,
@@ -78,8 +89,7 @@ AS $$BEGIN RAISE EXCEPTION 'hostile look-alike called'; END$$;
 SELECT format('CREATE FUNCTION hostile.%I(%s) RETURNS %s LANGUAGE plpgsql AS %L',
               p.proname, pg_get_function_arguments(p.oid), pg_get_function_result(p.oid),
               'BEGIN PERFORM hostile.trap(); END')
-FROM members m JOIN pg_proc p ON m.classid = 'pg_proc'::regclass AND p.oid = m.objid
-WHERE p.prokind = 'f'
+FROM callable_functions p
 \gexec
 SELECT format('CREATE FUNCTION hostile.op_%s(%s, %s) RETURNS %s LANGUAGE plpgsql AS %L',
               o.oid, o.oprleft::regtype, o.oprright::regtype, o.oprresult::regtype,
@@ -154,25 +164,36 @@ RESET search_path;
 DROP SCHEMA hostile CASCADE;
 
 -- An object planted before CREATE EXTENSION, with the name and signature of
--- a member, makes the install fail (42723, duplicate_function) rather than
--- be adopted: for each member function and operator in turn.  (With OR
--- REPLACE the planted object would be replaced, or, on PostgreSQL releases
--- since August 2022, the install would fail with another SQLSTATE; either
--- way a row below.)
+-- a member, makes the install fail (42723 duplicate_function, 42710
+-- duplicate_object for a type) rather than be adopted: for each member
+-- type, and each member function and operator whose types exist without
+-- the extension, in turn.  (With OR REPLACE the planted object would be
+-- replaced, or, on PostgreSQL releases since August 2022, the install
+-- would fail with another SQLSTATE; either way a row below.)
+CREATE TEMP TABLE member_types AS
+SELECT objid AS typ FROM members WHERE classid = 'pg_type'::regclass;
 CREATE TEMP TABLE planted AS
-SELECT what, format('CREATE FUNCTION trap.%I(%s) RETURNS %s LANGUAGE plpgsql AS %L',
-                    p.proname, pg_get_function_identity_arguments(p.oid),
-                    pg_get_function_result(p.oid), 'BEGIN RAISE EXCEPTION ''planted''; END') AS plant
-FROM members m JOIN pg_proc p ON m.classid = 'pg_proc'::regclass AND p.oid = m.objid
-WHERE p.prokind = 'f'
+SELECT what, '42723' AS expected,
+       format('CREATE FUNCTION trap.%I(%s) RETURNS %s LANGUAGE plpgsql AS %L',
+              p.proname, pg_get_function_identity_arguments(p.oid),
+              pg_get_function_result(p.oid), 'BEGIN RAISE EXCEPTION ''planted''; END') AS plant
+FROM callable_functions p JOIN members m ON m.classid = 'pg_proc'::regclass AND m.objid = p.oid
+WHERE NOT EXISTS (SELECT 1 FROM unnest(coalesce(p.proallargtypes, p.proargtypes::oid[]) || p.prorettype) AS a(typ)
+                  WHERE a.typ IN (SELECT typ FROM member_types))
 UNION ALL
-SELECT what, format('CREATE FUNCTION trap.op_impl(%s, %s) RETURNS %s LANGUAGE plpgsql AS %L; ',
-                    o.oprleft::regtype, o.oprright::regtype, o.oprresult::regtype, 'BEGIN RAISE EXCEPTION ''planted''; END')
-             || format('CREATE OPERATOR trap.%s (LEFTARG = %s, RIGHTARG = %s, FUNCTION = trap.op_impl)',
-                       o.oprname, o.oprleft::regtype, o.oprright::regtype)
-FROM members m JOIN pg_operator o ON m.classid = 'pg_operator'::regclass AND o.oid = m.objid;
+SELECT what, '42723',
+       format('CREATE FUNCTION trap.op_impl(%s, %s) RETURNS %s LANGUAGE plpgsql AS %L; ',
+              o.oprleft::regtype, o.oprright::regtype, o.oprresult::regtype, 'BEGIN RAISE EXCEPTION ''planted''; END')
+       || format('CREATE OPERATOR trap.%s (LEFTARG = %s, RIGHTARG = %s, FUNCTION = trap.op_impl)',
+                 o.oprname, o.oprleft::regtype, o.oprright::regtype)
+FROM members m JOIN pg_operator o ON m.classid = 'pg_operator'::regclass AND o.oid = m.objid
+WHERE o.oprleft NOT IN (SELECT typ FROM member_types) AND o.oprright NOT IN (SELECT typ FROM member_types)
+UNION ALL
+SELECT what, '42710', format('CREATE TYPE trap.%I', t.typname)
+FROM members m JOIN pg_type t ON m.classid = 'pg_type'::regclass AND t.oid = m.objid
+WHERE t.typtype <> 'c';
 DROP EXTENSION frechet_ext;
-CREATE TEMP TABLE plant_outcome (what text, outcome text);
+CREATE TEMP TABLE plant_outcome (what text, expected text, outcome text);
 DO $$
 DECLARE
 	r record;
@@ -188,10 +209,10 @@ BEGIN
 		EXCEPTION WHEN OTHERS THEN
 			state := SQLSTATE;
 		END;
-		INSERT INTO plant_outcome VALUES (r.what, state);
+		INSERT INTO plant_outcome VALUES (r.what, r.expected, state);
 		DROP SCHEMA trap CASCADE;
 	END LOOP;
 END $$;
 SELECT count(*) > 0 AS members_planted FROM plant_outcome;
-SELECT what AS not_blocked, outcome FROM plant_outcome WHERE outcome <> '42723' ORDER BY what;
+SELECT what AS not_blocked, expected, outcome FROM plant_outcome WHERE outcome <> expected ORDER BY what;
 CREATE EXTENSION frechet_ext;
