@@ -42,8 +42,8 @@
  *
  * Underflow: the engine squares coordinate differences, and below about
  * 1e-154 the squares underflow, so distances between points that close
- * come out too small (0 at worst).  The end-point bound is checked only
- * above UNDERFLOW_FLOOR.
+ * come out too small (0 at worst) or lose digits.  Comparisons of
+ * distances are checked only when a distance reaches UNDERFLOW_FLOOR.
  *
  * Tangent end point: when a vertex lies exactly at distance eps from the
  * end of a segment, the free interval can come out empty (its computed
@@ -84,6 +84,13 @@ typedef struct fuzz_heap
 	long		polls;
 	long		interrupt_after;	/* < 0: never interrupt */
 } fuzz_heap;
+
+/* A distance below the floor of the known underflow bug: not compared. */
+static bool
+underflows(double x)
+{
+	return x < UNDERFLOW_FLOOR;
+}
 
 /* Reports a violated property and aborts, so libFuzzer saves the input. */
 static void
@@ -430,6 +437,8 @@ check_symmetry(fuzz_case *c)
 	if (c->large)
 		return;
 	r = distance(c, &c->q, &c->p, NULL);
+	if (underflows(fmax(r, c->d)))
+		return;
 	if (fabs(r - c->d) > REL_TOL * fmax(r, c->d))
 		fail(c, "d(p,q) = %.17g but d(q,p) = %.17g", c->d, r);
 }
@@ -451,11 +460,13 @@ check_bounds(fuzz_case *c)
 	dd = discrete(c);
 	edge = fmax(fr_longest_edge(&c->p), fr_longest_edge(&c->q));
 	ends = end_distance(c);
+	if (underflows(fmax(dd, ends)))
+		return;
 	if (dd < c->d * (1 - REL_TOL))
 		fail(c, "discrete %.17g below continuous %.17g", dd, c->d);
 	if (dd > (c->d + edge) * (1 + REL_TOL))
 		fail(c, "discrete %.17g above continuous %.17g + longest edge %.17g", dd, c->d, edge);
-	if (ends >= UNDERFLOW_FLOOR && c->d < ends * (1 - REL_TOL))
+	if (c->d < ends * (1 - REL_TOL))
 		fail(c, "distance %.17g below the end-point distance %.17g", c->d, ends);
 }
 
@@ -480,7 +491,7 @@ check_scaling(fuzz_case *c)
 	s->p.coords = s->a;
 	s->q.coords = s->b;
 	r = distance(s, &s->p, &s->q, NULL);
-	if (fabs(r - 2 * c->d) > REL_TOL * r)
+	if (!underflows(c->d) && fabs(r - 2 * c->d) > REL_TOL * r)
 		fail(c, "d(2p,2q) = %.17g but 2 d(p,q) = %.17g", r, 2 * c->d);
 	free(s);
 }
@@ -547,7 +558,7 @@ check_large(fuzz_case *c)
 	if (!decide_true(c, dd, false))
 		fail(c, "at_most(discrete distance %.17g) is false", dd);
 	ends = end_distance(c);
-	if (ends >= UNDERFLOW_FLOOR && ends * (1 - REL_TOL) < ends &&
+	if (!underflows(ends) && ends * (1 - REL_TOL) < ends &&
 		decide(c, ends * (1 - REL_TOL), false))
 		fail(c, "at_most is true below the end-point distance %.17g", ends);
 
