@@ -82,4 +82,60 @@ ifeq ($(wildcard $(shell $(PG_CONFIG) --sharedir)/extension/postgis.control),)
 REGRESS := $(filter-out postgis_%,$(REGRESS))
 endif
 
-# Checks our WGS84 metric against PROJ's geodesics (geod_inverse, Karney 2013).
+# ---- Reliability (issue 7): upgrade scripts, fuzzing, sanitizers, valgrind, load test ----
+
+# Released install scripts (sql/<ext>--<old>.sql, committed when a version
+# is released) and upgrade scripts (sql/<ext>--<from>--<to>.sql) are
+# installed as they are; test/reliability/upgrade.sh checks every path.
+DATA += $(filter-out $(DATA_built),$(wildcard sql/*--*.sql))
+
+# See DEVELOPERS.md, "Reliability".  Fuzz targets are test/fuzz/fuzz_*.c;
+# each links the engine (CORE_SRC) and, for glue targets, the glue file it
+# names in FUZZ_GLUE_<target> with the server stubs.
+
+FUZZ_CC = clang
+FUZZ_CFLAGS = -std=gnu11 -g -O1 -fsanitize=fuzzer,address,undefined \
+	-fno-sanitize-recover=all -fno-omit-frame-pointer -Wall -Wextra \
+	-Wno-unused-parameter -Wno-ignored-attributes -Wno-sign-compare \
+	-Isrc/core -Isrc -Itest/fuzz
+PG_INCLUDEDIR_SERVER := $(shell $(PG_CONFIG) --includedir-server)
+# FUZZ_STRICT=1 also checks the properties of known, reported engine bugs
+# (see the top of test/fuzz/fuzz_engine.c).
+FUZZ_CFLAGS += $(if $(FUZZ_STRICT),-DFUZZ_STRICT)
+FUZZ_TARGETS = $(patsubst %.c,%.bin,$(wildcard test/fuzz/fuzz_*.c))
+FUZZ_GLUE_fuzz_point_array = src/point_array.c
+
+# The engine's work is floating point: comparison tracing (trace-cmp) would
+# cost two thirds of the time and guide little, so it is off there.
+test/fuzz/fuzz_engine.bin: test/fuzz/fuzz_engine.c $(CORE_SRC) src/core/*.h
+	$(FUZZ_CC) $(FUZZ_CFLAGS) -O2 -fno-sanitize-coverage=trace-cmp -o $@ test/fuzz/fuzz_engine.c $(CORE_SRC) -lm
+
+test/fuzz/fuzz_%.bin: test/fuzz/fuzz_%.c test/fuzz/pg_stubs.c test/fuzz/pg_stubs.h src/*.c src/*.h $(CORE_SRC) src/core/*.h
+	$(FUZZ_CC) $(FUZZ_CFLAGS) -I$(PG_INCLUDEDIR_SERVER) -o $@ $< test/fuzz/pg_stubs.c $(FUZZ_GLUE_fuzz_$*) -lm
+
+# Engine unit tests built with AddressSanitizer and UndefinedBehaviorSanitizer.
+SAN_CFLAGS = -std=c11 -O1 -g -fsanitize=address,undefined -fno-sanitize-recover=all \
+	-fno-omit-frame-pointer -Wall -Wextra -Wno-unused-parameter -Isrc/core
+
+test/core/%.san.bin: test/core/%.c test/core/testutil.h $(CORE_SRC) src/core/*.h
+	$(FUZZ_CC) $(SAN_CFLAGS) -o $@ $< $(CORE_SRC) $(if $(findstring geos,$*),-lgeos_c) -lcmocka -lm
+
+SAN_TESTS = test/core/test_engine.san.bin test/core/test_geos.san.bin
+
+.PHONY: fuzz fuzz-build check-sanitize check-valgrind load-test
+fuzz-build: $(FUZZ_TARGETS)
+
+# FUZZ_SECONDS per target (default 60); see test/fuzz/run.
+fuzz: fuzz-build
+	bash test/fuzz/run
+
+check-sanitize: $(SAN_TESTS)
+	@set -e; for t in $(SAN_TESTS); do ./$$t; done
+
+check-valgrind: test/core/test_engine.bin
+	valgrind -q --error-exitcode=99 --leak-check=full --errors-for-leak-kinds=all ./test/core/test_engine.bin
+
+# pgbench, 8 clients for 60 s over 10,000 trips, on a throwaway server (not in test/run).
+load-test:
+	bash test/load/run
+EXTRA_CLEAN += test/fuzz/*.bin

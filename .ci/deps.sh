@@ -11,6 +11,10 @@ FRECHET_PACKAGES=(
 	# PostGIS layer: PROJ's geodesics for the reference checks of the metres
 	libproj-dev
 )
+# reliability (issue 7): clang with libFuzzer and the sanitizers (Debian 12
+# ships libFuzzer in libclang-rt-14-dev), valgrind; pgbench comes with
+# postgresql-15.
+FRECHET_PACKAGES+=(clang libclang-rt-14-dev valgrind)
 
 missing=()
 for pkg in "${FRECHET_PACKAGES[@]}"; do

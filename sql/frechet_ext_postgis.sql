@@ -4,9 +4,11 @@
 -- ST_AsEWKB of each argument and decodes the EWKB itself.
 \echo Use "CREATE EXTENSION frechet_ext_postgis" to load this file. \quit
 
--- PostgreSQL 15 has no @extschema:postgis@; while this script runs, the
--- schema of postgis (a required extension) is on search_path after ours.
--- Make sure the type names below resolve to PostGIS's own types.
+-- PostgreSQL 15 has no @extschema:postgis@ (nor @extschema:frechet_ext@);
+-- while this script runs, the schemas of the required extensions are on
+-- search_path after ours.  Make sure the type names below resolve to
+-- PostGIS's own types; frechet_key is frechet_ext's.
+-- lint_sql: allow geometry geography frechet_key
 DO $$
 DECLARE
 	pg_nsp oid := (SELECT extnamespace FROM pg_catalog.pg_extension WHERE extname = 'postgis');

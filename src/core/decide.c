@@ -251,13 +251,19 @@ filters(const fr_prep *p, const fr_prep *q, double eps)
 			lo[2] = v->z < lo[2] ? v->z : lo[2];
 			hi[2] = v->z > hi[2] ? v->z : hi[2];
 		}
+		/*
+		 * Differences first, then a margin of a few ulps: the filter may only
+		 * reject what is surely farther than eps, never what rounding of
+		 * lo - eps would move across the line.
+		 */
 		for (size_t k = 0; k < a->n; k++)
 		{
 			const fr_pt *v = &a->v[k];
+			const double far = eps * (1 + 1e-12);
 
-			if (v->x < lo[0] - eps || v->x > hi[0] + eps ||
-				v->y < lo[1] - eps || v->y > hi[1] + eps ||
-				v->z < lo[2] - eps || v->z > hi[2] + eps)
+			if (lo[0] - v->x > far || v->x - hi[0] > far ||
+				lo[1] - v->y > far || v->y - hi[1] > far ||
+				lo[2] - v->z > far || v->z - hi[2] > far)
 				return 0;
 		}
 	}

@@ -33,33 +33,53 @@ point_to_curve(const fr_pt *pt, const fr_prep *c, double *pos)
 	return best;
 }
 
+/* Where paths may start in a partial sweep. */
+typedef enum start_rule
+{
+	START_ANYWHERE,				/* any free point of the left edge */
+	START_ORIGIN,				/* only (0,0) */
+	START_AT					/* only the left-edge point at a given position */
+} start_rule;
+
 /*
  * Reachability sweep for partial matching, trip p along x, route q along y.
- * With free_start, a path may start at any free point of the left edge;
- * otherwise only at (0,0).  *found: some point of the right edge is
- * reachable.  If best is not NULL it receives the reachable right-edge
- * position nearest to p's last vertex (lowest on ties); otherwise the sweep
- * stops at the first reachable right-edge point.
+ * Paths start as the rule says (START_AT: at position start_at of q, on the
+ * left edge).  *found: some point of the right edge is reachable.  If best
+ * is not NULL it receives the reachable right-edge position nearest to p's
+ * last vertex (lowest on ties); otherwise the sweep stops at the first
+ * reachable right-edge point.
  */
 static fr_status
 partial_sweep(const fr_env *env, const fr_prep *p, const fr_prep *q, double eps,
-			  bool free_start, double *row, bool *found, double *best,
-			  fr_stats *stats)
+			  start_rule rule, double start_at, double *row, bool *found,
+			  double *best, fr_stats *stats)
 {
 	const size_t n = p->n,
 				m = q->n;
 	const fr_pt *end = &p->v[n - 1];
 	double		best_leash = INFINITY;
 	bool		open = true;
+	size_t		start_row = 0;
+	double		start_t = 0;
 	fr_poll		poll;
 
 	*found = false;
 	if (stats)
 		stats->decisions++;
-	if (!free_start && fr_pt_dist(&p->v[0], &q->v[0]) > eps)
+	if (rule == START_AT)
+	{
+		start_row = start_at >= (double) (m - 1) ? m - 2 : (size_t) start_at;
+		start_t = start_at - (double) start_row;
+		if (start_t != 0)
+			open = false;		/* (0,0) is no start */
+	}
+	if (rule == START_ORIGIN && fr_pt_dist(&p->v[0], &q->v[0]) > eps)
 		return FR_OK;
 	fr_poll_init(&poll, env);
 	fr_bottom_edge(p, q, eps, row);
+	if (rule == START_AT && !(start_row == 0 && start_t == 0))
+		for (size_t i = 0; i + 1 < n; i++)
+			row[i] = FR_EMPTY;	/* the bottom edge is reachable only from (0,0) */
 	for (size_t j = 0; j + 1 < m; j++)
 	{
 		double		lr = FR_EMPTY,
@@ -68,9 +88,21 @@ partial_sweep(const fr_env *env, const fr_prep *p, const fr_prep *q, double eps,
 					full;
 		fr_status	st;
 
-		if (free_start)
+		if (rule == START_ANYWHERE)
 			lr = fr_left_edge(p, q, j, eps, &full);
-		else if (open)
+		else if (rule == START_AT && j == start_row && start_t != 0)
+		{
+			double		lo = fr_left_edge(p, q, j, eps, &full),
+						hi;
+
+			/* from the start point up the left edge while it is free */
+			fr_free_interval(&p->v[0], &q->v[j], &q->s[j], &q->v[j + 1], eps, &lo, &hi);
+			lr = start_t > lo ? start_t : lo;
+			if (lr > hi)
+				lr = FR_EMPTY;
+			open = lr != FR_EMPTY && hi == 1.0;
+		}
+		else if (open && (rule == START_ORIGIN || j >= start_row))
 		{
 			lr = fr_left_edge(p, q, j, eps, &open);
 			if (lr != 0.0)
@@ -117,7 +149,7 @@ partial_decide(const fr_env *env, const fr_prep *p, const fr_prep *q, double eps
 		*result = true;
 		return FR_OK;
 	}
-	return partial_sweep(env, p, q, eps, true, row, result, NULL, stats);
+	return partial_sweep(env, p, q, eps, START_ANYWHERE, 0, row, result, NULL, stats);
 }
 
 /* Partial distance and match where the trip or the route is a single point. */
@@ -217,48 +249,42 @@ fr_partial_match(const fr_env *env, const fr_curve *trip, const fr_curve *route,
 		st = FR_ENOMEM;
 		goto done;
 	}
-	st = partial_sweep(env, &p, &q, eps, true, row, found, &end, stats);
+	st = partial_sweep(env, &p, &q, eps, START_ANYWHERE, 0, row, found, &end, stats);
 	if (st != FR_OK || !*found)
 		goto done;
 
-	/* backwards from the chosen end: the trip and the route up to it, reversed */
+	/*
+	 * Backwards from the chosen end: both curves reversed whole (their
+	 * vertices exactly, no interpolated point), paths starting at the end
+	 * point only.
+	 */
 	st = fr_prep_subcurve(env, &p, 0, (double) (p.n - 1), true, &rp, &rp_pos);
 	if (st == FR_OK)
-		st = fr_prep_subcurve(env, &q, 0, end, true, &rq, &rq_pos);
+		st = fr_prep_subcurve(env, &q, 0, (double) (q.n - 1), true, &rq, &rq_pos);
 	if (st != FR_OK)
 		goto done;
-	if (rq.n == 1)
-		start = end;
-	else
 	{
 		bool		back = false;
 		double		slack = 0;
 
 		/*
 		 * Rounding may differ on reversed segments: widen eps by a few ulps
-		 * at a time until the reversed sweep agrees (it always does within
-		 * 1e-12 relative; the distance below is computed exactly anyway).
+		 * at a time until the reversed sweep agrees (the distance below is
+		 * computed exactly anyway).
 		 */
-		for (int tries = 0; tries < 8 && !back; tries++, slack = slack == 0 ? 4 * DBL_EPSILON : slack * 8)
+		for (int tries = 0; tries < 12 && !back; tries++, slack = slack == 0 ? 4 * DBL_EPSILON : slack * 8)
 		{
 			double		rpos = 0;
 
-			st = partial_sweep(env, &rp, &rq, eps * (1 + slack), false, row, &back, &rpos, stats);
+			st = partial_sweep(env, &rp, &rq, eps * (1 + slack) + slack * fr_pt_dist(&p.v[0], &q.v[0]),
+							   START_AT, (double) (q.n - 1) - end, row, &back, &rpos, stats);
 			if (st != FR_OK)
 				goto done;
 			if (back)
-			{
-				size_t		k = (size_t) rpos;
-				double		t = rpos - (double) k;
-
-				start = k + 1 < rq.n ? rq_pos[k] + t * (rq_pos[k + 1] - rq_pos[k]) : rq_pos[k];
-			}
+				start = (double) (q.n - 1) - rpos;
 		}
 		if (!back)
-		{
-			st = FR_EINVAL;		/* cannot happen: the forward sweep found a path */
-			goto done;
-		}
+			start = 0;			/* rounding beyond any slack: the whole prefix */
 	}
 	if (start > end)
 		start = end;

@@ -1,0 +1,125 @@
+#!/usr/bin/env bash
+# Upgrades: for every extension of this tree (./*.control) and every older
+# version the server offers (pg_available_extension_versions, fed by the
+# sql/<ext>--<version>.sql and sql/<ext>--<from>--<to>.sql files that
+# `make install` copies), CREATE EXTENSION ... VERSION '<old>' followed by
+# ALTER EXTENSION ... UPDATE must give the same schema as a fresh install.
+# New releases are covered as soon as their scripts exist; nothing here
+# names a version.
+#
+# "Schema" is pg_dump --schema-only --binary-upgrade of the database (which
+# writes out every member of an extension: functions with all their
+# attributes, operators, types, operator classes, casts, comments, grants
+# and membership), less the lines that carry OIDs or per-run keys.
+#
+# The comparison itself is tested on a synthetic older version built from
+# the current install script (its COMMENT statements moved into an upgrade
+# script): the correct upgrade must compare equal, and one that forgets a
+# COMMENT, or a fresh install with one changed COST, must not.  Its two
+# scripts are put into the server's extension directory for the run and
+# removed afterwards (run under test/run's install lock).
+set -uo pipefail
+cd "$(dirname "$0")"
+source ./lib.sh
+ROOT=$(cd ../.. && pwd)
+OUT=$(mktemp -d /tmp/frechet_upgrade.XXXXXX)
+PG_BIN=${PG_BIN:-/usr/lib/postgresql/15/bin}
+SHAREDIR=$("${PG_CONFIG:-$PG_BIN/pg_config}" --sharedir)/extension
+DB=frechet_rel_upgrade
+
+# The schema of database $1, normalised, on stdout.
+schema_of() {
+	"$PG_BIN/pg_dump" --schema-only --binary-upgrade -d "$1" | grep -vE '^--|^$|^\\(un)?restrict |binary_upgrade_set_next_|binary_upgrade_set_record_init_privs'
+}
+
+# Installs $1 (extension) at version $2 ('' for the default) into a fresh
+# database and, when $3 is "update", updates it to the default version.
+install_into() {
+	local ext=$1 version=$2 mode=$3
+	rpsql -d postgres -c "SET client_min_messages = warning" -c "DROP DATABASE IF EXISTS $DB" \
+		-c "CREATE DATABASE $DB" >/dev/null || return 1
+	rpsql -d "$DB" -c "CREATE EXTENSION $ext ${version:+VERSION '$version'} CASCADE" >/dev/null || return 1
+	if [ "$mode" = update ]; then
+		rpsql -d "$DB" -c "ALTER EXTENSION $ext UPDATE" >/dev/null || return 1
+	fi
+}
+
+# Compares the schema after "old version + update" with a fresh install.
+check_update() {
+	local ext=$1 from=$2 default=$3 path
+	path=$(rpsql -d "$DB" -c "SELECT path FROM pg_extension_update_paths('$ext') WHERE source = '$from' AND target = '$default'")
+	if ! install_into "$ext" "$from" update; then
+		tap 1 "upgrade: $ext $from -> $default: CREATE EXTENSION VERSION '$from' + ALTER EXTENSION UPDATE failed"
+		return
+	fi
+	schema_of "$DB" >"$OUT/$ext-$from.schema"
+	if diff -u "$OUT/$ext.fresh" "$OUT/$ext-$from.schema" >"$OUT/$ext-$from.diff"; then
+		tap 0 "upgrade: $ext $from -> $default (path $path) gives the schema of a fresh install"
+	else
+		tap 1 "upgrade: $ext $from -> $default (path $path) differs from a fresh install:"
+		head -40 "$OUT/$ext-$from.diff" | sed 's/^/    /'
+	fi
+}
+
+for control in "$ROOT"/*.control; do
+	ext=$(basename "$control" .control)
+	default=$(sed -n "s/^default_version *= *'\(.*\)'.*/\1/p" "$control")
+	if ! install_into "$ext" "" fresh 2>"$OUT/$ext.err"; then
+		if grep -q 'is not available' "$OUT/$ext.err"; then
+			echo "# upgrade: $ext skipped: a required extension is not installed"
+		else
+			tap 1 "upgrade: $ext: fresh install failed: $(head -1 "$OUT/$ext.err")"
+		fi
+		continue
+	fi
+	schema_of "$DB" >"$OUT/$ext.fresh"
+	mapfile -t older < <(rpsql -d "$DB" -c "SELECT version FROM pg_available_extension_versions WHERE name = '$ext' AND version <> '$default' AND version NOT LIKE '%selftest%' ORDER BY version")
+	if [ "${#older[@]}" -eq 0 ]; then
+		echo "# upgrade: $ext: no released version before $default yet"
+	fi
+	for from in "${older[@]}"; do
+		check_update "$ext" "$from" "$default"
+	done
+done
+
+# The comparison tested on a synthetic older version of frechet_ext.
+ext=frechet_ext
+default=$(sed -n "s/^default_version *= *'\(.*\)'.*/\1/p" "$ROOT/$ext.control")
+base=$default-selftest
+script="$ROOT/sql/$ext.sql"
+perl -0777 -ne 'print join "", grep { !/^\s*COMMENT ON /m || /\\echo/ } split /(?<=;\n)/' "$script" \
+	>"$SHAREDIR/$ext--$base.sql"
+{
+	echo "\\echo Use \"ALTER EXTENSION $ext UPDATE\" to load this file. \\quit"
+	perl -0777 -ne 'print join "", grep { /^\s*COMMENT ON /m && !/\\echo/ } split /(?<=;\n)/' "$script"
+} >"$SHAREDIR/$ext--$base--$default.sql"
+cleanup() {
+	rm -f "$SHAREDIR/$ext--$base.sql" "$SHAREDIR/$ext--$base--$default.sql"
+}
+trap cleanup EXIT
+if grep -q '^COMMENT ON' "$SHAREDIR/$ext--$base--$default.sql" && install_into "$ext" "" fresh; then
+	schema_of "$DB" >"$OUT/$ext.fresh"
+	check_update "$ext" "$base" "$default"
+	# the same upgrade, one COMMENT short: must differ
+	perl -0777 -i -pe 's/\nCOMMENT ON [^;]*;\n/\n/' "$SHAREDIR/$ext--$base--$default.sql"
+	ok=1
+	if install_into "$ext" "$base" update; then
+		schema_of "$DB" >"$OUT/short.schema"
+		cmp -s "$OUT/$ext.fresh" "$OUT/short.schema" || ok=0
+	fi
+	tap $ok "upgrade: the comparison tells an upgrade script that forgets a COMMENT from a fresh install"
+	# a fresh install with one COST changed: must differ
+	ok=1
+	alter=$(rpsql -d "$DB" -c "SELECT format('ALTER FUNCTION %s COST 1', objid::regprocedure) FROM pg_depend WHERE refobjid = (SELECT oid FROM pg_extension WHERE extname = '$ext') AND classid = 'pg_proc'::regclass AND deptype = 'e' ORDER BY objid LIMIT 1")
+	if install_into "$ext" "" fresh && rpsql -d "$DB" -c "$alter" >/dev/null; then
+		schema_of "$DB" >"$OUT/cost.schema"
+		cmp -s "$OUT/$ext.fresh" "$OUT/cost.schema" || ok=0
+	fi
+	tap $ok "upgrade: the comparison tells a changed COST ($alter) from a fresh install"
+else
+	tap 1 "upgrade: synthetic older version of $ext could not be built"
+fi
+
+rpsql -d postgres -c "DROP DATABASE IF EXISTS $DB" >/dev/null 2>&1
+rm -rf "$OUT"
+[ "$TAP_FAILED" -eq 0 ]
