@@ -202,6 +202,7 @@ fr_decide_plain(const fr_env *env, const fr_curve *p, const fr_curve *q,
 	st = fr_prepare_pair(env, p, q, &pp, &pq);
 	if (st != FR_OK)
 		return st;
+	eps = fr_to_local(&pp, eps);
 	row = fr_alloc(env, (pp.n > 1 ? pp.n - 1 : 1) * sizeof(double));
 	if (row == NULL)
 		st = FR_ENOMEM;
@@ -287,6 +288,7 @@ fr_decide(const fr_env *env, const fr_curve *p, const fr_curve *q,
 	st = fr_prepare_pair(env, p, q, &pp, &pq);
 	if (st != FR_OK)
 		return st;
+	eps = fr_to_local(&pp, eps);
 	if (isinf(eps) || pp.n == 1 || pq.n == 1)
 	{
 		double		row;

@@ -66,7 +66,7 @@ fr_discrete_distance(const fr_env *env, const fr_curve *p, const fr_curve *q,
 		}
 	}
 	if (st == FR_OK)
-		*result = row[cols->n - 1];
+		*result = fr_from_local(&pp, row[cols->n - 1]);
 	fr_free(env, row);
 	fr_release_pair(env, &pp, &pq);
 	return st;

@@ -389,6 +389,7 @@ static fr_status
 prep_through(const fr_env *env, const fr_prep *c, const size_t *keep, size_t k, fr_prep *out)
 {
 	out->n = k;
+	out->scale = c->scale;
 	out->s = NULL;
 	out->v = fr_alloc(env, k * sizeof(fr_pt));
 	if (out->v == NULL)
@@ -635,6 +636,8 @@ fr_distance(const fr_env *env, const fr_curve *p, const fr_curve *q,
 	if (st != FR_OK)
 		return st;
 	st = fr_distance_prepared(env, &pp, &pq, result, stats);
+	if (st == FR_OK)
+		*result = fr_from_local(&pp, *result);
 	fr_release_pair(env, &pp, &pq);
 	return st;
 }
@@ -655,6 +658,7 @@ fr_distance_plain(const fr_env *env, const fr_curve *p, const fr_curve *q,
 	if (pp.n == 1 || pq.n == 1)
 	{
 		*result = pp.n == 1 ? fr_point_curve_dist(&pp.v[0], &pq) : fr_point_curve_dist(&pq.v[0], &pp);
+		*result = fr_from_local(&pp, *result);
 		fr_release_pair(env, &pp, &pq);
 		return FR_OK;
 	}
@@ -663,6 +667,8 @@ fr_distance_plain(const fr_env *env, const fr_curve *p, const fr_curve *q,
 		st = FR_ENOMEM;
 	else
 		st = reference_distance(env, &pp, &pq, row, result, stats);
+	if (st == FR_OK)
+		*result = fr_from_local(&pp, *result);
 	fr_free(env, row);
 	fr_release_pair(env, &pp, &pq);
 	return st;

@@ -672,6 +672,7 @@ fr_excursions(const fr_env *env, const fr_curve *trip, const fr_curve *route,
 	st = fr_prepare_pair(env, trip, route, &t, &r);
 	if (st != FR_OK)
 		return st;
+	eps = fr_to_local(&t, eps);
 	n = t.n;
 	m = r.n;
 	row = fr_alloc(env, (n + m) * sizeof(double));
@@ -787,13 +788,19 @@ done:
 	fr_free(env, off);
 	fr_free(env, y);
 	fr_free(env, row);
-	fr_release_pair(env, &t, &r);
 	if (st == FR_OK && k > 0)
 	{
+		/* lengths back in input units */
+		for (size_t i = 0; i < k; i++)
+		{
+			res[i].max_leash = fr_from_local(&t, res[i].max_leash);
+			res[i].trip_length = fr_from_local(&t, res[i].trip_length);
+		}
 		*out = res;
 		*count = k;
 	}
-	else
+	fr_release_pair(env, &t, &r);
+	if (!(st == FR_OK && k > 0))
 		fr_free(env, res);
 	return st;
 }

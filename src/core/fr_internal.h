@@ -32,7 +32,29 @@ typedef struct fr_prep
 	fr_pt	   *v;				/* n vertices */
 	fr_seg	   *s;				/* n - 1 segments (NULL when n == 1) */
 	size_t		n;
+	double		scale;			/* local units per input unit: a power of two */
 } fr_prep;
+
+/* A length in input units as local units, and back (exact: powers of two). */
+static inline double
+fr_to_local(const fr_prep *c, double len)
+{
+	return len * c->scale;
+}
+
+static inline double
+fr_from_local(const fr_prep *c, double len)
+{
+	double		r = len / c->scale;
+
+	/*
+	 * Exact unless the result is subnormal; then round up, so that a
+	 * distance stays a threshold the deciders accept.
+	 */
+	if (r * c->scale < len)
+		r = nextafter(r, INFINITY);
+	return r;
+}
 
 /* Marker for an empty reachable interval: any value above 1 works. */
 #define FR_EMPTY 2.0

@@ -97,9 +97,11 @@ axis_range(const fr_curve *c, int axis, double *lo, double *hi)
 
 /* Copies one curve into the local frame and computes its segments. */
 static fr_status
-prepare_one(const fr_env *env, const fr_curve *c, const double *origin, fr_prep *out)
+prepare_one(const fr_env *env, const fr_curve *c, const double *origin, double scale,
+			fr_prep *out)
 {
 	out->n = c->n;
+	out->scale = scale;
 	out->v = fr_alloc(env, c->n * sizeof(fr_pt));
 	out->s = NULL;
 	if (out->v == NULL)
@@ -108,9 +110,9 @@ prepare_one(const fr_env *env, const fr_curve *c, const double *origin, fr_prep 
 	{
 		const double *src = c->coords + i * c->dim;
 
-		out->v[i].x = src[0] - origin[0];
-		out->v[i].y = src[1] - origin[1];
-		out->v[i].z = c->dim > 2 ? src[2] - origin[2] : 0.0;
+		out->v[i].x = (src[0] - origin[0]) * scale;
+		out->v[i].y = (src[1] - origin[1]) * scale;
+		out->v[i].z = c->dim > 2 ? (src[2] - origin[2]) * scale : 0.0;
 	}
 	return fr_prep_segments(env, out);
 }
@@ -222,6 +224,7 @@ fr_prep_subcurve(const fr_env *env, const fr_prep *c, double from, double to,
 	for (size_t i = 0; i < n; i++)
 		out->v[i] = fr_prep_point_at(c, pos[i]);
 	out->n = n;
+	out->scale = c->scale;
 	*orig = pos;
 	return fr_prep_segments(env, out);
 }
@@ -236,16 +239,24 @@ fr_release_prep(const fr_env *env, fr_prep *c)
 	c->s = NULL;
 }
 
-/* Prepares both curves in one local frame. */
+/*
+ * Prepares both curves in one local frame.  Tiny curves (an extent below
+ * 2^-20 input units) are also scaled up by a power of two, so that squares
+ * of coordinate differences never underflow; a power of two scales exactly,
+ * and lengths convert back exactly (fr_to_local, fr_from_local).
+ */
 fr_status
 fr_prepare_pair(const fr_env *env, const fr_curve *p, const fr_curve *q,
 				fr_prep *pp, fr_prep *pq)
 {
-	double		origin[3];
+	double		origin[3],
+				extent = 0,
+				scale = 1;
 	fr_status	st;
 
 	memset(pp, 0, sizeof(*pp));
 	memset(pq, 0, sizeof(*pq));
+	pp->scale = pq->scale = 1;
 	if (p->n < 1 || q->n < 1 || p->dim != q->dim || p->dim < 2 || p->dim > 3)
 		return FR_EINVAL;
 	for (int axis = 0; axis < 3; axis++)
@@ -256,10 +267,19 @@ fr_prepare_pair(const fr_env *env, const fr_curve *p, const fr_curve *q,
 		axis_range(p, axis, &lo, &hi);
 		axis_range(q, axis, &lo, &hi);
 		origin[axis] = exact_origin(lo, hi);
+		/* the largest local coordinate: the origin may be 0 */
+		extent = fmax(extent, fmax(fabs(hi - origin[axis]), fabs(lo - origin[axis])));
 	}
-	st = prepare_one(env, p, origin, pp);
+	if (extent > 0 && extent < 0x1p-20)
+	{
+		/* at most 2^1000: a subnormal extent must not overflow the scale */
+		int			e = -ilogb(extent);
+
+		scale = ldexp(1.0, e < 1000 ? e : 1000);
+	}
+	st = prepare_one(env, p, origin, scale, pp);
 	if (st == FR_OK)
-		st = prepare_one(env, q, origin, pq);
+		st = prepare_one(env, q, origin, scale, pq);
 	if (st != FR_OK)
 		fr_release_pair(env, pp, pq);
 	return st;

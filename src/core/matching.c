@@ -394,7 +394,9 @@ fr_matching(const fr_env *env, const fr_curve *p, const fr_curve *q, double eps,
 		if (st != FR_OK)
 			goto done;
 	}
-	*used_eps = eps;
+	else
+		eps = fr_to_local(&pp, eps);
+	*used_eps = fr_from_local(&pp, eps);
 	w.eps = eps;
 	if (nx == 1 || ny == 1)
 	{
@@ -437,10 +439,15 @@ done:
 	fr_free(env, w.blk_bottom);
 	fr_free(env, w.blk_left);
 	fr_free(env, row);
-	fr_release_pair(env, &pp, &pq);
 	if (st == FR_OK && *found)
+	{
+		/* leashes back in input units */
+		for (size_t k = 0; k < *count; k++)
+			pts[k].leash = fr_from_local(&pp, pts[k].leash);
 		*out = pts;
-	else
+	}
+	fr_release_pair(env, &pp, &pq);
+	if (!(st == FR_OK && *found))
 	{
 		fr_free(env, pts);
 		*found = st == FR_OK && *found;

@@ -187,7 +187,7 @@ fr_partial_distance(const fr_env *env, const fr_curve *trip, const fr_curve *rou
 		return st;
 	if (p.n == 1 || q.n == 1)
 	{
-		*result = degenerate_partial(&p, &q, &from, &to);
+		*result = fr_from_local(&p, degenerate_partial(&p, &q, &from, &to));
 		fr_release_pair(env, &p, &q);
 		return FR_OK;
 	}
@@ -203,6 +203,8 @@ fr_partial_distance(const fr_env *env, const fr_curve *trip, const fr_curve *rou
 	st = fr_threshold_search(env, &p, &q, partial_decide, lo,
 							 fr_greedy_upper_bound(&p, &q), row, result, stats);
 	fr_free(env, row);
+	if (st == FR_OK)
+		*result = fr_from_local(&p, *result);
 	fr_release_pair(env, &p, &q);
 	return st;
 }
@@ -236,10 +238,12 @@ fr_partial_match(const fr_env *env, const fr_curve *trip, const fr_curve *route,
 	st = fr_prepare_pair(env, trip, route, &p, &q);
 	if (st != FR_OK)
 		return st;
+	eps = fr_to_local(&p, eps);
 	if (p.n == 1 || q.n == 1)
 	{
 		*distance = degenerate_partial(&p, &q, route_from, route_to);
 		*found = *distance <= eps;
+		*distance = fr_from_local(&p, *distance);
 		fr_release_pair(env, &p, &q);
 		return FR_OK;
 	}
@@ -304,6 +308,8 @@ done:
 	fr_free(env, rq_pos);
 	fr_free(env, sub_pos);
 	fr_free(env, row);
+	if (st == FR_OK && *found)
+		*distance = fr_from_local(&p, *distance);
 	fr_release_pair(env, &p, &q);
 	if (st != FR_OK)
 		*found = false;

@@ -79,6 +79,7 @@ fr_simplify(const fr_env *env, const fr_curve *c, double tol, size_t **keep, siz
 	st = fr_prepare_pair(env, c, &none, &p, &unused);
 	if (st != FR_OK)
 		return st;
+	tol = fr_to_local(&p, tol);
 	out = fr_alloc(env, c->n * sizeof(size_t));
 	row = fr_alloc(env, c->n * sizeof(double));
 	if (out == NULL || row == NULL)

@@ -334,6 +334,42 @@ large_coordinates_keep_precision(void **state)
 }
 
 /*
+ * Our robustness contract: tiny tracks keep full precision too.  Scaling a
+ * pair by a power of two scales its distance exactly (common practice:
+ * the distance is homogeneous), down to 2^-700 where squares of the raw
+ * differences would underflow.
+ */
+static void
+tiny_coordinates_keep_precision(void **state)
+{
+	const double pt[] = {0, 0},
+				far[] = {1e-200, 0};
+
+	assert_true(dist2(pt, 1, far, 1) == 1e-200);
+	assert_true(discrete2(pt, 1, far, 1) == 1e-200);
+	for (int k = 0; k < 50; k++)
+	{
+		size_t		n = 2 + test_rand64() % 20,
+					m = 2 + test_rand64() % 20;
+		double	   *a = test_walk(n, 0, 0, 5),
+				   *b = test_walk(m, 1, 1, 5),
+				   *ta = malloc(2 * n * sizeof(double)),
+				   *tb = malloc(2 * m * sizeof(double));
+
+		for (size_t i = 0; i < 2 * n; i++)
+			ta[i] = ldexp(a[i], -700);
+		for (size_t i = 0; i < 2 * m; i++)
+			tb[i] = ldexp(b[i], -700);
+		assert_true(dist2(ta, n, tb, m) == ldexp(dist2(a, n, b, m), -700));
+		assert_true(discrete2(ta, n, tb, m) == ldexp(discrete2(a, n, b, m), -700));
+		free(a);
+		free(b);
+		free(ta);
+		free(tb);
+	}
+}
+
+/*
  * The free interval of a point against a segment (Alt & Godau 1995,
  * section 2) checked by sampling: points well inside the disk lie inside
  * the interval and points well outside lie outside; also near 1e7.
@@ -602,6 +638,7 @@ main(void)
 		cmocka_unit_test(critical_values_of_type_b_and_c),
 		cmocka_unit_test(one_point_curves),
 		cmocka_unit_test(large_coordinates_keep_precision),
+		cmocka_unit_test(tiny_coordinates_keep_precision),
 		cmocka_unit_test(free_interval_matches_sampled_distances),
 		cmocka_unit_test(free_interval_at_tangency_is_a_point),
 		cmocka_unit_test(discrete_matches_its_definition),
