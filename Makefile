@@ -104,6 +104,7 @@ PG_INCLUDEDIR_SERVER := $(shell $(PG_CONFIG) --includedir-server)
 FUZZ_CFLAGS += $(if $(FUZZ_STRICT),-DFUZZ_STRICT)
 FUZZ_TARGETS = $(patsubst %.c,%.bin,$(wildcard test/fuzz/fuzz_*.c))
 FUZZ_GLUE_fuzz_point_array = src/point_array.c
+FUZZ_GLUE_fuzz_ewkb = src/ewkb.c
 
 # The engine's work is floating point: comparison tracing (trace-cmp) would
 # cost two thirds of the time and guide little, so it is off there.

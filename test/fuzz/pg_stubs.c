@@ -146,3 +146,42 @@ ArrayGetNItems(int ndim, const int *dims)
 	}
 	return (int) ret;
 }
+
+/*
+ * palloc and pfree as malloc and free, remembering what is outstanding so
+ * that stub_palloc_reset can free it all, as the server frees a memory
+ * context after an ERROR (the EWKB decoder allocates before it validates).
+ */
+#define STUB_MAX_ALLOCS 64
+static void *stub_allocs[STUB_MAX_ALLOCS];
+static int	stub_nallocs;
+
+void *
+palloc(Size size)
+{
+	void	   *p = malloc(size > 0 ? size : 1);
+
+	if (p == NULL || stub_nallocs == STUB_MAX_ALLOCS)
+		abort();
+	stub_allocs[stub_nallocs++] = p;
+	return p;
+}
+
+void
+pfree(void *pointer)
+{
+	for (int i = 0; i < stub_nallocs; i++)
+		if (stub_allocs[i] == pointer)
+		{
+			stub_allocs[i] = stub_allocs[--stub_nallocs];
+			break;
+		}
+	free(pointer);
+}
+
+void
+stub_palloc_reset(void)
+{
+	while (stub_nallocs > 0)
+		free(stub_allocs[--stub_nallocs]);
+}

@@ -23,4 +23,7 @@ extern stub_error_data stub_error;
 /* Where an ERROR long-jumps to; set around each guarded call. */
 extern sigjmp_buf *stub_catch;
 
+/* Frees every palloc'd block still outstanding (a memory context reset). */
+extern void stub_palloc_reset(void);
+
 #endif							/* FRECHET_PG_STUBS_H */
