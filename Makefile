@@ -36,6 +36,9 @@ OBJS += src/ewkb.o src/geo_glue.o src/geo_witness.o
 DATA_built += sql/frechet_ext_postgis--$(EXTVERSION).sql
 EXTRA_CLEAN += sql/frechet_ext_postgis--$(EXTVERSION).sql
 
+# Maps and dashboards: track pieces and GeoJSON (SQL bodies in the install scripts).
+OBJS += src/track_piece.o
+
 # Debian installs several majors side by side; prefer 15, the supported one.
 PG_CONFIG ?= $(firstword $(wildcard /usr/lib/postgresql/15/bin/pg_config) pg_config)
 PGXS := $(shell $(PG_CONFIG) --pgxs)
