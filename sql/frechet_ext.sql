@@ -283,19 +283,19 @@ LANGUAGE sql IMMUTABLE PARALLEL SAFE COST 300000
 BEGIN ATOMIC
 	SELECT pg_catalog.jsonb_build_object(
 		'type', 'FeatureCollection',
-		'properties', pg_catalog.jsonb_build_object(
-			'distance', bn.leash,
+		'frechet', pg_catalog.jsonb_build_object(
+			'distance', dd.d,
 			'epsilon', epsilon,
 			'within_epsilon', @extschema@.frechet_at_most(a, b, epsilon),
 			'excursions', pg_catalog.jsonb_array_length(ex.features)),
 		'features', pg_catalog.jsonb_build_array(
 			pg_catalog.jsonb_build_object('type', 'Feature',
 				'properties', pg_catalog.jsonb_build_object('role', 'a', 'vertices', pg_catalog.cardinality(a),
-					'distance', bn.leash, 'epsilon', epsilon),
+					'distance', dd.d, 'epsilon', epsilon),
 				'geometry', @extschema@.frechet_track_geojson(a)),
 			pg_catalog.jsonb_build_object('type', 'Feature',
 				'properties', pg_catalog.jsonb_build_object('role', 'b', 'vertices', pg_catalog.cardinality(b),
-					'distance', bn.leash, 'epsilon', epsilon),
+					'distance', dd.d, 'epsilon', epsilon),
 				'geometry', @extschema@.frechet_track_geojson(b)),
 			pg_catalog.jsonb_build_object('type', 'Feature',
 				'properties', pg_catalog.jsonb_build_object('role', 'leashes', 'count', ls.n),
@@ -309,7 +309,8 @@ BEGIN ATOMIC
 						pg_catalog.jsonb_build_array(bn.a_point[0], bn.a_point[1]),
 						pg_catalog.jsonb_build_array(bn.b_point[0], bn.b_point[1])))))
 			OPERATOR(pg_catalog.||) ex.features)
-	FROM @extschema@.frechet_bottleneck(a, b) AS bn,
+	FROM (SELECT @extschema@.frechet_distance(a, b) AS d) AS dd,
+		@extschema@.frechet_bottleneck(a, b) AS bn,
 		LATERAL (SELECT pg_catalog.count(*) AS n,
 				pg_catalog.jsonb_agg(pg_catalog.jsonb_build_array(
 					pg_catalog.jsonb_build_array(m.a_point[0], m.a_point[1]),
@@ -328,4 +329,4 @@ BEGIN ATOMIC
 END;
 
 COMMENT ON FUNCTION @extschema@.frechet_geojson(pg_catalog.point[], pg_catalog.point[], pg_catalog.float8) IS
-'a GeoJSON FeatureCollection of a pair for a map: both tracks (roles a, b), the leashes of an optimal matching, the bottleneck leash and, with epsilon, the excursions of a from b; properties distance and epsilon; coordinates as stored';
+'a GeoJSON FeatureCollection of a pair for a map: both tracks (roles a, b), the leashes of an optimal matching, the bottleneck leash and, with epsilon, the excursions of a from b; a foreign member frechet with distance and epsilon (a FeatureCollection may not have properties); coordinates as stored';

@@ -264,8 +264,8 @@ LANGUAGE sql IMMUTABLE PARALLEL SAFE COST 300000
 BEGIN ATOMIC
 	SELECT pg_catalog.jsonb_build_object(
 		'type', 'FeatureCollection',
-		'properties', pg_catalog.jsonb_build_object(
-			'distance', bn.leash,
+		'frechet', pg_catalog.jsonb_build_object(
+			'distance', dd.d,
 			'epsilon', epsilon,
 			'within_epsilon', @extschema@.frechet_at_most(a, b, epsilon),
 			'excursions', pg_catalog.jsonb_array_length(ex.features),
@@ -273,11 +273,11 @@ BEGIN ATOMIC
 		'features', pg_catalog.jsonb_build_array(
 			pg_catalog.jsonb_build_object('type', 'Feature',
 				'properties', pg_catalog.jsonb_build_object('role', 'a', 'vertices', ST_NPoints(a),
-					'distance', bn.leash, 'epsilon', epsilon),
+					'distance', dd.d, 'epsilon', epsilon),
 				'geometry', @extschema@.frechet_geometry_geojson(a)),
 			pg_catalog.jsonb_build_object('type', 'Feature',
 				'properties', pg_catalog.jsonb_build_object('role', 'b', 'vertices', ST_NPoints(b),
-					'distance', bn.leash, 'epsilon', epsilon),
+					'distance', dd.d, 'epsilon', epsilon),
 				'geometry', @extschema@.frechet_geometry_geojson(b)),
 			pg_catalog.jsonb_build_object('type', 'Feature',
 				'properties', pg_catalog.jsonb_build_object('role', 'leashes', 'count', ST_NumGeometries(ls.g)),
@@ -287,7 +287,8 @@ BEGIN ATOMIC
 					'a_pos', bn.a_pos, 'b_pos', bn.b_pos),
 				'geometry', @extschema@.frechet_geometry_geojson(ST_MakeLine(bn.a_point, bn.b_point))))
 			OPERATOR(pg_catalog.||) ex.features)
-	FROM @extschema@.frechet_bottleneck(a, b) AS bn,
+	FROM (SELECT @extschema@.frechet_distance(a, b) AS d) AS dd,
+		@extschema@.frechet_bottleneck(a, b) AS bn,
 		LATERAL (SELECT @extschema@.frechet_matching_leashes(a, b) AS g) AS ls,
 		LATERAL (SELECT COALESCE(pg_catalog.jsonb_agg(pg_catalog.jsonb_build_object('type', 'Feature',
 					'properties', pg_catalog.jsonb_build_object('role', 'excursion', 'number', x.n,
@@ -309,8 +310,8 @@ LANGUAGE sql IMMUTABLE PARALLEL SAFE COST 300000
 BEGIN ATOMIC
 	SELECT pg_catalog.jsonb_build_object(
 		'type', 'FeatureCollection',
-		'properties', pg_catalog.jsonb_build_object(
-			'distance', bn.leash,
+		'frechet', pg_catalog.jsonb_build_object(
+			'distance', dd.d,
 			'epsilon', epsilon,
 			'within_epsilon', @extschema@.frechet_at_most(a, b, epsilon),
 			'excursions', pg_catalog.jsonb_array_length(ex.features),
@@ -318,11 +319,11 @@ BEGIN ATOMIC
 		'features', pg_catalog.jsonb_build_array(
 			pg_catalog.jsonb_build_object('type', 'Feature',
 				'properties', pg_catalog.jsonb_build_object('role', 'a', 'vertices', ST_NPoints(a::geometry),
-					'distance', bn.leash, 'epsilon', epsilon),
+					'distance', dd.d, 'epsilon', epsilon),
 				'geometry', ST_AsGeoJSON(a, 9, 0)::pg_catalog.jsonb),
 			pg_catalog.jsonb_build_object('type', 'Feature',
 				'properties', pg_catalog.jsonb_build_object('role', 'b', 'vertices', ST_NPoints(b::geometry),
-					'distance', bn.leash, 'epsilon', epsilon),
+					'distance', dd.d, 'epsilon', epsilon),
 				'geometry', ST_AsGeoJSON(b, 9, 0)::pg_catalog.jsonb),
 			pg_catalog.jsonb_build_object('type', 'Feature',
 				'properties', pg_catalog.jsonb_build_object('role', 'leashes', 'count', ST_NumGeometries(ls.g::geometry)),
@@ -332,7 +333,8 @@ BEGIN ATOMIC
 					'a_pos', bn.a_pos, 'b_pos', bn.b_pos),
 				'geometry', ST_AsGeoJSON(ST_MakeLine(bn.a_point::geometry, bn.b_point::geometry), 9, 0)::pg_catalog.jsonb))
 			OPERATOR(pg_catalog.||) ex.features)
-	FROM @extschema@.frechet_bottleneck(a, b) AS bn,
+	FROM (SELECT @extschema@.frechet_distance(a, b) AS d) AS dd,
+		@extschema@.frechet_bottleneck(a, b) AS bn,
 		LATERAL (SELECT @extschema@.frechet_matching_leashes(a, b) AS g) AS ls,
 		LATERAL (SELECT COALESCE(pg_catalog.jsonb_agg(pg_catalog.jsonb_build_object('type', 'Feature',
 					'properties', pg_catalog.jsonb_build_object('role', 'excursion', 'number', x.n,
