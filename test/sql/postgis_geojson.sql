@@ -44,8 +44,11 @@ SELECT id, (jg->'frechet') - 'srid' = jp->'frechet' AS summary_same, jg->'freche
        (SELECT array_agg(f->'properties' ORDER BY o) FROM jsonb_array_elements(jg->'features') WITH ORDINALITY e(f, o))
        = (SELECT array_agg(f->'properties' ORDER BY o) FROM jsonb_array_elements(jp->'features') WITH ORDINALITY e(f, o))
          AS properties_same,
-       (SELECT count(*) FROM pg_temp.positions(jg) WHERE gtype <> 'Point')
-       = (SELECT count(*) FROM pg_temp.positions(jp) WHERE gtype <> 'Point') AS count_same,
+       (SELECT count(*) FROM pg_temp.positions(jg) g
+        WHERE g.gtype = (SELECT min(p.gtype) FROM pg_temp.positions(jp) p WHERE p.feature = g.feature))
+       = (SELECT count(*) FROM pg_temp.positions(jp) p
+          WHERE p.gtype = (SELECT min(g.gtype) FROM pg_temp.positions(jg) g WHERE g.feature = p.feature))
+         AS count_same,
        (SELECT string_agg(DISTINCT g.feature || ': ' || g.gtype || ' / ' || p.gtype, ', ')
         FROM pg_temp.positions(jg) g JOIN pg_temp.positions(jp) p USING (feature, seq)
         WHERE g.gtype <> p.gtype) AS types_differ,
