@@ -44,7 +44,7 @@ SELECT w.trip_id, w.frechet_m,
 %12$s
 <path class="trip" d="%13$s"/>
 <path class="bottleneck" d="%14$s"/>
-<text class="label" x="%15$s" y="%16$s" style="font-size: %26$spx">line start</text>
+<text class="label" x="%15$s" y="%16$s" text-anchor="%27$s" style="font-size: %26$spx">line start</text>
 </svg>
 <table class="figures">
 <tr><th>story (simulation)</th><td>%2$s</td></tr>
@@ -71,7 +71,7 @@ SELECT w.trip_id, w.frechet_m,
 		          WHERE f->'properties'->>'role' = 'excursion'), ''),
 		pg_temp.svg_d(w.gj->'features'->0->'geometry'),
 		pg_temp.svg_d(w.gj->'features'->3->'geometry'),
-		round((w.route[1])[0]::numeric) + (bb.x1 - bb.x0) / 60, -round((w.route[1])[1]::numeric) - (bb.x1 - bb.x0) / 60,
+		round((w.route[1])[0]::numeric), -round((w.route[1])[1]::numeric) - greatest(bb.x1 - bb.x0, bb.y1 - bb.y0) / 40,
 		round(w.frechet_m::numeric, 1), :eps, round(w.discrete_m::numeric, 1),
 		array_length(w.track, 1), array_length(w.route, 1),
 		round((w.gj->'features'->3->'properties'->>'a_pos')::numeric, 2),
@@ -83,7 +83,8 @@ SELECT w.trip_id, w.frechet_m,
 		coalesce((SELECT format('line positions %s to %s, within %s m', round(p.route_from::numeric, 2),
 		                        round(p.route_to::numeric, 2), round(p.distance::numeric, 1))
 		          FROM frechet_partial_match(w.track, w.route, :eps) p), 'no part within ε'),
-		round(greatest(bb.x1 - bb.x0, bb.y1 - bb.y0) / 30)) AS html
+		round(greatest(bb.x1 - bb.x0, bb.y1 - bb.y0) / 30),
+		CASE WHEN (w.route[1])[0] > (bb.x0 + bb.x1) / 2 THEN 'end' ELSE 'start' END) AS html
 FROM worst w,
 	LATERAL (SELECT floor(min(x) - 0.06 * greatest(max(x) - min(x), max(y) - min(y)) - 60) AS x0,
 	                ceil(max(x) + 0.06 * greatest(max(x) - min(x), max(y) - min(y)) + 60) AS x1,

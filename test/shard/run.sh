@@ -11,6 +11,7 @@
 # Prints TAP lines ("ok N - ...", "not ok N - ...") and "1..N"; exits
 # non-zero on any failure.
 #   SHARD_PORT=54643 bash test/shard/run.sh     (uses SHARD_PORT .. +2)
+#   SHARD_SHOW=1 bash test/shard/run.sh         (also prints the plans it checks)
 set -uo pipefail
 cd "$(dirname "$0")/../.."
 source .ci/pgserver.sh
@@ -132,6 +133,7 @@ ROUTE_BENT=$(coord -c "SELECT route FROM line WHERE line_id = 4")
 coord_has() {
 	local sql=$1 pat=$2 times=${3:-1} out
 	out=$(coord -c "SET search_path = public, frechet, gis" -c "$sql" 2>&1)
+	[ -n "${SHARD_SHOW:-}" ] && echo "$out" | sed 's/^/# /'
 	[ "$(grep -cE -- "$pat" <<<"$out")" -ge "$times" ] || { echo "$out" | head -30 | sed 's/^/# /'; return 1; }
 }
 
