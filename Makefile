@@ -39,6 +39,8 @@ EXTRA_CLEAN += sql/frechet_ext_postgis--$(EXTVERSION).sql
 # k-nearest and range queries on geometry and geography through our own
 # GiST operator classes (frechet_geometry_ops, frechet_geography_ops).
 OBJS += src/geo_gist.o
+# Maps and dashboards: track pieces and GeoJSON (SQL bodies in the install scripts).
+OBJS += src/track_piece.o
 
 # Debian installs several majors side by side; prefer 15, the supported one.
 PG_CONFIG ?= $(firstword $(wildcard /usr/lib/postgresql/15/bin/pg_config) pg_config)

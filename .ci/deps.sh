@@ -10,6 +10,9 @@ FRECHET_PACKAGES=(
 	libgeos-dev libcmocka-dev
 	# PostGIS layer: PROJ's geodesics for the reference checks of the metres
 	libproj-dev
+	# Scale-out and demo: headless browser for the report's screenshot test,
+	# Node.js for the GeoJSON validator (npm, test/geojson) and the checks
+	chromium nodejs
 )
 # reliability (issue 7): clang with libFuzzer and the sanitizers (Debian 12
 # ships libFuzzer in libclang-rt-14-dev), valgrind; pgbench comes with
@@ -27,4 +30,17 @@ if [ "${#missing[@]}" -gt 0 ]; then
 	export DEBIAN_FRONTEND=noninteractive
 	$SUDO apt-get update -qq
 	$SUDO apt-get install -y -qq --no-install-recommends "${missing[@]}" >/dev/null
+fi
+
+# npm: Debian's package, unless Node.js came with its own npm.
+if ! command -v npm >/dev/null 2>&1; then
+	SUDO=""
+	[ "$(id -u)" -eq 0 ] || SUDO="sudo"
+	DEBIAN_FRONTEND=noninteractive $SUDO apt-get install -y -qq --no-install-recommends npm >/dev/null
+fi
+# The GeoJSON validator, pinned by test/geojson/package-lock.json.
+ROOT=$(cd "$(dirname "${BASH_SOURCE[0]}")/.." && pwd)
+if [ ! -d "$ROOT/test/geojson/node_modules/@placemarkio/check-geojson" ]; then
+	echo "installing the GeoJSON validator (npm ci in test/geojson)"
+	(cd "$ROOT/test/geojson" && npm ci --no-audit --no-fund --loglevel=error >/dev/null)
 fi

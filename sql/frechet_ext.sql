@@ -253,3 +253,88 @@ COMMENT ON FUNCTION @extschema@.frechet_at_most_support(internal) IS
 
 ALTER FUNCTION @extschema@.frechet_at_most(pg_catalog.point[], pg_catalog.point[], pg_catalog.float8)
 	SUPPORT @extschema@.frechet_at_most_support;
+
+-- Maps and dashboards: pieces of tracks, and a pair's matching as GeoJSON
+-- (RFC 7946).  The SQL functions have standard SQL bodies: they are parsed
+-- when the script runs, so they work under any search_path, including a
+-- postgres_fdw remote session's search_path = pg_catalog.
+
+CREATE FUNCTION @extschema@.frechet_track_piece(track pg_catalog.point[], pos_from pg_catalog.float8,
+	pos_to pg_catalog.float8)
+RETURNS pg_catalog.point[]
+AS 'MODULE_PATHNAME', 'frechet_track_piece_point_array'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 10;
+
+COMMENT ON FUNCTION @extschema@.frechet_track_piece(pg_catalog.point[], pg_catalog.float8, pg_catalog.float8) IS
+'the part of a track between two positions (k + t, 1-based): the point at pos_from, the vertices between, the point at pos_to';
+
+CREATE FUNCTION @extschema@.frechet_track_geojson(track pg_catalog.point[])
+RETURNS pg_catalog.jsonb
+LANGUAGE sql IMMUTABLE STRICT PARALLEL SAFE COST 20
+RETURN (
+	SELECT CASE WHEN pg_catalog.count(*) = 1
+		THEN pg_catalog.jsonb_build_object('type', 'Point',
+			'coordinates', (pg_catalog.array_agg(pg_catalog.jsonb_build_array(u.p[0], u.p[1])))[1])
+		ELSE pg_catalog.jsonb_build_object('type', 'LineString',
+			'coordinates', pg_catalog.jsonb_agg(pg_catalog.jsonb_build_array(u.p[0], u.p[1]) ORDER BY u.i))
+		END
+	FROM pg_catalog.unnest(@extschema@.frechet_track_piece(track, 1, pg_catalog.cardinality(track)))
+		WITH ORDINALITY AS u(p, i));
+
+COMMENT ON FUNCTION @extschema@.frechet_track_geojson(pg_catalog.point[]) IS
+'a track as a GeoJSON geometry: a LineString, or a Point for a one-point track; coordinates as stored';
+
+CREATE FUNCTION @extschema@.frechet_geojson(a pg_catalog.point[], b pg_catalog.point[],
+	epsilon pg_catalog.float8 DEFAULT NULL)
+RETURNS pg_catalog.jsonb
+LANGUAGE sql IMMUTABLE PARALLEL SAFE COST 300000
+BEGIN ATOMIC
+	SELECT pg_catalog.jsonb_build_object(
+		'type', 'FeatureCollection',
+		'frechet', pg_catalog.jsonb_build_object(
+			'distance', dd.d,
+			'epsilon', epsilon,
+			'within_epsilon', @extschema@.frechet_at_most(a, b, epsilon),
+			'excursions', pg_catalog.jsonb_array_length(ex.features)),
+		'features', pg_catalog.jsonb_build_array(
+			pg_catalog.jsonb_build_object('type', 'Feature',
+				'properties', pg_catalog.jsonb_build_object('role', 'a', 'vertices', pg_catalog.cardinality(a),
+					'distance', dd.d, 'epsilon', epsilon),
+				'geometry', @extschema@.frechet_track_geojson(a)),
+			pg_catalog.jsonb_build_object('type', 'Feature',
+				'properties', pg_catalog.jsonb_build_object('role', 'b', 'vertices', pg_catalog.cardinality(b),
+					'distance', dd.d, 'epsilon', epsilon),
+				'geometry', @extschema@.frechet_track_geojson(b)),
+			pg_catalog.jsonb_build_object('type', 'Feature',
+				'properties', pg_catalog.jsonb_build_object('role', 'leashes', 'count', ls.n),
+				'geometry', pg_catalog.jsonb_build_object('type', 'MultiLineString',
+					'coordinates', ls.lines)),
+			pg_catalog.jsonb_build_object('type', 'Feature',
+				'properties', pg_catalog.jsonb_build_object('role', 'bottleneck', 'leash', bn.leash,
+					'a_pos', bn.a_pos, 'b_pos', bn.b_pos),
+				'geometry', pg_catalog.jsonb_build_object('type', 'LineString',
+					'coordinates', pg_catalog.jsonb_build_array(
+						pg_catalog.jsonb_build_array(bn.a_point[0], bn.a_point[1]),
+						pg_catalog.jsonb_build_array(bn.b_point[0], bn.b_point[1])))))
+			OPERATOR(pg_catalog.||) ex.features)
+	FROM (SELECT @extschema@.frechet_distance(a, b) AS d) AS dd,
+		@extschema@.frechet_bottleneck(a, b) AS bn,
+		LATERAL (SELECT pg_catalog.count(*) AS n,
+				pg_catalog.jsonb_agg(pg_catalog.jsonb_build_array(
+					pg_catalog.jsonb_build_array(m.a_point[0], m.a_point[1]),
+					pg_catalog.jsonb_build_array(m.b_point[0], m.b_point[1])) ORDER BY m.step) AS lines
+			FROM @extschema@.frechet_matching(a, b) AS m) AS ls,
+		LATERAL (SELECT COALESCE(pg_catalog.jsonb_agg(pg_catalog.jsonb_build_object('type', 'Feature',
+					'properties', pg_catalog.jsonb_build_object('role', 'excursion', 'number', x.n,
+						'trip_from', x.trip_from, 'trip_to', x.trip_to,
+						'route_from', x.route_from, 'route_to', x.route_to,
+						'max_leash', x.max_leash, 'trip_length', x.trip_length),
+					'geometry', @extschema@.frechet_track_geojson(
+						@extschema@.frechet_track_piece(a, x.trip_from, x.trip_to))) ORDER BY x.n),
+				'[]'::pg_catalog.jsonb) AS features
+			FROM @extschema@.frechet_excursions(a, b, epsilon) WITH ORDINALITY AS x(trip_from, trip_to,
+				route_from, route_to, max_leash, trip_length, n)) AS ex;
+END;
+
+COMMENT ON FUNCTION @extschema@.frechet_geojson(pg_catalog.point[], pg_catalog.point[], pg_catalog.float8) IS
+'a GeoJSON FeatureCollection of a pair for a map: both tracks (roles a, b), the leashes of an optimal matching, the bottleneck leash and, with epsilon, the excursions of a from b; a foreign member frechet with distance and epsilon (a FeatureCollection may not have properties); coordinates as stored';

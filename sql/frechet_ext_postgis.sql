@@ -488,3 +488,108 @@ FOR TYPE geography USING gist AS
 	FUNCTION 7 @extschema@.frechet_geo_gist_same(frechet_key, frechet_key, internal),
 	FUNCTION 8 @extschema@.frechet_geography_gist_distance(internal, geography, pg_catalog.int2, pg_catalog.oid, internal),
 	STORAGE frechet_key;
+-- Maps and dashboards: a pair's matching as GeoJSON (RFC 7946).  The bodies
+-- are standard SQL bodies, parsed while this script runs: PostGIS's
+-- functions (named unqualified, as PostgreSQL 15 has no
+-- @extschema:postgis@) are bound then, so the functions work under any
+-- search_path, including a postgres_fdw remote session's pg_catalog.
+
+CREATE FUNCTION @extschema@.frechet_geometry_geojson(g geometry)
+RETURNS pg_catalog.jsonb
+LANGUAGE sql IMMUTABLE STRICT PARALLEL SAFE COST 100
+RETURN ST_AsGeoJSON(CASE WHEN ST_SRID(g) IN (0, 4326) THEN g ELSE ST_Transform(g, 4326) END, 9, 0)::pg_catalog.jsonb;
+
+COMMENT ON FUNCTION @extschema@.frechet_geometry_geojson(geometry) IS
+'a geometry as an RFC 7946 GeoJSON geometry: transformed to WGS84 lon/lat when its SRID is neither 0 nor 4326, no crs member';
+
+CREATE FUNCTION @extschema@.frechet_geojson(a geometry, b geometry, epsilon pg_catalog.float8 DEFAULT NULL)
+RETURNS pg_catalog.jsonb
+LANGUAGE sql IMMUTABLE PARALLEL SAFE COST 300000
+BEGIN ATOMIC
+	SELECT pg_catalog.jsonb_build_object(
+		'type', 'FeatureCollection',
+		'frechet', pg_catalog.jsonb_build_object(
+			'distance', dd.d,
+			'epsilon', epsilon,
+			'within_epsilon', @extschema@.frechet_at_most(a, b, epsilon),
+			'excursions', pg_catalog.jsonb_array_length(ex.features),
+			'srid', ST_SRID(a)),
+		'features', pg_catalog.jsonb_build_array(
+			pg_catalog.jsonb_build_object('type', 'Feature',
+				'properties', pg_catalog.jsonb_build_object('role', 'a', 'vertices', ST_NPoints(a),
+					'distance', dd.d, 'epsilon', epsilon),
+				'geometry', @extschema@.frechet_geometry_geojson(a)),
+			pg_catalog.jsonb_build_object('type', 'Feature',
+				'properties', pg_catalog.jsonb_build_object('role', 'b', 'vertices', ST_NPoints(b),
+					'distance', dd.d, 'epsilon', epsilon),
+				'geometry', @extschema@.frechet_geometry_geojson(b)),
+			pg_catalog.jsonb_build_object('type', 'Feature',
+				'properties', pg_catalog.jsonb_build_object('role', 'leashes', 'count', ST_NumGeometries(ls.g)),
+				'geometry', @extschema@.frechet_geometry_geojson(ls.g)),
+			pg_catalog.jsonb_build_object('type', 'Feature',
+				'properties', pg_catalog.jsonb_build_object('role', 'bottleneck', 'leash', bn.leash,
+					'a_pos', bn.a_pos, 'b_pos', bn.b_pos),
+				'geometry', @extschema@.frechet_geometry_geojson(ST_MakeLine(bn.a_point, bn.b_point))))
+			OPERATOR(pg_catalog.||) ex.features)
+	FROM (SELECT @extschema@.frechet_distance(a, b) AS d) AS dd,
+		@extschema@.frechet_bottleneck(a, b) AS bn,
+		LATERAL (SELECT @extschema@.frechet_matching_leashes(a, b) AS g) AS ls,
+		LATERAL (SELECT COALESCE(pg_catalog.jsonb_agg(pg_catalog.jsonb_build_object('type', 'Feature',
+					'properties', pg_catalog.jsonb_build_object('role', 'excursion', 'number', x.n,
+						'trip_from', x.trip_from, 'trip_to', x.trip_to,
+						'route_from', x.route_from, 'route_to', x.route_to,
+						'max_leash', x.max_leash, 'trip_length', x.trip_length),
+					'geometry', @extschema@.frechet_geometry_geojson(x.trip_piece)) ORDER BY x.n),
+				'[]'::pg_catalog.jsonb) AS features
+			FROM @extschema@.frechet_excursions(a, b, epsilon) WITH ORDINALITY AS x(trip_from, trip_to,
+				route_from, route_to, max_leash, trip_length, trip_piece, n)) AS ex;
+END;
+
+COMMENT ON FUNCTION @extschema@.frechet_geojson(geometry, geometry, pg_catalog.float8) IS
+'a GeoJSON FeatureCollection of a pair for a map: both curves (roles a, b), the leashes of an optimal matching, the bottleneck and, with epsilon, the excursions of a from b; distances in units of the SRID, coordinates in WGS84 lon/lat (transformed when the SRID is another known system; as stored when it is 0)';
+
+CREATE FUNCTION @extschema@.frechet_geojson(a geography, b geography, epsilon pg_catalog.float8 DEFAULT NULL)
+RETURNS pg_catalog.jsonb
+LANGUAGE sql IMMUTABLE PARALLEL SAFE COST 300000
+BEGIN ATOMIC
+	SELECT pg_catalog.jsonb_build_object(
+		'type', 'FeatureCollection',
+		'frechet', pg_catalog.jsonb_build_object(
+			'distance', dd.d,
+			'epsilon', epsilon,
+			'within_epsilon', @extschema@.frechet_at_most(a, b, epsilon),
+			'excursions', pg_catalog.jsonb_array_length(ex.features),
+			'units', 'metres'),
+		'features', pg_catalog.jsonb_build_array(
+			pg_catalog.jsonb_build_object('type', 'Feature',
+				'properties', pg_catalog.jsonb_build_object('role', 'a', 'vertices', ST_NPoints(a::geometry),
+					'distance', dd.d, 'epsilon', epsilon),
+				'geometry', ST_AsGeoJSON(a, 9, 0)::pg_catalog.jsonb),
+			pg_catalog.jsonb_build_object('type', 'Feature',
+				'properties', pg_catalog.jsonb_build_object('role', 'b', 'vertices', ST_NPoints(b::geometry),
+					'distance', dd.d, 'epsilon', epsilon),
+				'geometry', ST_AsGeoJSON(b, 9, 0)::pg_catalog.jsonb),
+			pg_catalog.jsonb_build_object('type', 'Feature',
+				'properties', pg_catalog.jsonb_build_object('role', 'leashes', 'count', ST_NumGeometries(ls.g::geometry)),
+				'geometry', ST_AsGeoJSON(ls.g, 9, 0)::pg_catalog.jsonb),
+			pg_catalog.jsonb_build_object('type', 'Feature',
+				'properties', pg_catalog.jsonb_build_object('role', 'bottleneck', 'leash', bn.leash,
+					'a_pos', bn.a_pos, 'b_pos', bn.b_pos),
+				'geometry', ST_AsGeoJSON(ST_MakeLine(bn.a_point::geometry, bn.b_point::geometry), 9, 0)::pg_catalog.jsonb))
+			OPERATOR(pg_catalog.||) ex.features)
+	FROM (SELECT @extschema@.frechet_distance(a, b) AS d) AS dd,
+		@extschema@.frechet_bottleneck(a, b) AS bn,
+		LATERAL (SELECT @extschema@.frechet_matching_leashes(a, b) AS g) AS ls,
+		LATERAL (SELECT COALESCE(pg_catalog.jsonb_agg(pg_catalog.jsonb_build_object('type', 'Feature',
+					'properties', pg_catalog.jsonb_build_object('role', 'excursion', 'number', x.n,
+						'trip_from', x.trip_from, 'trip_to', x.trip_to,
+						'route_from', x.route_from, 'route_to', x.route_to,
+						'max_leash', x.max_leash, 'trip_length', x.trip_length),
+					'geometry', ST_AsGeoJSON(x.trip_piece, 9, 0)::pg_catalog.jsonb) ORDER BY x.n),
+				'[]'::pg_catalog.jsonb) AS features
+			FROM @extschema@.frechet_excursions(a, b, epsilon) WITH ORDINALITY AS x(trip_from, trip_to,
+				route_from, route_to, max_leash, trip_length, trip_piece, n)) AS ex;
+END;
+
+COMMENT ON FUNCTION @extschema@.frechet_geojson(geography, geography, pg_catalog.float8) IS
+'a GeoJSON FeatureCollection of a pair for a map: both curves (roles a, b), the leashes of an optimal matching, the bottleneck and, with epsilon, the excursions of a from b; distances in metres on WGS84, coordinates lon/lat';

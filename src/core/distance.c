@@ -674,7 +674,10 @@ fr_distance_plain(const fr_env *env, const fr_curve *p, const fr_curve *q,
 	return st;
 }
 
-/* Length of the longest edge of a curve. */
+/*
+ * Length of the longest edge of a curve, scaled by each edge's largest
+ * difference so that squares neither underflow nor overflow.
+ */
 double
 fr_longest_edge(const fr_curve *c)
 {
@@ -682,16 +685,22 @@ fr_longest_edge(const fr_curve *c)
 
 	for (size_t i = 0; i + 1 < c->n; i++)
 	{
-		double		sum = 0.0;
+		double		d[3] = {0, 0, 0},
+					big = 0.0,
+					sum = 0.0;
 
 		for (int k = 0; k < c->dim; k++)
 		{
-			double		d = c->coords[(i + 1) * c->dim + k] - c->coords[i * c->dim + k];
-
-			sum += d * d;
+			d[k] = fabs(c->coords[(i + 1) * c->dim + k] - c->coords[i * c->dim + k]);
+			if (d[k] > big)
+				big = d[k];
 		}
-		if (sqrt(sum) > worst)
-			worst = sqrt(sum);
+		if (big == 0.0)
+			continue;
+		for (int k = 0; k < c->dim; k++)
+			sum += (d[k] / big) * (d[k] / big);
+		if (big * sqrt(sum) > worst)
+			worst = big * sqrt(sum);
 	}
 	return worst;
 }

@@ -254,10 +254,17 @@ sub check_statement
 		}
 	}
 	my $in_operator_ref = 0;
+	my $is_function = $head =~ /^create (?:or replace )?(?:function|procedure)/;
 	for (my $k = 0; $k < @t; $k++)
 	{
 		my $w = $t[$k];
 		next if $skip{$k};
+		# A SQL-standard body (RETURN expr, or BEGIN ATOMIC ... END) is parsed
+		# when the function is created, with the script's search_path (the
+		# extension's schema and those of the extensions it requires), and
+		# bound then: a later search_path cannot redirect it.  Its names are
+		# not checked here.
+		last if $is_function && (lc $w eq 'return' || (lc $w eq 'begin' && lc($t[$k + 1] // '') eq 'atomic'));
 		if (lc $w eq 'operator' && ($t[$k + 1] // '') eq '(')
 		{
 			$in_operator_ref = 1;
@@ -290,7 +297,7 @@ sub check_statement
 	if ($head =~ /^create (?:or replace )?(?:function|procedure)/ && $s =~ /\blanguage\s+sql\b/i)
 	{
 		check_body($file, $_->[1], $_->[0]) for @{$st->{bodies}};
-		check_body($file, $l, $1) if $s =~ /\bbegin\s+atomic\b(.*)\bend\s*$/is;
+		# SQL-standard bodies (BEGIN ATOMIC) are bound at creation: see above.
 	}
 }
 

@@ -37,8 +37,8 @@ CREATE TEMP TABLE good_values (typ text, k int, val text);
 INSERT INTO good_values VALUES
 	('point[]', 1, $$'{"(0,0)","(4,3)","(8,0)","(12,1)"}'::point[]$$),
 	('point[]', 2, $$'{"(0,1)","(5,5)","(6,-1)","(12,0)"}'::point[]$$),
-	('double precision', 1, $$2.5::float8$$),
-	('double precision', 2, $$0.5::float8$$),
+	('double precision', 1, $$1.0::float8$$),
+	('double precision', 2, $$1.0::float8$$),
 	('epsilon', 1, $$4.0::float8$$),
 	('frechet_key', 1, $$frechet_reach('{"(0,1)","(5,5)","(12,0)"}'::point[], 4)$$);
 
@@ -143,7 +143,8 @@ WHERE NOT (outcome = expected
 ORDER BY 1, 2, 3;
 
 -- Members whose work is linear in the input and needs no scratch memory
--- (the index summaries, and frechet_simplify's O(n log n) greedy): they
+-- (the index summaries, track pieces and their GeoJSON, and
+-- frechet_simplify's O(n log n) greedy): they
 -- neither hit the memory limit nor run long, so the two checks below leave
 -- them out.  frechet_at_most is listed for the memory check only: when its
 -- cheap bounds settle the answer it allocates nothing (identical curves here).
@@ -151,6 +152,7 @@ CREATE FUNCTION pg_temp.linear_members() RETURNS text[] LANGUAGE sql AS $$
 	SELECT pg_catalog.array_agg(c.member) FROM callables c
 	WHERE c.member LIKE '&~%' OR c.member LIKE 'frechet_reach%' OR c.member LIKE 'frechet_track_key%'
 	   OR c.member LIKE 'frechet_within_reach%' OR c.member LIKE 'frechet_simplify%'
+	   OR c.member LIKE 'frechet_track_piece%' OR c.member LIKE 'frechet_track_geojson%'
 $$;
 
 -- Inputs needing more scratch memory than frechet_ext.max_memory allows:

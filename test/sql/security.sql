@@ -45,8 +45,8 @@ CREATE TEMP TABLE samples (typ text, k int, val text);
 INSERT INTO samples VALUES
 	('point[]', 1, $$'{"(0,0)","(4,3)","(8,0)","(12,1)"}'::pg_catalog.point[]$$),
 	('point[]', 2, $$'{"(0,1)","(5,5)","(6,-1)","(12,0)"}'::pg_catalog.point[]$$),
-	('double precision', 1, $$2.5::pg_catalog.float8$$),
-	('double precision', 2, $$0.5::pg_catalog.float8$$),
+	('double precision', 1, $$1.0::pg_catalog.float8$$),
+	('double precision', 2, $$1.0::pg_catalog.float8$$),
 	('frechet_key', 1, $$'start=(0,1)..(0,1) end=(12,0)..(12,0) min=(0,0)..(0,0) max=(12,5)..(12,5) reach=4'::public.frechet_key$$);
 
 -- One statement a member function or operator, calling it schema-qualified.
