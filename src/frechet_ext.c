@@ -168,7 +168,7 @@ frechet_at_most_point_array(PG_FUNCTION_ARGS)
 			break;
 		default:
 			glue_env_begin(&g, fr_scratch_bytes(p.n, q.n), "frechet_at_most");
-			st = fr_decide(&g.env, &p, &q, eps, &yes, NULL);
+			st = fr_decide_exact(&g.env, &p, &q, eps, &yes, NULL);
 			glue_env_end(&g);
 			glue_check_status(st, "frechet_at_most");
 	}

@@ -17,31 +17,6 @@
 #include "glue.h"
 #include "geo_glue.h"
 
-/* Runs the witness matching; breakpoints copied into the caller's context, or NULL. */
-static fr_match_pt *
-geo_matching(const geo_curves *gc, double eps, size_t *count, const char *what)
-{
-	glue_env	g;
-	fr_match_pt *pts,
-			   *copy = NULL;
-	bool		found;
-	double		used;
-	fr_status	st;
-
-	glue_env_begin(&g, fr_matching_scratch_bytes(gc->p.n, gc->q.n), what);
-	st = fr_matching(&g.env, &gc->p, &gc->q, eps, &pts, count, &found, &used, NULL);
-	if (st == FR_OK && found)
-	{
-		copy = MemoryContextAllocHuge(MemoryContextGetParent(g.cxt), *count * sizeof(fr_match_pt));
-		memcpy(copy, pts, *count * sizeof(fr_match_pt));
-	}
-	glue_env_end(&g);
-	glue_check_status(st, what);
-	if (!found)
-		*count = 0;
-	return copy;
-}
-
 /* Tolerance argument 3 when given (else -1: optimal), validated, as the engine's. */
 static double
 optional_epsilon(FunctionCallInfo fcinfo, const geo_curves *gc)
@@ -70,7 +45,7 @@ matching_rows(FunctionCallInfo fcinfo, bool geodetic)
 		return (Datum) 0;
 	geo_decode_args(fcinfo, geodetic, &gc);
 	eps = optional_epsilon(fcinfo, &gc);
-	pts = geo_matching(&gc, eps, &count, "frechet_matching");
+	pts = glue_matching(&gc.p, &gc.q, eps, &count, "frechet_matching");
 	for (size_t k = 0; k < count; k++)
 	{
 		Datum		values[6];
@@ -100,7 +75,7 @@ matching_leashes(FunctionCallInfo fcinfo, bool geodetic)
 		PG_RETURN_NULL();
 	geo_decode_args(fcinfo, geodetic, &gc);
 	eps = optional_epsilon(fcinfo, &gc);
-	pts = geo_matching(&gc, eps, &count, "frechet_matching_leashes");
+	pts = glue_matching(&gc.p, &gc.q, eps, &count, "frechet_matching_leashes");
 	if (count == 0)
 		PG_RETURN_NULL();
 	PG_RETURN_DATUM(geo_leashes_datum(fcinfo, &gc, pts, count));
@@ -120,7 +95,7 @@ bottleneck_row(FunctionCallInfo fcinfo, bool geodetic)
 
 	InitMaterializedSRF(fcinfo, 0);
 	geo_decode_args(fcinfo, geodetic, &gc);
-	pts = geo_matching(&gc, -1, &count, "frechet_bottleneck");
+	pts = glue_matching(&gc.p, &gc.q, -1, &count, "frechet_bottleneck");
 	if (count == 0)
 		elog(ERROR, "frechet_bottleneck found no optimal matching");
 	/* the leash is convex between breakpoints, so the longest is at one */
@@ -196,24 +171,13 @@ excursion_rows(FunctionCallInfo fcinfo, bool geodetic)
 	ReturnSetInfo *rsinfo = (ReturnSetInfo *) fcinfo->resultinfo;
 	geo_curves	gc;
 	double		eps = PG_GETARG_FLOAT8(2);
-	glue_env	g;
-	fr_excursion *x,
-			   *copy = NULL;
+	fr_excursion *copy;
 	size_t		count;
-	fr_status	st;
 
 	InitMaterializedSRF(fcinfo, 0);
 	geo_decode_args(fcinfo, geodetic, &gc);
 	glue_check_epsilon(eps, 3);
-	glue_env_begin(&g, fr_excursions_scratch_bytes(gc.p.n, gc.q.n), "frechet_excursions");
-	st = fr_excursions(&g.env, &gc.p, &gc.q, geo_engine_epsilon(&gc, eps), &x, &count, NULL);
-	if (st == FR_OK && count > 0)
-	{
-		copy = palloc(count * sizeof(fr_excursion));
-		memcpy(copy, x, count * sizeof(fr_excursion));
-	}
-	glue_env_end(&g);
-	glue_check_status(st, "frechet_excursions");
+	copy = glue_excursions(&gc.p, &gc.q, geo_engine_epsilon(&gc, eps), &count);
 	for (size_t k = 0; k < count; k++)
 	{
 		Datum		values[7];

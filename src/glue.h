@@ -30,6 +30,16 @@ void		glue_check_status(fr_status st, const char *what);
 /* Decodes a point[] argument into a 2-D curve, validating it; see point_array.c. */
 void		point_array_curve(ArrayType *arr, int argno, fr_curve *out);
 
+/*
+ * The witness matching and the excursions, run in scratch memory and
+ * copied into the caller's context; see witness.c.  glue_matching: eps < 0
+ * asks for an optimal matching; NULL (count 0) when none within eps.
+ */
+fr_match_pt *glue_matching(const fr_curve *p, const fr_curve *q, double eps,
+						   size_t *count, const char *what);
+fr_excursion *glue_excursions(const fr_curve *p, const fr_curve *q, double eps,
+							  size_t *count);
+
 /* Validates a tolerance argument: not NaN, not negative. */
 void		glue_check_epsilon(double eps, int argno);
 

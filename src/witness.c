@@ -32,9 +32,9 @@ point_at(const fr_curve *c, double pos)
  * Runs the witness matching in scratch memory and copies the breakpoints
  * out into the caller's context.  eps < 0 asks for an optimal matching.
  */
-static fr_match_pt *
-run_matching(const fr_curve *p, const fr_curve *q, double eps, size_t *count,
-			 const char *what)
+fr_match_pt *
+glue_matching(const fr_curve *p, const fr_curve *q, double eps, size_t *count,
+			  const char *what)
 {
 	glue_env	g;
 	fr_match_pt *pts,
@@ -54,6 +54,30 @@ run_matching(const fr_curve *p, const fr_curve *q, double eps, size_t *count,
 	glue_check_status(st, what);
 	if (!found)
 		*count = 0;
+	return copy;
+}
+
+/*
+ * Runs the excursions in scratch memory and copies them out into the
+ * caller's context (NULL when there are none).
+ */
+fr_excursion *
+glue_excursions(const fr_curve *p, const fr_curve *q, double eps, size_t *count)
+{
+	glue_env	g;
+	fr_excursion *x,
+			   *copy = NULL;
+	fr_status	st;
+
+	glue_env_begin(&g, fr_excursions_scratch_bytes(p->n, q->n), "frechet_excursions");
+	st = fr_excursions(&g.env, p, q, eps, &x, count, NULL);
+	if (st == FR_OK && *count > 0)
+	{
+		copy = MemoryContextAlloc(MemoryContextGetParent(g.cxt), *count * sizeof(fr_excursion));
+		memcpy(copy, x, *count * sizeof(fr_excursion));
+	}
+	glue_env_end(&g);
+	glue_check_status(st, "frechet_excursions");
 	return copy;
 }
 
@@ -79,7 +103,7 @@ frechet_matching_point_array(PG_FUNCTION_ARGS)
 		eps = PG_GETARG_FLOAT8(2);
 		glue_check_epsilon(eps, 3);
 	}
-	pts = run_matching(&p, &q, eps, &count, "frechet_matching");
+	pts = glue_matching(&p, &q, eps, &count, "frechet_matching");
 	for (size_t k = 0; k < count; k++)
 	{
 		Datum		values[6];
@@ -113,7 +137,7 @@ frechet_bottleneck_point_array(PG_FUNCTION_ARGS)
 	InitMaterializedSRF(fcinfo, 0);
 	point_array_curve(PG_GETARG_ARRAYTYPE_P(0), 1, &p);
 	point_array_curve(PG_GETARG_ARRAYTYPE_P(1), 2, &q);
-	pts = run_matching(&p, &q, -1, &count, "frechet_bottleneck");
+	pts = glue_matching(&p, &q, -1, &count, "frechet_bottleneck");
 	if (count == 0)
 		elog(ERROR, "frechet_bottleneck found no optimal matching");
 	/* the leash is convex between breakpoints, so the longest is at one */
@@ -195,25 +219,14 @@ frechet_excursions_point_array(PG_FUNCTION_ARGS)
 	fr_curve	p,
 				q;
 	double		eps = PG_GETARG_FLOAT8(2);
-	glue_env	g;
-	fr_excursion *x,
-			   *copy = NULL;
+	fr_excursion *copy;
 	size_t		count;
-	fr_status	st;
 
 	InitMaterializedSRF(fcinfo, 0);
 	point_array_curve(PG_GETARG_ARRAYTYPE_P(0), 1, &p);
 	point_array_curve(PG_GETARG_ARRAYTYPE_P(1), 2, &q);
 	glue_check_epsilon(eps, 3);
-	glue_env_begin(&g, fr_excursions_scratch_bytes(p.n, q.n), "frechet_excursions");
-	st = fr_excursions(&g.env, &p, &q, eps, &x, &count, NULL);
-	if (st == FR_OK && count > 0)
-	{
-		copy = palloc(count * sizeof(fr_excursion));
-		memcpy(copy, x, count * sizeof(fr_excursion));
-	}
-	glue_env_end(&g);
-	glue_check_status(st, "frechet_excursions");
+	copy = glue_excursions(&p, &q, eps, &count);
 	for (size_t k = 0; k < count; k++)
 	{
 		Datum		values[6];

@@ -12,6 +12,7 @@
 #include <math.h>
 
 #include "fr_internal.h"
+#include "bounds.h"
 
 /*
  * Bottom edge of the diagram (row 0's bottom boundaries), reachable from
@@ -214,76 +215,18 @@ fr_decide_plain(const fr_env *env, const fr_curve *p, const fr_curve *q,
 }
 
 /*
- * Cheap tests that settle a decision without the free space (Bringmann,
- * Künnemann & Nusser 2019, section 3, in spirit): returns 1 (close),
- * 0 (far) or -1 (undecided).  Curves have two or more vertices.
- */
-static int
-filters(const fr_prep *p, const fr_prep *q, double eps)
-{
-	const size_t n = p->n,
-				m = q->n;
-	double		lo[3],
-				hi[3];
-
-	/* the end pairs must be matched */
-	if (fr_pt_dist(&p->v[0], &q->v[0]) > eps || fr_pt_dist(&p->v[n - 1], &q->v[m - 1]) > eps)
-		return 0;
-	/* a greedy vertex walk within eps is a matching within eps */
-	if (fr_greedy_upper_bound(p, q) <= eps)
-		return 1;
-	/* every vertex must lie within eps of the other curve, so of its box */
-	for (int side = 0; side < 2; side++)
-	{
-		const fr_prep *a = side ? q : p,
-				   *b = side ? p : q;
-
-		lo[0] = lo[1] = lo[2] = INFINITY;
-		hi[0] = hi[1] = hi[2] = -INFINITY;
-		for (size_t k = 0; k < b->n; k++)
-		{
-			const fr_pt *v = &b->v[k];
-
-			/* plain comparisons: coordinates are never NaN here */
-			lo[0] = v->x < lo[0] ? v->x : lo[0];
-			hi[0] = v->x > hi[0] ? v->x : hi[0];
-			lo[1] = v->y < lo[1] ? v->y : lo[1];
-			hi[1] = v->y > hi[1] ? v->y : hi[1];
-			lo[2] = v->z < lo[2] ? v->z : lo[2];
-			hi[2] = v->z > hi[2] ? v->z : hi[2];
-		}
-		/*
-		 * Differences first, then a margin of a few ulps: the filter may only
-		 * reject what is surely farther than eps, never what rounding of
-		 * lo - eps would move across the line.
-		 */
-		for (size_t k = 0; k < a->n; k++)
-		{
-			const fr_pt *v = &a->v[k];
-			const double far = eps * (1 + 1e-12);
-
-			if (lo[0] - v->x > far || v->x - hi[0] > far ||
-				lo[1] - v->y > far || v->y - hi[1] > far ||
-				lo[2] - v->z > far || v->z - hi[2] > far)
-				return 0;
-		}
-	}
-	return -1;
-}
-
-/*
- * The decision offered to callers: filters, then the pruning decider.  It
- * agrees with fr_decide_plain on every input (tests compare them).
+ * The decision without the cheap filters: prepared curves, then the
+ * pruning decider (the plain one where there is no diagram to prune).
+ * For callers that have already run fr_cheap_decide.
  */
 fr_status
-fr_decide(const fr_env *env, const fr_curve *p, const fr_curve *q,
-		  double eps, bool *result, fr_stats *stats)
+fr_decide_exact(const fr_env *env, const fr_curve *p, const fr_curve *q,
+				double eps, bool *result, fr_stats *stats)
 {
 	fr_prep		pp,
 				pq;
 	void	   *work;
 	fr_status	st;
-	int			f;
 
 	st = fr_prepare_pair(env, p, q, &pp, &pq);
 	if (st != FR_OK)
@@ -300,10 +243,11 @@ fr_decide(const fr_env *env, const fr_curve *p, const fr_curve *q,
 	}
 	if (stats)
 		stats->decisions++;
-	f = filters(&pp, &pq, eps);
-	if (f >= 0)
+	/* the pruning decider's own contract: both end pairs within eps */
+	if (fr_pt_dist(&pp.v[0], &pq.v[0]) > eps ||
+		fr_pt_dist(&pp.v[pp.n - 1], &pq.v[pq.n - 1]) > eps)
 	{
-		*result = f == 1;
+		*result = false;
 		fr_release_pair(env, &pp, &pq);
 		return FR_OK;
 	}
@@ -315,4 +259,30 @@ fr_decide(const fr_env *env, const fr_curve *p, const fr_curve *q,
 	fr_free(env, work);
 	fr_release_pair(env, &pp, &pq);
 	return st;
+}
+
+/*
+ * The decision offered to callers: the cheap bounds of bounds.c (end
+ * points, boxes, greedy couplings, far vertices; in spirit Bringmann,
+ * Künnemann & Nusser 2019, section 3), which need no memory, then the
+ * pruning decider.  It agrees with fr_decide_plain on every input (tests
+ * compare them).
+ */
+fr_status
+fr_decide(const fr_env *env, const fr_curve *p, const fr_curve *q,
+		  double eps, bool *result, fr_stats *stats)
+{
+	if (!fr_pair_valid(p, q))
+		return FR_EINVAL;
+	switch (fr_cheap_decide(p, q, eps))
+	{
+		case FR_NEAR:
+			*result = true;
+			return FR_OK;
+		case FR_FAR:
+			*result = false;
+			return FR_OK;
+		default:
+			return fr_decide_exact(env, p, q, eps, result, stats);
+	}
 }

@@ -92,6 +92,13 @@ fr_poll_init(fr_poll *poll, const fr_env *env)
 	poll->budget = FR_INTERRUPT_CELLS;
 }
 
+/* Is the pair structurally valid: a vertex or more each, one dimension, 2 or 3? */
+static inline bool
+fr_pair_valid(const fr_curve *p, const fr_curve *q)
+{
+	return p->n >= 1 && q->n >= 1 && p->dim == q->dim && p->dim >= 2 && p->dim <= 3;
+}
+
 /*
  * Prepares both curves in one local frame: the origin is chosen per axis so
  * that subtracting it is exact (Sterbenz) or, where it is not, left at 0.

@@ -81,6 +81,13 @@ fr_status	fr_decide(const fr_env *env, const fr_curve *p, const fr_curve *q,
 					  double eps, bool *result, fr_stats *stats);
 
 /*
+ * fr_decide without its cheap filters, for callers that ran
+ * fr_cheap_decide (bounds.h) themselves.  Same contract.
+ */
+fr_status	fr_decide_exact(const fr_env *env, const fr_curve *p, const fr_curve *q,
+							double eps, bool *result, fr_stats *stats);
+
+/*
  * The plain Alt & Godau (1995) decider, kept as the reference path that
  * faster deciders are tested against.  Same contract as fr_decide.
  */

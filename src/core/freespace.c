@@ -257,7 +257,7 @@ fr_prepare_pair(const fr_env *env, const fr_curve *p, const fr_curve *q,
 	memset(pp, 0, sizeof(*pp));
 	memset(pq, 0, sizeof(*pq));
 	pp->scale = pq->scale = 1;
-	if (p->n < 1 || q->n < 1 || p->dim != q->dim || p->dim < 2 || p->dim > 3)
+	if (!fr_pair_valid(p, q))
 		return FR_EINVAL;
 	for (int axis = 0; axis < 3; axis++)
 	{
