@@ -473,25 +473,38 @@ greedy_coupling(const fr_curve *p, const fr_curve *q, double lim)
 	return true;
 }
 
-/* Distance from vertex i of c to segment j of d (its nearest point, measured directly). */
-static double
-vertex_segment_dist(const fr_curve *c, size_t i, const fr_curve *d, size_t j)
+/*
+ * Squared distance from vertex v to segment a-b (dim coordinates each), no
+ * square root; the nearest point is clamped to the segment.
+ */
+static inline double
+point_segment_dist2(const double *v, const double *a, const double *b, int dim)
 {
-	const double *v = c->coords + i * c->dim,
-			   *a = d->coords + j * d->dim,
-			   *b = a + d->dim;
 	double		dd = 0.0,
 				dw = 0.0,
+				ww = 0.0,
+				s = 0.0,
 				t;
 
-	for (int k = 0; k < c->dim; k++)
+	for (int k = 0; k < dim; k++)
 	{
 		dd += (b[k] - a[k]) * (b[k] - a[k]);
 		dw += (b[k] - a[k]) * (a[k] - v[k]);
+		ww += (a[k] - v[k]) * (a[k] - v[k]);
 	}
+	if (dw >= 0.0)
+		return ww;				/* the foot lies before a: a is the nearest point */
+	if (!(dd < INFINITY && fabs(dw) < INFINITY))
+		return 0.0;				/* overflow: call it close, which is always safe */
 	t = dd > 0.0 ? -dw / dd : 0.0;
 	t = t > 0.0 ? (t < 1.0 ? t : 1.0) : 0.0;	/* NaN falls to 0 */
-	return vertex_to_segment_point(c, i, d, j, t);
+	for (int k = 0; k < dim; k++)
+	{
+		double		x = (a[k] + t * (b[k] - a[k])) - v[k];
+
+		s += x * x;
+	}
+	return s;
 }
 
 /*
@@ -501,44 +514,61 @@ vertex_segment_dist(const fr_curve *c, size_t i, const fr_curve *d, size_t j)
  * distance from below).  Each vertex searches d's segments outward from
  * where the previous vertex found a close one, so matching curves cost
  * about O(n + m); the search gives up (false) after budget segment visits.
+ *
+ * Squared distances are compared with lim^2 (1 + 2^-40): rounding can only
+ * call a vertex close that is a hair too far, which weakens the filter and
+ * never makes it wrong.  dim is a constant in each instance below, so the
+ * loops over coordinates unroll.
  */
-static bool
-vertex_far_from_curve(const fr_curve *c, const fr_curve *d, double lim, size_t budget)
+static inline bool
+vertex_far_dim(const fr_curve *c, const fr_curve *d, double lim, size_t budget, int dim)
 {
 	size_t		nseg = d->n > 1 ? d->n - 1 : 1,
 				hint = 0;
+	double		lim2 = lim * lim * (1.0 + 0x1p-40);
 
 	for (size_t i = 0; i < c->n; i++)
 	{
+		const double *v = c->coords + i * dim;
 		bool		close = false;
 
-		for (size_t r = 0; r < nseg && !close; r++)
+		/*
+		 * hint+1, hint, hint+2, hint-1, hint+3, ... while either side
+		 * remains: both curves move forward, so the segment after the last
+		 * close one is the likeliest.
+		 */
+		for (size_t r = 1; !close && (hint + r < nseg || r <= hint + 1); r++)
 		{
-			/* hint, hint+1, hint-1, hint+2, ... while either side remains */
 			for (int side = 0; side < 2 && !close; side++)
 			{
 				size_t		j;
+				const double *a;
 
-				if (r == 0 && side == 1)
+				if (side == 0 ? hint + r >= nseg : r > hint + 1)
 					continue;
-				if (side == 0 ? hint + r >= nseg : r > hint)
-					continue;
-				j = side == 0 ? hint + r : hint - r;
+				j = side == 0 ? hint + r : hint + 1 - r;
 				if (budget-- == 0)
 					return false;
-				if ((d->n > 1 ? vertex_segment_dist(c, i, d, j) : vertex_dist(c, i, d, 0)) <= lim)
+				a = d->coords + j * dim;
+				if (point_segment_dist2(v, a, d->n > 1 ? a + dim : a, dim) <= lim2)
 				{
 					close = true;
 					hint = j;
 				}
 			}
-			if (hint + r >= nseg && r >= hint)
-				break;
 		}
 		if (!close)
 			return true;
 	}
 	return false;
+}
+
+static bool
+vertex_far_from_curve(const fr_curve *c, const fr_curve *d, double lim, size_t budget)
+{
+	if (!(lim * lim < INFINITY))
+		return false;			/* lim^2 overflows: the filter does not apply */
+	return c->dim == 2 ? vertex_far_dim(c, d, lim, budget, 2) : vertex_far_dim(c, d, lim, budget, 3);
 }
 
 /*

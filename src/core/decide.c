@@ -228,7 +228,10 @@ fr_decide_exact(const fr_env *env, const fr_curve *p, const fr_curve *q,
 	void	   *work;
 	fr_status	st;
 
-	st = fr_prepare_pair(env, p, q, &pp, &pq);
+	/* the pruning decider's work memory comes in the same block as the curves */
+	if (!fr_pair_valid(p, q))
+		return FR_EINVAL;
+	st = fr_prepare_pair_extra(env, p, q, &pp, &pq, fr_prune_work_bytes(p->n, q->n), &work);
 	if (st != FR_OK)
 		return st;
 	eps = fr_to_local(&pp, eps);
@@ -246,17 +249,12 @@ fr_decide_exact(const fr_env *env, const fr_curve *p, const fr_curve *q,
 	/* the pruning decider's own contract: both end pairs within eps */
 	if (fr_pt_dist(&pp.v[0], &pq.v[0]) > eps ||
 		fr_pt_dist(&pp.v[pp.n - 1], &pq.v[pq.n - 1]) > eps)
-	{
 		*result = false;
-		fr_release_pair(env, &pp, &pq);
-		return FR_OK;
-	}
-	work = fr_alloc(env, fr_prune_work_bytes(pp.n, pq.n));
-	if (work == NULL)
-		st = FR_ENOMEM;
 	else
+	{
+		fr_prune_setup(work, &pp, &pq);
 		st = fr_decide_pruned(env, &pp, &pq, eps, work, result, stats, NULL);
-	fr_free(env, work);
+	}
 	fr_release_pair(env, &pp, &pq);
 	return st;
 }

@@ -330,6 +330,7 @@ typedef struct fast
 	double		lo;
 	double		hi;
 	double		greedy;
+	bool		hi_decided;		/* a decision (not only a bound) accepted hi */
 } fast;
 
 /* One decision of the fast search, narrowing the bracket; may collect openings. */
@@ -357,7 +358,10 @@ fast_probe(fast *f, double eps, bool collect, bool *yes)
 	if (st == FR_OK)
 	{
 		if (*yes)
+		{
 			f->hi = eps;
+			f->hi_decided = true;
+		}
 		else
 			f->lo = eps;
 	}
@@ -483,7 +487,7 @@ simplified_bracket(fast *f)
  * plain one exactly, so the result is the same as the reference search's.
  */
 static fr_status
-fast_distance(fast *f, double *result)
+fast_search(fast *f, bool confirm_first, double *result, bool *rejected)
 {
 	bool		yes;
 	fr_status	st;
@@ -491,6 +495,7 @@ fast_distance(fast *f, double *result)
 	f->lo = fmax(fr_pt_dist(&f->p->v[0], &f->q->v[0]),
 				 fr_pt_dist(&f->p->v[f->p->n - 1], &f->q->v[f->q->n - 1]));
 	f->greedy = f->hi = fr_greedy_upper_bound(f->p, f->q);
+	f->hi_decided = false;
 	if (f->hi <= f->lo)
 	{
 		*result = f->lo;
@@ -505,17 +510,36 @@ fast_distance(fast *f, double *result)
 		*result = f->lo;
 		return st;
 	}
-	/* the upper bound is a matching; confirm it as the decider sees it */
+	/*
+	 * The upper bound is a matching (or within a proven margin of one); the
+	 * decider should accept it, but is only asked when it must be: at the
+	 * start when confirm_first is set, else at the end, if no decision has
+	 * accepted a smaller value by then (a decision near a loose upper bound
+	 * costs most, as the band it reaches is widest).
+	 */
 	f->greedy = INFINITY;
-	st = fast_probe(f, f->hi, false, &yes);
-	for (double step = 4 * DBL_EPSILON; st == FR_OK && !yes; step *= 2)
-		st = fast_probe(f, f->hi = f->hi * (1 + step), false, &yes);
-	if (st != FR_OK)
-		return st;
+	if (confirm_first)
+	{
+		st = fast_probe(f, f->hi, false, &yes);
+		for (double step = 4 * DBL_EPSILON; st == FR_OK && !yes; step *= 2)
+			st = fast_probe(f, f->hi = f->hi * (1 + step), false, &yes);
+		if (st != FR_OK)
+			return st;
+	}
 
+	/*
+	 * Bisection by value; while hi is many times lo, at the geometric mean
+	 * (or an eighth of hi when lo is tiny): a decision costs about the
+	 * area of the band it reaches, which grows with eps, so probing low
+	 * first is cheaper than halving a wide bracket from the top.
+	 */
 	while (f->hi - f->lo > 1e-3 * f->hi)
 	{
-		st = fast_probe(f, f->lo + (f->hi - f->lo) / 2, false, &yes);
+		double		mid = f->lo + (f->hi - f->lo) / 2;
+
+		if (f->hi > 4 * f->lo)
+			mid = f->lo * 64 < f->hi ? f->hi / 8 : sqrt(f->lo) * sqrt(f->hi);
+		st = fast_probe(f, mid, false, &yes);
 		if (st != FR_OK)
 			return st;
 	}
@@ -589,9 +613,33 @@ fast_distance(fast *f, double *result)
 		if (st != FR_OK)
 			return st;
 	}
+	if (!f->hi_decided)
+	{
+		st = fast_probe(f, f->hi, false, &yes);
+		if (st != FR_OK)
+			return st;
+		if (!yes)
+		{
+			*rejected = true;	/* the bound was not accepted: search again, confirming first */
+			return FR_OK;
+		}
+	}
 	*result = f->hi;
 	return FR_OK;
 }
+
+/* The fast search, confirming the upper bound first only if the lazy run finds it rejected. */
+static fr_status
+fast_distance(fast *f, double *result)
+{
+	bool		rejected = false;
+	fr_status	st = fast_search(f, false, result, &rejected);
+
+	if (st == FR_OK && rejected)
+		st = fast_search(f, true, result, &rejected);
+	return st;
+}
+
 
 /* Continuous Fréchet distance on prepared curves (fast search). */
 fr_status
@@ -617,7 +665,10 @@ fr_distance_prepared(const fr_env *env, const fr_prep *p, const fr_prep *q,
 	if (f.work == NULL || f.cands.v == NULL)
 		st = FR_ENOMEM;
 	else
+	{
+		fr_prune_setup(f.work, p, q);
 		st = fast_distance(&f, result);
+	}
 	fr_free(env, f.work);
 	fr_free(env, f.cands.v);
 	return st;

@@ -5,7 +5,9 @@
 #ifndef FR_INTERNAL_H
 #define FR_INTERNAL_H
 
+#include <float.h>
 #include <math.h>
+#include <stdbool.h>
 
 #include "frechet.h"
 
@@ -33,6 +35,7 @@ typedef struct fr_prep
 	fr_seg	   *s;				/* n - 1 segments (NULL when n == 1) */
 	size_t		n;
 	double		scale;			/* local units per input unit: a power of two */
+	void	   *block;			/* the allocation holding v and s, when shared (fr_prepare_pair) */
 } fr_prep;
 
 /* A length in input units as local units, and back (exact: powers of two). */
@@ -107,6 +110,10 @@ fr_status	fr_prepare_pair(const fr_env *env, const fr_curve *p, const fr_curve *
 							fr_prep *pp, fr_prep *pq);
 void		fr_release_pair(const fr_env *env, fr_prep *pp, fr_prep *pq);
 
+/* The same, with extra bytes of 16-byte aligned work memory in the same allocation. */
+fr_status	fr_prepare_pair_extra(const fr_env *env, const fr_curve *p, const fr_curve *q,
+								  fr_prep *pp, fr_prep *pq, size_t extra, void **extra_out);
+
 /* Segments of a prepared curve from its vertices (freespace.c). */
 fr_status	fr_prep_segments(const fr_env *env, fr_prep *out);
 
@@ -119,20 +126,207 @@ fr_status	fr_prep_subcurve(const fr_env *env, const fr_prep *c, double from, dou
 							 bool reversed, fr_prep *out, double **orig);
 void		fr_release_prep(const fr_env *env, fr_prep *c);
 
-/* Euclidean distance between two vertices. */
+/* Squared Euclidean distance between two vertices. */
 static inline double
-fr_pt_dist(const fr_pt *a, const fr_pt *b)
+fr_pt_dist2(const fr_pt *a, const fr_pt *b)
 {
 	double		dx = a->x - b->x,
 				dy = a->y - b->y,
 				dz = a->z - b->z;
 
-	return sqrt(dx * dx + dy * dy + dz * dz);
+	return dx * dx + dy * dy + dz * dz;
+}
+
+/* Euclidean distance between two vertices. */
+static inline double
+fr_pt_dist(const fr_pt *a, const fr_pt *b)
+{
+	return sqrt(fr_pt_dist2(a, b));
+}
+
+/*
+ * "Is a squared distance d2 within eps?" without a square root where the
+ * answer is plain: thresholds eps^2 (1 -+ 2^-49) lie far beyond the
+ * rounding of eps^2 and of sqrt, so d2 below the lower one has sqrt(d2) <=
+ * eps and d2 above the upper one has sqrt(d2) > eps; in between (and when
+ * eps^2 would leave the normal range) sqrt(d2) <= eps is evaluated exactly
+ * as fr_pt_dist(...) <= eps, so the answer never differs from it.
+ */
+typedef struct fr_within
+{
+	double		eps;
+	double		in2;			/* d2 <= in2: within */
+	double		out2;			/* d2 > out2: not within */
+} fr_within;
+
+static inline fr_within
+fr_within_init(double eps)
+{
+	fr_within	w;
+
+	w.eps = eps;
+	w.in2 = -1.0;
+	w.out2 = INFINITY;
+	if (eps >= 0x1p-500 && eps <= 0x1p500)
+	{
+		w.in2 = eps * eps * (1.0 - 0x1p-49);
+		w.out2 = eps * eps * (1.0 + 0x1p-49);
+	}
+	return w;
+}
+
+static inline bool
+fr_within_d2(const fr_within *w, double d2)
+{
+	if (d2 <= w->in2)
+		return true;
+	if (d2 > w->out2)
+		return false;
+	return sqrt(d2) <= w->eps;
 }
 
 /* Distance from vertex p to the segment starting at a with geometry s. */
 double		fr_point_segment_dist(const fr_pt *p, const fr_pt *a, const fr_seg *s,
 								  const fr_pt *b);
+
+/* Largest double below 1. */
+#define FR_ONE_MINUS (1.0 - DBL_EPSILON / 2)
+
+/*
+ * Relative slack under which a negative discriminant counts as a tangency:
+ * rounding in h and eps can push (eps-h)(eps+h) a few ulps below zero when
+ * the disk touches the line.
+ */
+#define FR_TANGENT_SLACK (4 * DBL_EPSILON)
+
+/*
+ * The free interval {t in [0,1] : |a + t(b-a) - p| <= eps} of point p
+ * against segment a-b (direction and length in s), given whether each end
+ * is within eps (in_a, in_b, decided from the vertex distances, so the
+ * interval agrees exactly with vertex tests elsewhere) and da2 = |p - a|^2
+ * as fr_pt_dist2 computes it.  Sets *lo and *hi; the interval is empty
+ * when *lo > *hi (then *lo is FR_EMPTY).  lo == 0 exactly iff in_a, hi == 1
+ * exactly iff in_b.
+ *
+ * In arc length r from a, |a + r u - p|^2 = r^2 - 2 foot r + |w|^2 (w = a -
+ * p, foot = -(u.w)), with roots foot -+ sqrt((eps-h)(eps+h)) where h = |u x
+ * w| is the distance to the line (no cancellation of |w|^2 - foot^2).  The
+ * root of larger magnitude is taken directly and the other from the product
+ * of roots, |w|^2 - eps^2 = (|w|-eps)(|w|+eps), so neither suffers
+ * cancellation.  When neither end is within eps and the foot lies outside
+ * the segment, the nearest point is an end: the interval is empty, with no
+ * root taken at all.
+ *
+ * Inline, so that the pruning decider's inner loop has no call in it; every
+ * caller gets the same arithmetic.
+ */
+#if defined(__GNUC__)
+#define FR_ALWAYS_INLINE inline __attribute__((always_inline))
+#else
+#define FR_ALWAYS_INLINE inline
+#endif
+
+static FR_ALWAYS_INLINE void
+fr_interval_core(const fr_pt *p, const fr_pt *a, const fr_seg *s, double eps,
+				 bool in_a, bool in_b, double da2, double *lo, double *hi)
+{
+	double		wx,
+				wy,
+				wz,
+				foot,
+				h,
+				disc,
+				rlo,
+				rhi,
+				tlo,
+				thi;
+
+	if (s->len == 0.0)
+	{
+		*lo = in_a ? 0.0 : FR_EMPTY;
+		*hi = in_a ? 1.0 : 0.0;
+		return;
+	}
+	if (in_a && in_b)
+	{
+		/* a disk is convex: both ends inside means the whole segment is */
+		*lo = 0.0;
+		*hi = 1.0;
+		return;
+	}
+	wx = a->x - p->x;
+	wy = a->y - p->y;
+	wz = a->z - p->z;
+	foot = -(s->ux * wx + s->uy * wy + s->uz * wz);
+	if (!in_a && !in_b && (foot <= 0.0 || foot >= s->len))
+	{
+		*lo = FR_EMPTY;
+		*hi = 0.0;
+		return;
+	}
+	{
+		double		cx = s->uy * wz - s->uz * wy,
+					cy = s->uz * wx - s->ux * wz,
+					cz = s->ux * wy - s->uy * wx;
+
+		h = sqrt(cx * cx + cy * cy + cz * cz);
+	}
+	disc = (eps - h) * (eps + h);
+	if (disc < 0.0 && h - eps <= FR_TANGENT_SLACK * h)
+		disc = 0.0;				/* tangency pushed below zero by rounding */
+	if (disc < 0.0)
+	{
+		/* the line misses the disk; an endpoint may still be inside by rounding */
+		if (!in_a && !in_b)
+		{
+			*lo = FR_EMPTY;
+			*hi = 0.0;
+			return;
+		}
+		rlo = rhi = in_a ? 0.0 : s->len;
+	}
+	else
+	{
+		double		root = sqrt(disc);
+		double		da = sqrt(da2);
+		double		prod = (da - eps) * (da + eps);
+
+		if (foot >= 0.0)
+		{
+			rhi = foot + root;
+			rlo = rhi > 0.0 ? prod / rhi : 0.0;
+		}
+		else
+		{
+			rlo = foot - root;
+			rhi = rlo < 0.0 ? prod / rlo : 0.0;
+		}
+		/* the foot lies inside whenever disc >= 0; rounding must not lose it */
+		if (rlo > foot)
+			rlo = foot;
+		if (rhi < foot)
+			rhi = foot;
+	}
+	tlo = in_a ? 0.0 : rlo / s->len;
+	thi = in_b ? 1.0 : rhi / s->len;
+	/*
+	 * Endpoints are in or out exactly as their distances say: a free end
+	 * keeps the interval reaching it even when rounding put the other root
+	 * past it (a foot beyond the end, at exactly eps from it).
+	 */
+	if (in_b && tlo > 1.0)
+		tlo = 1.0;
+	if (in_a && thi < 0.0)
+		thi = 0.0;
+	if (!in_a && tlo <= 0.0)
+		tlo = DBL_MIN;
+	if (!in_b && thi >= 1.0)
+		thi = FR_ONE_MINUS;
+	*lo = tlo;
+	*hi = thi;
+	if (tlo > thi)
+		*lo = FR_EMPTY;
+}
 
 /*
  * The free interval {t in [0,1] : |a + t(b-a) - p| <= eps}.  Sets *lo, *hi;
@@ -141,9 +335,6 @@ double		fr_point_segment_dist(const fr_pt *p, const fr_pt *a, const fr_seg *s,
  */
 void		fr_free_interval(const fr_pt *p, const fr_pt *a, const fr_seg *s,
 							 const fr_pt *b, double eps, double *lo, double *hi);
-void		fr_free_interval_d(const fr_pt *p, const fr_pt *a, const fr_seg *s,
-							   double eps, double da, double db,
-							   double *lo, double *hi);
 
 /* Row-by-row reachability pieces shared by the deciders and witnesses (decide.c). */
 void		fr_bottom_edge(const fr_prep *p, const fr_prep *q, double eps, double *row);
@@ -171,6 +362,11 @@ typedef struct fr_cands
 fr_status	fr_decide_pruned(const fr_env *env, const fr_prep *p, const fr_prep *q, double eps,
 							 void *work, bool *result, fr_stats *stats, fr_cands *cands);
 size_t		fr_prune_work_bytes(size_t n, size_t m);
+void		fr_prune_setup(void *work, const fr_prep *p, const fr_prep *q);
+
+/* The branch-free free interval of the pruning decider's batches, on one input (for tests). */
+void		fr_interval_select_one(const fr_pt *p, const fr_pt *a, const fr_seg *s, double eps,
+								   double da, double db, double *lo, double *hi);
 
 /* A decider on prepared curves; row has room for p->n - 1 doubles. */
 typedef fr_status (*fr_decider) (const fr_env *env, const fr_prep *p, const fr_prep *q,

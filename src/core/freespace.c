@@ -9,16 +9,6 @@
 
 #include "fr_internal.h"
 
-/* Largest double below 1. */
-#define ONE_MINUS (1.0 - DBL_EPSILON / 2)
-
-/*
- * Relative slack under which a negative discriminant counts as a tangency:
- * rounding in h and eps can push (eps-h)(eps+h) a few ulps below zero when
- * the disk touches the line.
- */
-#define TANGENT_SLACK (4 * DBL_EPSILON)
-
 /* Allocates scratch memory through the caller's allocator. */
 void *
 fr_alloc(const fr_env *env, size_t size)
@@ -95,38 +85,10 @@ axis_range(const fr_curve *c, int axis, double *lo, double *hi)
 	}
 }
 
-/* Copies one curve into the local frame and computes its segments. */
-static fr_status
-prepare_one(const fr_env *env, const fr_curve *c, const double *origin, double scale,
-			fr_prep *out)
+/* Fills the n - 1 segments of a prepared curve from its vertices. */
+static void
+segments_into(fr_prep *out)
 {
-	out->n = c->n;
-	out->scale = scale;
-	out->v = fr_alloc(env, c->n * sizeof(fr_pt));
-	out->s = NULL;
-	if (out->v == NULL)
-		return FR_ENOMEM;
-	for (size_t i = 0; i < c->n; i++)
-	{
-		const double *src = c->coords + i * c->dim;
-
-		out->v[i].x = (src[0] - origin[0]) * scale;
-		out->v[i].y = (src[1] - origin[1]) * scale;
-		out->v[i].z = c->dim > 2 ? (src[2] - origin[2]) * scale : 0.0;
-	}
-	return fr_prep_segments(env, out);
-}
-
-/* Computes the segments of a prepared curve from its vertices. */
-fr_status
-fr_prep_segments(const fr_env *env, fr_prep *out)
-{
-	out->s = NULL;
-	if (out->n < 2)
-		return FR_OK;
-	out->s = fr_alloc(env, (out->n - 1) * sizeof(fr_seg));
-	if (out->s == NULL)
-		return FR_ENOMEM;
 	for (size_t i = 0; i + 1 < out->n; i++)
 	{
 		double		dx = out->v[i + 1].x - out->v[i].x,
@@ -146,7 +108,45 @@ fr_prep_segments(const fr_env *env, fr_prep *out)
 		s->uz = dz / len;
 		s->len = len;
 	}
+}
+
+/* Computes the segments of a prepared curve from its vertices (allocating them). */
+fr_status
+fr_prep_segments(const fr_env *env, fr_prep *out)
+{
+	out->s = NULL;
+	if (out->n < 2)
+		return FR_OK;
+	out->s = fr_alloc(env, (out->n - 1) * sizeof(fr_seg));
+	if (out->s == NULL)
+		return FR_ENOMEM;
+	segments_into(out);
 	return FR_OK;
+}
+
+/*
+ * Copies one curve into the local frame and computes its segments, into
+ * v (n vertices) and s (n - 1 segments) carved from the caller's block.
+ */
+static void
+prepare_one(const fr_curve *c, const double *origin, double scale,
+			fr_pt *v, fr_seg *s, fr_prep *out)
+{
+	out->n = c->n;
+	out->scale = scale;
+	out->v = v;
+	out->s = c->n >= 2 ? s : NULL;
+	out->block = NULL;
+	for (size_t i = 0; i < c->n; i++)
+	{
+		const double *src = c->coords + i * c->dim;
+
+		out->v[i].x = (src[0] - origin[0]) * scale;
+		out->v[i].y = (src[1] - origin[1]) * scale;
+		out->v[i].z = c->dim > 2 ? (src[2] - origin[2]) * scale : 0.0;
+	}
+	if (out->s != NULL)
+		segments_into(out);
 }
 
 /* The point at position k + t of a prepared curve. */
@@ -225,6 +225,7 @@ fr_prep_subcurve(const fr_env *env, const fr_prep *c, double from, double to,
 		out->v[i] = fr_prep_point_at(c, pos[i]);
 	out->n = n;
 	out->scale = c->scale;
+	out->block = NULL;
 	*orig = pos;
 	return fr_prep_segments(env, out);
 }
@@ -239,24 +240,45 @@ fr_release_prep(const fr_env *env, fr_prep *c)
 	c->s = NULL;
 }
 
+/* Bytes from off rounded up to a multiple of 16, so carved arrays stay aligned. */
+static size_t
+align16(size_t off)
+{
+	return (off + 15) & ~(size_t) 15;
+}
+
 /*
  * Prepares both curves in one local frame.  Tiny curves (an extent below
  * 2^-20 input units) are also scaled up by a power of two, so that squares
  * of coordinate differences never underflow; a power of two scales exactly,
  * and lengths convert back exactly (fr_to_local, fr_from_local).
+ *
+ * Everything lives in one allocation, together with extra bytes of work
+ * memory for the caller (*extra_out, 16-byte aligned, when extra > 0): one
+ * block instead of five keeps allocator traffic down, and an allocator that
+ * recycles a freed block of the same size (as malloc does once it has seen
+ * one) hands it back without fresh pages.
  */
 fr_status
-fr_prepare_pair(const fr_env *env, const fr_curve *p, const fr_curve *q,
-				fr_prep *pp, fr_prep *pq)
+fr_prepare_pair_extra(const fr_env *env, const fr_curve *p, const fr_curve *q,
+					  fr_prep *pp, fr_prep *pq, size_t extra, void **extra_out)
 {
 	double		origin[3],
 				extent = 0,
 				scale = 1;
-	fr_status	st;
+	size_t		off_pv,
+				off_ps,
+				off_qv,
+				off_qs,
+				off_extra,
+				total;
+	char	   *block;
 
 	memset(pp, 0, sizeof(*pp));
 	memset(pq, 0, sizeof(*pq));
 	pp->scale = pq->scale = 1;
+	if (extra_out)
+		*extra_out = NULL;
 	if (!fr_pair_valid(p, q))
 		return FR_EINVAL;
 	for (int axis = 0; axis < 3; axis++)
@@ -277,22 +299,37 @@ fr_prepare_pair(const fr_env *env, const fr_curve *p, const fr_curve *q,
 
 		scale = ldexp(1.0, e < 1000 ? e : 1000);
 	}
-	st = prepare_one(env, p, origin, scale, pp);
-	if (st == FR_OK)
-		st = prepare_one(env, q, origin, scale, pq);
-	if (st != FR_OK)
-		fr_release_pair(env, pp, pq);
-	return st;
+	off_pv = 0;
+	off_ps = align16(off_pv + p->n * sizeof(fr_pt));
+	off_qv = align16(off_ps + p->n * sizeof(fr_seg));
+	off_qs = align16(off_qv + q->n * sizeof(fr_pt));
+	off_extra = align16(off_qs + q->n * sizeof(fr_seg));
+	total = off_extra + extra;
+	block = fr_alloc(env, total);
+	if (block == NULL)
+		return FR_ENOMEM;
+	prepare_one(p, origin, scale, (fr_pt *) (block + off_pv), (fr_seg *) (block + off_ps), pp);
+	prepare_one(q, origin, scale, (fr_pt *) (block + off_qv), (fr_seg *) (block + off_qs), pq);
+	pp->block = block;
+	if (extra_out && extra > 0)
+		*extra_out = block + off_extra;
+	return FR_OK;
 }
 
-/* Frees what fr_prepare_pair allocated. */
+/* Prepares both curves in one local frame, with no extra work memory. */
+fr_status
+fr_prepare_pair(const fr_env *env, const fr_curve *p, const fr_curve *q,
+				fr_prep *pp, fr_prep *pq)
+{
+	return fr_prepare_pair_extra(env, p, q, pp, pq, 0, NULL);
+}
+
+/* Frees what fr_prepare_pair allocated (one block, owned by pp). */
 void
 fr_release_pair(const fr_env *env, fr_prep *pp, fr_prep *pq)
 {
-	fr_free(env, pp->v);
-	fr_free(env, pp->s);
-	fr_free(env, pq->v);
-	fr_free(env, pq->s);
+	fr_free(env, pp->block);
+	pp->block = pq->block = NULL;
 	pp->v = pq->v = NULL;
 	pp->s = pq->s = NULL;
 }
@@ -334,107 +371,15 @@ fr_point_segment_dist(const fr_pt *p, const fr_pt *a, const fr_seg *s, const fr_
 	return h;
 }
 
-/*
- * Free interval of point p against segment a-b at eps, as parameters in
- * [0,1].  In arc length r from a, |a + r u - p|^2 = r^2 - 2 foot r + |w|^2,
- * with roots foot -+ sqrt((eps-h)(eps+h)).  The root of larger magnitude is
- * taken directly and the other from the product of roots,
- * |w|^2 - eps^2 = (|w|-eps)(|w|+eps), so neither suffers cancellation.
- * Endpoint membership is decided by the endpoint distances themselves, so
- * the interval agrees exactly with the vertex-to-vertex tests elsewhere.
- */
+/* The free interval of p against segment a-b at eps (see fr_interval_core). */
 void
 fr_free_interval(const fr_pt *p, const fr_pt *a, const fr_seg *s, const fr_pt *b,
 				 double eps, double *lo, double *hi)
 {
-	fr_free_interval_d(p, a, s, eps, fr_pt_dist(p, a),
-					   s->len == 0.0 ? 0.0 : fr_pt_dist(p, b), lo, hi);
-}
+	double		da2 = fr_pt_dist2(p, a);
 
-/* The same, given the distances da = |p - a| and db = |p - b| (callers cache them). */
-void
-fr_free_interval_d(const fr_pt *p, const fr_pt *a, const fr_seg *s,
-				   double eps, double da, double db, double *lo, double *hi)
-{
-	bool		in_a = da <= eps,
-				in_b;
-	double		foot,
-				h,
-				disc,
-				rlo,
-				rhi,
-				tlo,
-				thi;
-
-	if (s->len == 0.0)
-	{
-		*lo = in_a ? 0.0 : FR_EMPTY;
-		*hi = in_a ? 1.0 : 0.0;
-		return;
-	}
-	in_b = db <= eps;
-	if (in_a && in_b)
-	{
-		/* a disk is convex: both ends inside means the whole segment is */
-		*lo = 0.0;
-		*hi = 1.0;
-		return;
-	}
-	foot_and_height(p, a, s, &foot, &h);
-	disc = (eps - h) * (eps + h);
-	if (disc < 0.0 && h - eps <= TANGENT_SLACK * h)
-		disc = 0.0;				/* tangency pushed below zero by rounding */
-	if (disc < 0.0)
-	{
-		/* the line misses the disk; an endpoint may still be inside by rounding */
-		rlo = rhi = in_a ? 0.0 : in_b ? s->len : NAN;
-		if (isnan(rlo))
-		{
-			*lo = FR_EMPTY;
-			*hi = 0.0;
-			return;
-		}
-	}
-	else
-	{
-		double		root = sqrt(disc);
-		double		prod = (da - eps) * (da + eps);
-
-		if (foot >= 0.0)
-		{
-			rhi = foot + root;
-			rlo = rhi > 0.0 ? prod / rhi : 0.0;
-		}
-		else
-		{
-			rlo = foot - root;
-			rhi = rlo < 0.0 ? prod / rlo : 0.0;
-		}
-		/* the foot lies inside whenever disc >= 0; rounding must not lose it */
-		if (rlo > foot)
-			rlo = foot;
-		if (rhi < foot)
-			rhi = foot;
-	}
-	tlo = in_a ? 0.0 : rlo / s->len;
-	thi = in_b ? 1.0 : rhi / s->len;
-	/*
-	 * Endpoints are in or out exactly as their distances say: a free end
-	 * keeps the interval reaching it even when rounding put the other root
-	 * past it (a foot beyond the end, at exactly eps from it).
-	 */
-	if (in_b && tlo > 1.0)
-		tlo = 1.0;
-	if (in_a && thi < 0.0)
-		thi = 0.0;
-	if (!in_a && tlo <= 0.0)
-		tlo = DBL_MIN;
-	if (!in_b && thi >= 1.0)
-		thi = ONE_MINUS;
-	*lo = tlo;
-	*hi = thi;
-	if (tlo > thi)
-		*lo = FR_EMPTY;
+	fr_interval_core(p, a, s, eps, sqrt(da2) <= eps,
+					 s->len == 0.0 || fr_pt_dist(p, b) <= eps, da2, lo, hi);
 }
 
 /*

@@ -34,23 +34,116 @@
 /* Boxes entered through at most 1/SPARSE_RATIO of their sides are swept directly. */
 #define SPARSE_RATIO 8
 
+/* Cells of one row whose free intervals are computed in one batch. */
+#define CHUNK 32
+
+/*
+ * Batches cover a multiple of BATCH_STEP cells (so that vector loops need
+ * no scalar remainder); the arrays of p carry padding past the last vertex
+ * for the cells a batch computes beyond the diagram, whose results are
+ * never used.
+ */
+#define BATCH_STEP 4
+#define PAD (CHUNK + BATCH_STEP)
+
+/*
+ * Batch kernels are compiled twice on x86-64 with GCC, for AVX2 and for the
+ * baseline, and the loader picks one (function multi-versioning); elsewhere
+ * the one portable build is used.  Both give the same results: every
+ * operation in them is a correctly rounded IEEE operation.
+ */
+#if defined(__GNUC__) && !defined(__clang__) && defined(__x86_64__) && defined(__linux__)
+#define FR_CLONES __attribute__((target_clones("avx2", "default")))
+#else
+#define FR_CLONES
+#endif
+
+/*
+ * Work memory: the column curve p copied as structure of arrays, so batch
+ * kernels load whole vectors of coordinates, then the boundary arrays.
+ */
+typedef struct prune_cols
+{
+	double	   *x,
+			   *y,
+			   *z;				/* n vertices */
+	double	   *ux,
+			   *uy,
+			   *uz,
+			   *len;			/* n - 1 segments */
+} prune_cols;
+
 /* State of one pruned decision. */
 typedef struct prune
 {
 	const fr_prep *p;
 	const fr_prep *q;
 	double		eps;
+	prune_cols	c;				/* p as arrays */
 	double	   *H;				/* reachable lower end on the current horizontal boundary, per column */
 	double	   *V;				/* ... on the current vertical boundary, per row */
 	int32_t    *Hs;				/* source vertex (of q) of each H */
 	int32_t    *Vs;				/* source vertex (of p) of each V */
 	fr_cands   *cands;			/* where to report opening values, or NULL */
-	double	   *dq;				/* dq[i] = |p[i] - q[dstamp[i]]|, a cache of vertex distances */
-	int32_t    *dstamp;
 	fr_poll    *poll;
 	fr_stats   *stats;
 	bool		stop;			/* interrupted */
 } prune;
+
+/* Carves the work memory for curves of n and m vertices. */
+static void
+carve(void *work, size_t n, size_t m, prune_cols *c, double **H, double **V,
+	  int32_t **Hs, int32_t **Vs)
+{
+	double	   *d = work;
+	size_t		np = n + PAD;
+
+	c->x = d;
+	c->y = c->x + np;
+	c->z = c->y + np;
+	c->ux = c->z + np;
+	c->uy = c->ux + np;
+	c->uz = c->uy + np;
+	c->len = c->uz + np;
+	*H = c->len + np;
+	*V = *H + (n - 1);
+	*Hs = (int32_t *) (*V + (m - 1));
+	*Vs = *Hs + (n - 1);
+}
+
+/*
+ * Fills work memory for deciding on p against q: the copy of p as arrays,
+ * padded with copies of the last vertex (and zero-length segments).
+ * Needed once per pair, before any number of fr_decide_pruned calls.
+ */
+void
+fr_prune_setup(void *work, const fr_prep *p, const fr_prep *q)
+{
+	prune_cols	c;
+	double	   *H,
+			   *V;
+	int32_t    *Hs,
+			   *Vs;
+
+	carve(work, p->n, q->n, &c, &H, &V, &Hs, &Vs);
+	for (size_t i = 0; i < p->n + PAD; i++)
+	{
+		const fr_pt *v = &p->v[i < p->n ? i : p->n - 1];
+
+		c.x[i] = v->x;
+		c.y[i] = v->y;
+		c.z[i] = v->z;
+	}
+	for (size_t i = 0; i < p->n + PAD; i++)
+	{
+		bool		real = i + 1 < p->n;
+
+		c.ux[i] = real ? p->s[i].ux : 0.0;
+		c.uy[i] = real ? p->s[i].uy : 0.0;
+		c.uz[i] = real ? p->s[i].uz : 0.0;
+		c.len[i] = real ? p->s[i].len : 0.0;
+	}
+}
 
 /* Records an opening value if it lies strictly inside the bracket. */
 static inline void
@@ -96,16 +189,148 @@ passage_value(const fr_pt *x, const fr_pt *y, const fr_pt *a, const fr_seg *s)
 	return fr_pt_dist(&c, x);
 }
 
-/* |p[i] - q[j]|, from the cache when it holds that pair. */
-static inline double
-vertex_dist(prune *s, size_t i, size_t j)
+/*
+ * The free interval of point (px,py,pz) against the segment from (ax,ay,az)
+ * with direction (ux,uy,uz) and length len, given the distances da and db
+ * from the point to the segment's ends: fr_interval_core of freespace.c
+ * written without branches, every case computed and the right one selected,
+ * so that a loop of them vectorises.  Each selected value is produced by
+ * the same operations in the same order as there (da here is the square
+ * root fr_interval_core takes of da2), so the two agree bit for bit; a unit
+ * test compares them on random and degenerate inputs.
+ */
+static FR_ALWAYS_INLINE void
+interval_select(double px, double py, double pz, double ax, double ay, double az,
+				double ux, double uy, double uz, double len, double eps,
+				double da, double db, double *lo, double *hi)
 {
-	if (s->dstamp[i] != (int32_t) j)
+	/*
+	 * Each select tests one comparison (conjunctions are nested selects),
+	 * the form GCC's vectoriser turns into vector blends.
+	 */
+	double		wx = ax - px,
+				wy = ay - py,
+				wz = az - pz;
+	double		foot = -(ux * wx + uy * wy + uz * wz);
+	double		cx = uy * wz - uz * wy,
+				cy = uz * wx - ux * wz,
+				cz = ux * wy - uy * wx;
+	double		h = sqrt(cx * cx + cy * cy + cz * cz);
+	double		disc = (eps - h) * (eps + h);
+	double		tangent = h - eps <= FR_TANGENT_SLACK * h ? 0.0 : disc;
+	double		disc0 = disc < 0.0 ? tangent : disc;
+	double		root = sqrt(disc0 < 0.0 ? 0.0 : disc0);
+	double		prod = (da - eps) * (da + eps);
+	double		rhi1 = foot + root,
+				rlo2 = foot - root;
+	/* the other root from the product of roots: one division serves both cases */
+	double		other = prod / (foot >= 0.0 ? rhi1 : rlo2);
+	double		rlo1 = rhi1 > 0.0 ? other : 0.0,
+				rhi2 = rlo2 < 0.0 ? other : 0.0;
+	double		rlo = foot >= 0.0 ? rlo1 : rlo2,
+				rhi = foot >= 0.0 ? rhi1 : rhi2;
+	double		edge = da <= eps ? 0.0 : len;
+	double		x,
+				tlo,
+				thi,
+				elo,
+				ehi;
+
+	rlo = rlo > foot ? foot : rlo;
+	rhi = rhi < foot ? foot : rhi;
+	/* the line misses the disk: an end inside by rounding is all there is */
+	rlo = disc0 < 0.0 ? edge : rlo;
+	rhi = disc0 < 0.0 ? edge : rhi;
+	tlo = da <= eps ? 0.0 : rlo / len;
+	thi = db <= eps ? 1.0 : rhi / len;
+	x = tlo > 1.0 ? 1.0 : tlo;
+	tlo = db <= eps ? x : tlo;
+	x = thi < 0.0 ? 0.0 : thi;
+	thi = da <= eps ? x : thi;
+	x = tlo <= 0.0 ? DBL_MIN : tlo;
+	tlo = da <= eps ? tlo : x;
+	x = thi >= 1.0 ? FR_ONE_MINUS : thi;
+	thi = db <= eps ? thi : x;
+	tlo = tlo > thi ? FR_EMPTY : tlo;
+	/* neither end free and the nearest point an end, or the line misses */
+	elo = foot <= 0.0 ? FR_EMPTY : tlo;
+	elo = foot >= len ? FR_EMPTY : elo;
+	elo = disc0 < 0.0 ? FR_EMPTY : elo;
+	ehi = foot <= 0.0 ? 0.0 : thi;
+	ehi = foot >= len ? 0.0 : ehi;
+	ehi = disc0 < 0.0 ? 0.0 : ehi;
+	x = db <= eps ? tlo : elo;
+	tlo = da <= eps ? tlo : x;
+	x = db <= eps ? thi : ehi;
+	thi = da <= eps ? thi : x;
+	/* both ends free: all of it (a disk is convex) */
+	x = db <= eps ? 0.0 : tlo;
+	tlo = da <= eps ? x : tlo;
+	x = db <= eps ? 1.0 : thi;
+	thi = da <= eps ? x : thi;
+	/* a zero-length segment is a point: free or not as its end is */
+	elo = da <= eps ? 0.0 : FR_EMPTY;
+	ehi = da <= eps ? 1.0 : 0.0;
+	*lo = len == 0.0 ? elo : tlo;
+	*hi = len == 0.0 ? ehi : thi;
+}
+
+/* interval_select on one input, for the unit test that compares it with fr_interval_core. */
+void
+fr_interval_select_one(const fr_pt *p, const fr_pt *a, const fr_seg *s, double eps,
+					   double da, double db, double *lo, double *hi)
+{
+	interval_select(p->x, p->y, p->z, a->x, a->y, a->z, s->ux, s->uy, s->uz, s->len,
+					eps, da, db, lo, hi);
+}
+
+/*
+ * Free intervals of the w cells (a multiple of BATCH_STEP, at most CHUNK)
+ * from column c0 of row j, in one batch:
+ * right boundaries (vertex p[i+1] against segment q[j]) into ra/rb, tops
+ * (vertex q[j+1] against segment p[i]) into tc/td, entry k for column
+ * c0 + k.  The vertex distances are computed once each, as fr_pt_dist
+ * computes them.  No branches in the loops, so they vectorise.
+ */
+FR_CLONES static void
+row_batch(const prune_cols *c, const fr_prep *q, size_t j, size_t c0, size_t w, double eps,
+		  double *restrict ra, double *restrict rb, double *restrict tc, double *restrict td)
+{
+	const fr_pt qa = q->v[j],
+				qb = q->v[j + 1];
+	const fr_seg qs = q->s[j];
+	const double *restrict x = c->x + c0,
+			   *restrict y = c->y + c0,
+			   *restrict z = c->z + c0,
+			   *restrict ux = c->ux + c0,
+			   *restrict uy = c->uy + c0,
+			   *restrict uz = c->uz + c0,
+			   *restrict len = c->len + c0;
+	double		dt[CHUNK + BATCH_STEP],	/* |p[c0+k] - q[j+1]| */
+				db[CHUNK + BATCH_STEP];	/* |p[c0+k] - q[j]| */
+
+	w = w / BATCH_STEP * BATCH_STEP;
+	for (size_t k = 0; k < w + BATCH_STEP; k++)
 	{
-		s->dq[i] = fr_pt_dist(&s->p->v[i], &s->q->v[j]);
-		s->dstamp[i] = (int32_t) j;
+		double		tx = x[k] - qb.x,
+					ty = y[k] - qb.y,
+					tz = z[k] - qb.z,
+					bx = x[k] - qa.x,
+					by = y[k] - qa.y,
+					bz = z[k] - qa.z;
+
+		dt[k] = sqrt(tx * tx + ty * ty + tz * tz);
+		db[k] = sqrt(bx * bx + by * by + bz * bz);
 	}
-	return s->dq[i];
+	for (size_t k = 0; k < w; k++)
+	{
+		interval_select(x[k + 1], y[k + 1], z[k + 1], qa.x, qa.y, qa.z,
+						qs.ux, qs.uy, qs.uz, qs.len, eps, db[k + 1], dt[k + 1],
+						&ra[k], &rb[k]);
+		interval_select(qb.x, qb.y, qb.z, x[k], y[k], z[k],
+						ux[k], uy[k], uz[k], len[k], eps, dt[k], dt[k + 1],
+						&tc[k], &td[k]);
+	}
 }
 
 /*
@@ -113,7 +338,9 @@ vertex_dist(prune *s, size_t i, size_t j)
  * each row only the cells that something can enter: from the first column
  * reachable from below (or the left side) to the last one reachable from
  * below, and on while reachability keeps flowing right.  Cells left out
- * would stay empty in the plain propagation too.
+ * would stay empty in the plain propagation too.  The free intervals come
+ * in batches from row_batch (a batch may cover a few cells the row then
+ * does not need); the propagation itself is the plain decider's.
  */
 static void
 solve_cells(prune *s, size_t x0, size_t x1, size_t y0, size_t y1)
@@ -126,6 +353,10 @@ solve_cells(prune *s, size_t x0, size_t x1, size_t y0, size_t y1)
 	size_t		hlo = x1,
 				hhi = x0,
 				visited = 0;
+	double		ra[CHUNK],
+				rb[CHUNK],
+				tc[CHUNK],
+				td[CHUNK];
 
 	/* the columns reachable from below: [hlo, hhi] */
 	for (size_t i = x0; i < x1; i++)
@@ -146,85 +377,96 @@ solve_cells(prune *s, size_t x0, size_t x1, size_t y0, size_t y1)
 					nlo = x1,
 					nhi = x0;
 
-		for (; i < x1 && (i <= hhi || lr != FR_EMPTY); i++)
+		while (i < x1 && (i <= hhi || lr != FR_EMPTY))
 		{
-			double		br = s->H[i],
-						a,
-						b,
-						c,
-						d,
-						nlr,
-						nbr,
-						d_tl,
-						d_br,
-						d_tr;
-			int32_t		bs = s->Hs[i],
-						nls,
-						nbs;
+			size_t		c0,
+						c1;
 
-			if (br == FR_EMPTY && lr == FR_EMPTY)
-				continue;
-			visited++;
-
-			/*
-			 * The four vertex distances of the cell: each is computed once and
-			 * shared with the neighbouring cells through the cache.
-			 */
-			d_tl = vertex_dist(s, i, j + 1);
-			d_br = vertex_dist(s, i + 1, j);
-			d_tr = vertex_dist(s, i + 1, j + 1);
-
-			/* right boundary: vertex p[i+1] against segment q[j] */
-			fr_free_interval_d(&pv[i + 1], qa, qs, eps, d_br, d_tr, &a, &b);
-			nls = (int32_t) (i + 1);
-			if (br != FR_EMPTY)
-				nlr = a <= b ? a : FR_EMPTY;
-			else if (a >= lr)
-				nlr = a <= b ? a : FR_EMPTY;
-			else
+			/* skip columns nothing enters */
+			if (lr == FR_EMPTY)
 			{
-				nlr = lr <= b ? lr : FR_EMPTY;
-				nls = ls;
+				while (i <= hhi && s->H[i] == FR_EMPTY)
+					i++;
+				if (i > hhi)
+					break;
 			}
-			if (nlr == FR_EMPTY && s->cands)
+			/* through the last column reachable from below, and a little on */
+			c0 = i;
+			c1 = hhi + 1 > c0 ? hhi + 1 : c0 + 1;
+			c1 = c0 + (c1 - c0 + BATCH_STEP - 1) / BATCH_STEP * BATCH_STEP;
+			if (c1 > c0 + CHUNK)
+				c1 = c0 + CHUNK;
+			row_batch(&s->c, q, j, c0, c1 - c0, eps, ra, rb, tc, td);
+			if (c1 > x1)
+				c1 = x1;
+
+			for (; i < c1 && (i <= hhi || lr != FR_EMPTY); i++)
 			{
-				if (a > b)
-					note(s, fr_point_segment_dist(&pv[i + 1], qa, qs, qb));
+				double		br = s->H[i],
+							a = ra[i - c0],
+							b = rb[i - c0],
+							c = tc[i - c0],
+							d = td[i - c0],
+							nlr,
+							nbr;
+				int32_t		bs = s->Hs[i],
+							nls,
+							nbs;
+
+				if (br == FR_EMPTY && lr == FR_EMPTY)
+					continue;
+				visited++;
+
+				/* right boundary: vertex p[i+1] against segment q[j] */
+				nls = (int32_t) (i + 1);
+				if (br != FR_EMPTY)
+					nlr = a <= b ? a : FR_EMPTY;
+				else if (a >= lr)
+					nlr = a <= b ? a : FR_EMPTY;
 				else
-					note(s, passage_value(&pv[ls], &pv[i + 1], qa, qs));
-			}
-			/* top boundary: vertex q[j+1] against segment p[i] */
-			fr_free_interval_d(qb, &pv[i], &p->s[i], eps, d_tl, d_tr, &c, &d);
-			nbs = (int32_t) (j + 1);
-			if (lr != FR_EMPTY)
-				nbr = c <= d ? c : FR_EMPTY;
-			else if (c >= br)
-				nbr = c <= d ? c : FR_EMPTY;
-			else
-			{
-				nbr = br <= d ? br : FR_EMPTY;
-				nbs = bs;
-			}
-			if (nbr == FR_EMPTY && s->cands)
-			{
-				if (c > d)
-					note(s, fr_point_segment_dist(qb, &pv[i], &p->s[i], &pv[i + 1]));
+				{
+					nlr = lr <= b ? lr : FR_EMPTY;
+					nls = ls;
+				}
+				if (nlr == FR_EMPTY && s->cands)
+				{
+					if (a > b)
+						note(s, fr_point_segment_dist(&pv[i + 1], qa, qs, qb));
+					else
+						note(s, passage_value(&pv[ls], &pv[i + 1], qa, qs));
+				}
+				/* top boundary: vertex q[j+1] against segment p[i] */
+				nbs = (int32_t) (j + 1);
+				if (lr != FR_EMPTY)
+					nbr = c <= d ? c : FR_EMPTY;
+				else if (c >= br)
+					nbr = c <= d ? c : FR_EMPTY;
 				else
-					note(s, passage_value(&qv[bs], qb, &pv[i], &p->s[i]));
+				{
+					nbr = br <= d ? br : FR_EMPTY;
+					nbs = bs;
+				}
+				if (nbr == FR_EMPTY && s->cands)
+				{
+					if (c > d)
+						note(s, fr_point_segment_dist(qb, &pv[i], &p->s[i], &pv[i + 1]));
+					else
+						note(s, passage_value(&qv[bs], qb, &pv[i], &p->s[i]));
+				}
+				s->H[i] = nbr;
+				s->Hs[i] = nbs;
+				if (nbr != FR_EMPTY)
+				{
+					if (nlo == x1)
+						nlo = i;
+					nhi = i;
+				}
+				lr = nlr;
+				ls = nls;
 			}
-			s->H[i] = nbr;
-			s->Hs[i] = nbs;
-			if (nbr != FR_EMPTY)
-			{
-				if (nlo == x1)
-					nlo = i;
-				nhi = i;
-			}
-			lr = nlr;
-			ls = nls;
 		}
 		/* the row ended early only where nothing flows right any more */
-		s->V[j] = i == x1 ? lr : FR_EMPTY;
+		s->V[j] = i >= x1 ? lr : FR_EMPTY;
 		s->Vs[j] = ls;
 		hlo = nlo;
 		hhi = nhi;
@@ -375,7 +617,8 @@ solve_box(prune *s, size_t x0, size_t x1, size_t y0, size_t y1)
 
 /*
  * The pruning decision on prepared curves (two or more vertices each, both
- * end pairs within eps).  work must hold fr_prune_work_bytes(n, m) bytes.
+ * end pairs within eps).  work must hold fr_prune_work_bytes(n, m) bytes
+ * and have been filled by fr_prune_setup for this pair.
  */
 fr_status
 fr_decide_pruned(const fr_env *env, const fr_prep *p, const fr_prep *q, double eps,
@@ -391,16 +634,8 @@ fr_decide_pruned(const fr_env *env, const fr_prep *p, const fr_prep *q, double e
 	s.p = p;
 	s.q = q;
 	s.eps = eps;
-	/* doubles first, then the int32 arrays, so every array is aligned */
-	s.H = work;
-	s.V = s.H + (n - 1);
-	s.dq = s.V + (m - 1);
-	s.Hs = (int32_t *) (s.dq + n);
-	s.Vs = s.Hs + (n - 1);
-	s.dstamp = s.Vs + (m - 1);
+	carve(work, n, m, &s.c, &s.H, &s.V, &s.Hs, &s.Vs);
 	s.cands = cands;
-	for (size_t i = 0; i < n; i++)
-		s.dstamp[i] = -1;
 	s.stats = stats;
 	fr_poll_init(&poll, env);
 	s.poll = &poll;
@@ -432,6 +667,6 @@ fr_decide_pruned(const fr_env *env, const fr_prep *p, const fr_prep *q, double e
 size_t
 fr_prune_work_bytes(size_t n, size_t m)
 {
-	/* H, V and their sources; the distance cache and its stamps */
-	return (n + m) * (sizeof(double) + sizeof(int32_t)) + n * (sizeof(double) + sizeof(int32_t)) + 64;
+	/* p as padded arrays (3 per vertex, 4 per segment), H, V and their sources */
+	return 7 * (n + PAD) * sizeof(double) + (n + m) * (sizeof(double) + sizeof(int32_t)) + 64;
 }

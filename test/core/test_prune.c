@@ -41,7 +41,10 @@ agree(const fr_curve *a, const fr_curve *b, double eps, long *count)
 		/* the pruning decider's own contract: both end pairs within eps */
 		if (fr_pt_dist(&pp.v[0], &pq.v[0]) <= eps &&
 			fr_pt_dist(&pp.v[a->n - 1], &pq.v[b->n - 1]) <= eps)
+		{
+			fr_prune_setup(w, &pp, &pq);
 			assert_int_equal(fr_decide_pruned(&e, &pp, &pq, eps, w, &pruned, NULL, NULL), FR_OK);
+		}
 		fr_release_pair(&e, &pp, &pq);
 		free(w);
 	}
@@ -261,10 +264,119 @@ simplified_bounds_keep_the_result(void **state)
 	}
 }
 
+/*
+ * One free interval both ways: fr_interval_core (branches, used by the plain
+ * decider) and the branch-free form of the pruning decider's batches.  They
+ * must agree bit for bit.
+ */
+static void
+interval_both_ways(const fr_pt *p, const fr_pt *a, const fr_pt *b, double eps, long *count)
+{
+	fr_prep		seg;
+	fr_pt		v[2] = {*a, *b};
+	fr_seg		s;
+	double		lo1,
+				hi1,
+				lo2,
+				hi2,
+				da2 = fr_pt_dist2(p, a),
+				da = sqrt(da2),
+				db = fr_pt_dist(p, b);
+
+	memset(&seg, 0, sizeof(seg));
+	seg.v = v;
+	seg.n = 2;
+	seg.s = &s;
+	{
+		test_heap	h;
+		fr_env		e = test_env(&h);
+		fr_prep		tmp = seg;
+
+		/* the segment's direction and length exactly as the engine prepares them */
+		assert_int_equal(fr_prep_segments(&e, &tmp), FR_OK);
+		s = tmp.s[0];
+		fr_free(&e, tmp.s);
+	}
+	fr_interval_core(p, a, &s, eps, da <= eps, db <= eps, da2, &lo1, &hi1);
+	fr_interval_select_one(p, a, &s, eps, da, db, &lo2, &hi2);
+	if (memcmp(&lo1, &lo2, sizeof(double)) != 0 || memcmp(&hi1, &hi2, sizeof(double)) != 0)
+		fail_msg("p=(%.17g,%.17g) a=(%.17g,%.17g) b=(%.17g,%.17g) eps=%.17g: "
+				 "branches [%.17g, %.17g], branch-free [%.17g, %.17g]",
+				 p->x, p->y, a->x, a->y, b->x, b->y, eps, lo1, hi1, lo2, hi2);
+	(*count)++;
+}
+
+/*
+ * The batch kernel's free interval equals the plain one on random inputs
+ * and on the degenerate ones: eps exactly at an end's distance or at the
+ * distance to the line (tangency), feet before, on and past the ends,
+ * zero-length segments, tiny and huge scales.
+ */
+static void
+branch_free_interval_matches(void **state)
+{
+	long		count = 0;
+
+	(void) state;
+	test_rng_state = 20261202;
+	for (int it = 0; it < 200000; it++)
+	{
+		double		scale = pow(10.0, test_uniform(-12, 12));
+		fr_pt		p = {test_uniform(-1, 1) * scale, test_uniform(-1, 1) * scale, 0},
+					a = {test_uniform(-1, 1) * scale, test_uniform(-1, 1) * scale, 0},
+					b = {test_uniform(-1, 1) * scale, test_uniform(-1, 1) * scale, 0};
+		double		eps;
+		int			kind = it % 8;
+
+		if (kind == 1)
+			b = a;				/* zero-length segment */
+		else if (kind == 2)
+			b.y = a.y;			/* axis-parallel, p's foot easy to place */
+		if (kind == 3)
+		{
+			/* 3-D */
+			p.z = test_uniform(-1, 1) * scale;
+			a.z = test_uniform(-1, 1) * scale;
+			b.z = test_uniform(-1, 1) * scale;
+		}
+		switch (it % 5)
+		{
+			case 0:
+			case 1:
+				/* exactly at an end's distance, or one double either side */
+				eps = fr_pt_dist(&p, it % 5 == 0 ? &a : &b);
+				if (it % 3 == 1)
+					eps = nextafter(eps, INFINITY);
+				else if (it % 3 == 2)
+					eps = nextafter(eps, 0);
+				break;
+			case 2:
+				{
+					/* the distance to the line: tangency, then one double either side */
+					double		dx = b.x - a.x,
+								dy = b.y - a.y,
+								l = hypot(dx, dy);
+
+					eps = l > 0 ? fabs(dx * (a.y - p.y) - dy * (a.x - p.x)) / l : fr_pt_dist(&p, &a);
+					if (it % 3 == 1)
+						eps = nextafter(eps, INFINITY);
+					else if (it % 3 == 2)
+						eps = nextafter(eps, 0);
+					break;
+				}
+			default:
+				eps = test_uniform(0, 2) * scale;
+		}
+		interval_both_ways(&p, &a, &b, eps, &count);
+	}
+	print_message("branch-free free intervals checked: %ld\n", count);
+}
+
 int
 main(void)
 {
 	const struct CMUnitTest tests[] = {
+		cmocka_unit_test(branch_free_interval_matches),
 		cmocka_unit_test(pruned_agrees_with_plain),
 		cmocka_unit_test(fast_distance_equals_reference),
 		cmocka_unit_test(simplified_bounds_keep_the_result),
