@@ -47,6 +47,10 @@ PG_CONFIG ?= $(firstword $(wildcard /usr/lib/postgresql/15/bin/pg_config) pg_con
 PGXS := $(shell $(PG_CONFIG) --pgxs)
 include $(PGXS)
 
+# PGXS tracks no header dependencies: a change to a header (a struct's
+# layout, say) must rebuild every object and JIT bitcode file that sees it.
+$(OBJS) $(OBJS:.o=.bc): $(wildcard src/core/*.h) $(wildcard src/*.h)
+
 sql/frechet_ext--$(EXTVERSION).sql: sql/frechet_ext.sql
 	cp $< $@
 

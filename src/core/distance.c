@@ -348,9 +348,10 @@ fast_probe(fast *f, double eps, bool collect, bool *yes)
 	{
 		if (f->stats)
 			f->stats->decisions++;
+		/* openings at or below eps cannot matter, whatever the answer */
 		f->cands.count = 0;
 		f->cands.overflow = false;
-		f->cands.lo = f->lo;
+		f->cands.lo = fmax(f->lo, eps);
 		f->cands.hi = f->hi;
 		st = fr_decide_pruned(f->env, f->p, f->q, eps, f->work, yes, f->stats,
 							  collect ? &f->cands : NULL);

@@ -19,14 +19,42 @@ typedef struct fr_pt
 				z;
 } fr_pt;
 
-/* A segment from vertex k to k+1: unit direction and length (len 0: a point). */
+/*
+ * A segment from vertex k to k+1: unit direction, length and its
+ * reciprocal (all 0: a point).  Free-interval ends are arc lengths times
+ * inv, one multiplication where a division would cost many cycles; every
+ * decider uses the same inv, so they agree exactly.
+ */
 typedef struct fr_seg
 {
 	double		ux,
 				uy,
 				uz,
-				len;
+				len,
+				inv;
 } fr_seg;
+
+/* The segment from a to b, as every part of the engine computes it. */
+static inline fr_seg
+fr_seg_between(const fr_pt *a, const fr_pt *b)
+{
+	double		dx = b->x - a->x,
+				dy = b->y - a->y,
+				dz = b->z - a->z;
+	double		len = sqrt(dx * dx + dy * dy + dz * dz);
+	fr_seg		s = {0, 0, 0, 0, 0};
+
+	/* a zero-length segment (repeated fix) is a point: len 0, no direction */
+	if (len >= 0x1p-1022)
+	{
+		s.ux = dx / len;
+		s.uy = dy / len;
+		s.uz = dz / len;
+		s.len = len;
+		s.inv = 1.0 / len;
+	}
+	return s;
+}
 
 /* A curve shifted to a local origin, with its segments precomputed. */
 typedef struct fr_prep
@@ -189,6 +217,24 @@ fr_within_d2(const fr_within *w, double d2)
 double		fr_point_segment_dist(const fr_pt *p, const fr_pt *a, const fr_seg *s,
 								  const fr_pt *b);
 
+/*
+ * Length of a cross product (the distance from a point to a line, when one
+ * factor is a unit vector).  In the plane only cz is non-zero, and its
+ * absolute value is the length with no square root (and no underflow of
+ * its square); every part of the engine takes the length this way.
+ */
+static inline double
+fr_cross_norm(double cx, double cy, double cz)
+{
+	double		hh = cx * cx + cy * cy;
+
+	return hh == 0.0 ? fabs(cz) : sqrt(hh + cz * cz);
+}
+
+/* The smallest eps at which the deciders find p's free interval on a-b non-empty. */
+double		fr_point_segment_opening(const fr_pt *p, const fr_pt *a, const fr_seg *s,
+									 const fr_pt *b);
+
 /* Largest double below 1. */
 #define FR_ONE_MINUS (1.0 - DBL_EPSILON / 2)
 
@@ -269,7 +315,7 @@ fr_interval_core(const fr_pt *p, const fr_pt *a, const fr_seg *s, double eps,
 					cy = s->uz * wx - s->ux * wz,
 					cz = s->ux * wy - s->uy * wx;
 
-		h = sqrt(cx * cx + cy * cy + cz * cz);
+		h = fr_cross_norm(cx, cy, cz);
 	}
 	disc = (eps - h) * (eps + h);
 	if (disc < 0.0 && h - eps <= FR_TANGENT_SLACK * h)
@@ -307,8 +353,8 @@ fr_interval_core(const fr_pt *p, const fr_pt *a, const fr_seg *s, double eps,
 		if (rhi < foot)
 			rhi = foot;
 	}
-	tlo = in_a ? 0.0 : rlo / s->len;
-	thi = in_b ? 1.0 : rhi / s->len;
+	tlo = in_a ? 0.0 : rlo * s->inv;
+	thi = in_b ? 1.0 : rhi * s->inv;
 	/*
 	 * Endpoints are in or out exactly as their distances say: a free end
 	 * keeps the interval reaching it even when rounding put the other root

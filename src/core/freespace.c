@@ -46,9 +46,16 @@ fr_status_text(fr_status st)
 size_t
 fr_scratch_bytes(size_t n, size_t m)
 {
-	/* vertices and segments of both curves, reachability rows and sources, openings */
-	return (n + m) * (sizeof(fr_pt) + sizeof(fr_seg) + 2 * sizeof(double) + sizeof(int32_t))
-		+ 4096 * sizeof(double) + 256;
+	/* vertices and segments of both curves, the pruning decider's work, openings */
+	size_t		base = (n + m) * (sizeof(fr_pt) + sizeof(fr_seg)) + 64 +
+		fr_prune_work_bytes(n, m) + FR_CANDIDATES * sizeof(double) + 256;
+
+	/*
+	 * A distance may also simplify both curves (an index and a row each)
+	 * and search on simplified curves of at most a quarter of the
+	 * vertices, which may in turn do the same: a third more at most.
+	 */
+	return base + base / 3 + (n + m) * (sizeof(size_t) + sizeof(double));
 }
 
 /*
@@ -90,24 +97,7 @@ static void
 segments_into(fr_prep *out)
 {
 	for (size_t i = 0; i + 1 < out->n; i++)
-	{
-		double		dx = out->v[i + 1].x - out->v[i].x,
-					dy = out->v[i + 1].y - out->v[i].y,
-					dz = out->v[i + 1].z - out->v[i].z;
-		double		len = sqrt(dx * dx + dy * dy + dz * dz);
-		fr_seg	   *s = &out->s[i];
-
-		/* a zero-length segment (repeated fix) is a point: len 0, no direction */
-		if (!(len >= DBL_MIN))
-		{
-			s->ux = s->uy = s->uz = s->len = 0.0;
-			continue;
-		}
-		s->ux = dx / len;
-		s->uy = dy / len;
-		s->uz = dz / len;
-		s->len = len;
-	}
+		out->s[i] = fr_seg_between(&out->v[i], &out->v[i + 1]);
 }
 
 /* Computes the segments of a prepared curve from its vertices (allocating them). */
@@ -351,7 +341,7 @@ foot_and_height(const fr_pt *p, const fr_pt *a, const fr_seg *s,
 				cz = s->ux * wy - s->uy * wx;
 
 	*foot = -(s->ux * wx + s->uy * wy + s->uz * wz);
-	*h = sqrt(cx * cx + cy * cy + cz * cz);
+	*h = fr_cross_norm(cx, cy, cz);
 }
 
 /* Distance from vertex p to the segment a-b (s holds its direction). */
@@ -369,6 +359,42 @@ fr_point_segment_dist(const fr_pt *p, const fr_pt *a, const fr_seg *s, const fr_
 	if (foot >= s->len)
 		return fr_pt_dist(p, b);
 	return h;
+}
+
+/*
+ * The smallest eps at which fr_interval_core finds the free interval of p
+ * against segment a-b non-empty (a critical value of type b, Alt & Godau
+ * 1995, as the deciders see it).  Where the nearest point is an end, that
+ * is the end's distance.  Where it lies inside, the interval opens where
+ * the tangency slack admits it, h - eps <= FR_TANGENT_SLACK h, a few ulps
+ * below the distance h to the line: that double is found exactly (h - eps
+ * is exact there, by Sterbenz's lemma).  Reporting it, not h, spares the
+ * distance search its final bisection over doubles.
+ */
+double
+fr_point_segment_opening(const fr_pt *p, const fr_pt *a, const fr_seg *s, const fr_pt *b)
+{
+	double		foot,
+				h,
+				sh,
+				e;
+
+	if (s->len == 0.0)
+		return fr_pt_dist(p, a);
+	foot_and_height(p, a, s, &foot, &h);
+	if (foot <= 0.0)
+		return fr_pt_dist(p, a);
+	if (foot >= s->len)
+		return fr_pt_dist(p, b);
+	sh = FR_TANGENT_SLACK * h;
+	e = h - sh;
+	if (!(e >= h / 2))
+		return h;				/* not a normal tangency (h tiny or not finite) */
+	while (h - e > sh)
+		e = nextafter(e, INFINITY);
+	while (h - nextafter(e, 0) <= sh)
+		e = nextafter(e, 0);
+	return e;
 }
 
 /* The free interval of p against segment a-b at eps (see fr_interval_core). */

@@ -70,7 +70,10 @@ typedef struct prune_cols
 	double	   *ux,
 			   *uy,
 			   *uz,
-			   *len;			/* n - 1 segments */
+			   *len,
+			   *inv;			/* n - 1 segments */
+	double	   *dist;			/* dist[i] = |p[i] - q[row[i]]|, from the last batch over i */
+	int32_t    *row;			/* -1: none yet */
 } prune_cols;
 
 /* State of one pruned decision. */
@@ -80,6 +83,7 @@ typedef struct prune
 	const fr_prep *q;
 	double		eps;
 	prune_cols	c;				/* p as arrays */
+	bool		planar;			/* every z of both curves is 0 */
 	double	   *H;				/* reachable lower end on the current horizontal boundary, per column */
 	double	   *V;				/* ... on the current vertical boundary, per row */
 	int32_t    *Hs;				/* source vertex (of q) of each H */
@@ -105,10 +109,13 @@ carve(void *work, size_t n, size_t m, prune_cols *c, double **H, double **V,
 	c->uy = c->ux + np;
 	c->uz = c->uy + np;
 	c->len = c->uz + np;
-	*H = c->len + np;
+	c->inv = c->len + np;
+	c->dist = c->inv + np;
+	*H = c->dist + np;
 	*V = *H + (n - 1);
 	*Hs = (int32_t *) (*V + (m - 1));
 	*Vs = *Hs + (n - 1);
+	c->row = *Vs + (m - 1);
 }
 
 /*
@@ -142,6 +149,8 @@ fr_prune_setup(void *work, const fr_prep *p, const fr_prep *q)
 		c.uy[i] = real ? p->s[i].uy : 0.0;
 		c.uz[i] = real ? p->s[i].uz : 0.0;
 		c.len[i] = real ? p->s[i].len : 0.0;
+		c.inv[i] = real ? p->s[i].inv : 0.0;
+		c.row[i] = -1;
 	}
 }
 
@@ -201,8 +210,8 @@ passage_value(const fr_pt *x, const fr_pt *y, const fr_pt *a, const fr_seg *s)
  */
 static FR_ALWAYS_INLINE void
 interval_select(double px, double py, double pz, double ax, double ay, double az,
-				double ux, double uy, double uz, double len, double eps,
-				double da, double db, double *lo, double *hi)
+				double ux, double uy, double uz, double len, double inv, double eps,
+				double da, double db, bool planar, double *lo, double *hi)
 {
 	/*
 	 * Each select tests one comparison (conjunctions are nested selects),
@@ -215,7 +224,9 @@ interval_select(double px, double py, double pz, double ax, double ay, double az
 	double		cx = uy * wz - uz * wy,
 				cy = uz * wx - ux * wz,
 				cz = ux * wy - uy * wx;
-	double		h = sqrt(cx * cx + cy * cy + cz * cz);
+	double		hh = cx * cx + cy * cy;
+	/* fr_cross_norm; in the plane hh is 0, so the square root is never needed */
+	double		h = planar ? fabs(cz) : hh == 0.0 ? fabs(cz) : sqrt(hh + cz * cz);
 	double		disc = (eps - h) * (eps + h);
 	double		tangent = h - eps <= FR_TANGENT_SLACK * h ? 0.0 : disc;
 	double		disc0 = disc < 0.0 ? tangent : disc;
@@ -241,8 +252,8 @@ interval_select(double px, double py, double pz, double ax, double ay, double az
 	/* the line misses the disk: an end inside by rounding is all there is */
 	rlo = disc0 < 0.0 ? edge : rlo;
 	rhi = disc0 < 0.0 ? edge : rhi;
-	tlo = da <= eps ? 0.0 : rlo / len;
-	thi = db <= eps ? 1.0 : rhi / len;
+	tlo = da <= eps ? 0.0 : rlo * inv;
+	thi = db <= eps ? 1.0 : rhi * inv;
 	x = tlo > 1.0 ? 1.0 : tlo;
 	tlo = db <= eps ? x : tlo;
 	x = thi < 0.0 ? 0.0 : thi;
@@ -281,7 +292,7 @@ fr_interval_select_one(const fr_pt *p, const fr_pt *a, const fr_seg *s, double e
 					   double da, double db, double *lo, double *hi)
 {
 	interval_select(p->x, p->y, p->z, a->x, a->y, a->z, s->ux, s->uy, s->uz, s->len,
-					eps, da, db, lo, hi);
+					s->inv, eps, da, db, false, lo, hi);
 }
 
 /*
@@ -292,9 +303,10 @@ fr_interval_select_one(const fr_pt *p, const fr_pt *a, const fr_seg *s, double e
  * c0 + k.  The vertex distances are computed once each, as fr_pt_dist
  * computes them.  No branches in the loops, so they vectorise.
  */
-FR_CLONES static void
-row_batch(const prune_cols *c, const fr_prep *q, size_t j, size_t c0, size_t w, double eps,
-		  double *restrict ra, double *restrict rb, double *restrict tc, double *restrict td)
+static FR_ALWAYS_INLINE void
+row_batch_body(const prune_cols *c, const fr_prep *q, size_t j, size_t c0, size_t w, double eps,
+			   double *restrict ra, double *restrict rb, double *restrict tc, double *restrict td,
+			   bool planar)
 {
 	const fr_pt qa = q->v[j],
 				qb = q->v[j + 1];
@@ -305,32 +317,68 @@ row_batch(const prune_cols *c, const fr_prep *q, size_t j, size_t c0, size_t w, 
 			   *restrict ux = c->ux + c0,
 			   *restrict uy = c->uy + c0,
 			   *restrict uz = c->uz + c0,
-			   *restrict len = c->len + c0;
+			   *restrict len = c->len + c0,
+			   *restrict inv = c->inv + c0;
 	double		dt[CHUNK + BATCH_STEP],	/* |p[c0+k] - q[j+1]| */
 				db[CHUNK + BATCH_STEP];	/* |p[c0+k] - q[j]| */
+
+	double	   *restrict dist = c->dist + c0;
+	int32_t    *restrict row = c->row + c0;
 
 	w = w / BATCH_STEP * BATCH_STEP;
 	for (size_t k = 0; k < w + BATCH_STEP; k++)
 	{
 		double		tx = x[k] - qb.x,
 					ty = y[k] - qb.y,
-					tz = z[k] - qb.z,
-					bx = x[k] - qa.x,
-					by = y[k] - qa.y,
-					bz = z[k] - qa.z;
+					tz = z[k] - qb.z;
 
 		dt[k] = sqrt(tx * tx + ty * ty + tz * tz);
-		db[k] = sqrt(bx * bx + by * by + bz * bz);
+		db[k] = dist[k];
 	}
+	/*
+	 * The distances to q[j] were the previous row's distances to its
+	 * q[j+1] wherever a batch covered the column then: only the others are
+	 * computed here (same formula, so the same values).
+	 */
+	for (size_t k = 1; k < w + BATCH_STEP; k++)
+		if (row[k] != (int32_t) j)
+		{
+			double		bx = x[k] - qa.x,
+						by = y[k] - qa.y,
+						bz = z[k] - qa.z;
+
+			db[k] = sqrt(bx * bx + by * by + bz * bz);
+		}
 	for (size_t k = 0; k < w; k++)
 	{
 		interval_select(x[k + 1], y[k + 1], z[k + 1], qa.x, qa.y, qa.z,
-						qs.ux, qs.uy, qs.uz, qs.len, eps, db[k + 1], dt[k + 1],
-						&ra[k], &rb[k]);
+						qs.ux, qs.uy, qs.uz, qs.len, qs.inv, eps, db[k + 1], dt[k + 1],
+						planar, &ra[k], &rb[k]);
 		interval_select(qb.x, qb.y, qb.z, x[k], y[k], z[k],
-						ux[k], uy[k], uz[k], len[k], eps, dt[k], dt[k + 1],
-						&tc[k], &td[k]);
+						ux[k], uy[k], uz[k], len[k], inv[k], eps, dt[k], dt[k + 1],
+						planar, &tc[k], &td[k]);
 	}
+	for (size_t k = 0; k < w + BATCH_STEP; k++)
+	{
+		dist[k] = dt[k];
+		row[k] = (int32_t) (j + 1);
+	}
+}
+
+/* The batch for curves in the plane (every z is 0): no z terms to speak of. */
+FR_CLONES static void
+row_batch_planar(const prune_cols *c, const fr_prep *q, size_t j, size_t c0, size_t w, double eps,
+				 double *restrict ra, double *restrict rb, double *restrict tc, double *restrict td)
+{
+	row_batch_body(c, q, j, c0, w, eps, ra, rb, tc, td, true);
+}
+
+/* The batch for curves in space. */
+FR_CLONES static void
+row_batch_space(const prune_cols *c, const fr_prep *q, size_t j, size_t c0, size_t w, double eps,
+				double *restrict ra, double *restrict rb, double *restrict tc, double *restrict td)
+{
+	row_batch_body(c, q, j, c0, w, eps, ra, rb, tc, td, false);
 }
 
 /*
@@ -396,7 +444,10 @@ solve_cells(prune *s, size_t x0, size_t x1, size_t y0, size_t y1)
 			c1 = c0 + (c1 - c0 + BATCH_STEP - 1) / BATCH_STEP * BATCH_STEP;
 			if (c1 > c0 + CHUNK)
 				c1 = c0 + CHUNK;
-			row_batch(&s->c, q, j, c0, c1 - c0, eps, ra, rb, tc, td);
+			if (s->planar)
+				row_batch_planar(&s->c, q, j, c0, c1 - c0, eps, ra, rb, tc, td);
+			else
+				row_batch_space(&s->c, q, j, c0, c1 - c0, eps, ra, rb, tc, td);
 			if (c1 > x1)
 				c1 = x1;
 
@@ -431,7 +482,7 @@ solve_cells(prune *s, size_t x0, size_t x1, size_t y0, size_t y1)
 				if (nlr == FR_EMPTY && s->cands)
 				{
 					if (a > b)
-						note(s, fr_point_segment_dist(&pv[i + 1], qa, qs, qb));
+						note(s, fr_point_segment_opening(&pv[i + 1], qa, qs, qb));
 					else
 						note(s, passage_value(&pv[ls], &pv[i + 1], qa, qs));
 				}
@@ -449,7 +500,7 @@ solve_cells(prune *s, size_t x0, size_t x1, size_t y0, size_t y1)
 				if (nbr == FR_EMPTY && s->cands)
 				{
 					if (c > d)
-						note(s, fr_point_segment_dist(qb, &pv[i], &p->s[i], &pv[i + 1]));
+						note(s, fr_point_segment_opening(qb, &pv[i], &p->s[i], &pv[i + 1]));
 					else
 						note(s, passage_value(&qv[bs], qb, &pv[i], &p->s[i]));
 				}
@@ -635,6 +686,11 @@ fr_decide_pruned(const fr_env *env, const fr_prep *p, const fr_prep *q, double e
 	s.q = q;
 	s.eps = eps;
 	carve(work, n, m, &s.c, &s.H, &s.V, &s.Hs, &s.Vs);
+	s.planar = true;
+	for (size_t i = 0; i < n && s.planar; i++)
+		s.planar = p->v[i].z == 0.0;
+	for (size_t j = 0; j < m && s.planar; j++)
+		s.planar = q->v[j].z == 0.0;
 	s.cands = cands;
 	s.stats = stats;
 	fr_poll_init(&poll, env);
@@ -667,6 +723,7 @@ fr_decide_pruned(const fr_env *env, const fr_prep *p, const fr_prep *q, double e
 size_t
 fr_prune_work_bytes(size_t n, size_t m)
 {
-	/* p as padded arrays (3 per vertex, 4 per segment), H, V and their sources */
-	return 7 * (n + PAD) * sizeof(double) + (n + m) * (sizeof(double) + sizeof(int32_t)) + 64;
+	/* p as padded arrays (3 per vertex, 5 per segment, distance cache), H, V and their sources */
+	return 9 * (n + PAD) * sizeof(double) + (n + PAD) * sizeof(int32_t) +
+		(n + m) * (sizeof(double) + sizeof(int32_t)) + 64;
 }

@@ -25,10 +25,6 @@ piece_fits(const fr_env *env, const fr_prep *c, size_t i, size_t j, double tol,
 				seg;
 	fr_pt		ends[2];
 	fr_seg		s;
-	double		dx,
-				dy,
-				dz,
-				len;
 
 	if (j <= i + 1)
 	{
@@ -40,19 +36,7 @@ piece_fits(const fr_env *env, const fr_prep *c, size_t i, size_t j, double tol,
 	piece.n = j - i + 1;
 	ends[0] = c->v[i];
 	ends[1] = c->v[j];
-	dx = ends[1].x - ends[0].x;
-	dy = ends[1].y - ends[0].y;
-	dz = ends[1].z - ends[0].z;
-	len = sqrt(dx * dx + dy * dy + dz * dz);
-	if (len > 0)
-	{
-		s.ux = dx / len;
-		s.uy = dy / len;
-		s.uz = dz / len;
-		s.len = len;
-	}
-	else
-		s.ux = s.uy = s.uz = s.len = 0;
+	s = fr_seg_between(&ends[0], &ends[1]);
 	seg.v = ends;
 	seg.s = &s;
 	seg.n = 2;

@@ -386,8 +386,7 @@ free_interval_matches_sampled_distances(void **state)
 					lp = {p.x - off, p.y - off, 0},
 					la = {a.x - off, a.y - off, 0},
 					lb = {b.x - off, b.y - off, 0};
-		double		len = hypot(lb.x - la.x, lb.y - la.y);
-		fr_seg		s = {(lb.x - la.x) / len, (lb.y - la.y) / len, 0, len};
+		fr_seg		s = fr_seg_between(&la, &lb);
 		double		eps = test_uniform(0, 12),
 					lo,
 					hi;
@@ -418,7 +417,7 @@ free_interval_at_tangency_is_a_point(void **state)
 	fr_pt		p = {3.7, 2.5, 0},
 				a = {0, 0, 0},
 				b = {10, 0, 0};
-	fr_seg		s = {1, 0, 0, 10};
+	fr_seg		s = fr_seg_between(&a, &b);
 	double		lo,
 				hi;
 
