@@ -441,9 +441,10 @@ simplified_bracket(fast *f)
 		/* simplify the prepared coordinates: a view of them as raw curves */
 		cp = (fr_curve) {&f->p->v[0].x, f->p->n, 3};
 		cq = (fr_curve) {&f->q->v[0].x, f->q->n, 3};
-		st = fr_simplify(env, &cp, delta, &kp, &np);
+		/* each simplification stops as soon as it cannot pay */
+		st = fr_simplify_upto(env, &cp, delta, f->p->n / 4, &kp, &np);
 		if (st == FR_OK && np * 4 <= f->p->n)
-			st = fr_simplify(env, &cq, delta, &kq, &nq);
+			st = fr_simplify_upto(env, &cq, delta, f->q->n / 4, &kq, &nq);
 		if (st == FR_OK && kq != NULL && nq * 4 <= f->q->n)
 		{
 			pays = true;

@@ -393,6 +393,13 @@ fr_status	fr_row_step(const fr_prep *p, const fr_prep *q, size_t j, double eps,
 fr_status	fr_decide_prepared(const fr_env *env, const fr_prep *p, const fr_prep *q,
 							   double eps, double *row, bool *result, fr_stats *stats);
 
+/* fr_simplify, giving up once more than max_keep vertices are kept (simplify.c). */
+fr_status	fr_simplify_upto(const fr_env *env, const fr_curve *c, double tol, size_t max_keep,
+							 size_t **keep, size_t *count);
+
+/* The plain decision on a one-row free space, as simplify.c runs it (for tests). */
+bool		fr_one_row_decide(const fr_prep *piece, const fr_prep *seg, double eps, double *row);
+
 /* Opening values (critical values) a pruned decision reports inside (lo, hi). */
 typedef struct fr_cands
 {

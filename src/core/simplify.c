@@ -16,10 +16,76 @@
 
 #include "fr_internal.h"
 
+/*
+ * The plain decider (fr_decide_prepared) on a free space of one row: the
+ * piece along the columns, one segment along the row.  Tops of cells feed
+ * nothing in a single row, so only the last one, which carries the answer,
+ * is computed: one free interval per vertex instead of two, with the same
+ * operations in the same order as fr_row_step, so the answers are the same
+ * (test_simplify compares them).
+ */
+static bool
+one_row_decide(const fr_prep *piece, const fr_prep *seg, double eps, double *row)
+{
+	const size_t n = piece->n;
+	const fr_pt *pv = piece->v,
+			   *qa = &seg->v[0],
+			   *qb = &seg->v[1];
+	const fr_seg *qs = &seg->s[0];
+	bool		open;
+	double		lr,
+				top = FR_EMPTY;
+
+	if (isinf(eps))
+		return true;
+	if (fr_pt_dist(&pv[0], qa) > eps || fr_pt_dist(&pv[n - 1], qb) > eps)
+		return false;
+	fr_bottom_edge(piece, seg, eps, row);
+	lr = fr_left_edge(piece, seg, 0, eps, &open);
+	if (lr != 0.0)
+		lr = FR_EMPTY;
+	for (size_t i = 0; i + 1 < n; i++)
+	{
+		double		br = row[i],
+					a,
+					b,
+					nlr;
+
+		if (br == FR_EMPTY && lr == FR_EMPTY)
+			return false;		/* the bottom's reachable part is a prefix: nothing enters later */
+		fr_free_interval(&pv[i + 1], qa, qs, qb, eps, &a, &b);
+		if (br != FR_EMPTY)
+			nlr = a <= b ? a : FR_EMPTY;
+		else
+		{
+			nlr = a > lr ? a : lr;
+			if (nlr > b)
+				nlr = FR_EMPTY;
+		}
+		if (i + 2 == n)
+		{
+			double		c,
+						d;
+
+			/* the last cell's top: vertex q[1] against segment p[i] */
+			fr_free_interval(qb, &pv[i], &piece->s[i], &pv[i + 1], eps, &c, &d);
+			if (lr != FR_EMPTY)
+				top = c <= d ? c : FR_EMPTY;
+			else
+			{
+				top = c > br ? c : br;
+				if (top > d)
+					top = FR_EMPTY;
+			}
+		}
+		lr = nlr;
+	}
+	return lr != FR_EMPTY || top != FR_EMPTY;
+}
+
 /* Is the piece c[i..j] within tol of the segment from c[i] to c[j]? */
-static fr_status
-piece_fits(const fr_env *env, const fr_prep *c, size_t i, size_t j, double tol,
-		   double *row, bool *fits)
+static void
+piece_fits(const fr_prep *c, size_t i, size_t j, double tol, double *row, bool *fits)
 {
 	fr_prep		piece,
 				seg;
@@ -29,7 +95,7 @@ piece_fits(const fr_env *env, const fr_prep *c, size_t i, size_t j, double tol,
 	if (j <= i + 1)
 	{
 		*fits = true;			/* a single segment is its own simplification */
-		return FR_OK;
+		return;
 	}
 	piece.v = c->v + i;
 	piece.s = c->s + i;
@@ -40,13 +106,35 @@ piece_fits(const fr_env *env, const fr_prep *c, size_t i, size_t j, double tol,
 	seg.v = ends;
 	seg.s = &s;
 	seg.n = 2;
-	/* the piece runs along the rows: a row of j - i cells */
-	return fr_decide_prepared(env, &piece, &seg, tol, row, fits, NULL);
+	/* the piece runs along the columns: a row of j - i cells */
+	*fits = one_row_decide(&piece, &seg, tol, row);
+}
+
+/*
+ * For tests: the one-row decision on a curve against a segment (two or
+ * more vertices each), which must equal fr_decide_prepared's.
+ */
+bool
+fr_one_row_decide(const fr_prep *piece, const fr_prep *seg, double eps, double *row)
+{
+	return one_row_decide(piece, seg, eps, row);
 }
 
 /* Simplification of a curve within tol; see the top of this file. */
 fr_status
 fr_simplify(const fr_env *env, const fr_curve *c, double tol, size_t **keep, size_t *count)
+{
+	return fr_simplify_upto(env, c, tol, c->n, keep, count);
+}
+
+/*
+ * The same, giving up once more than max_keep vertices are kept: then
+ * *count is max_keep + 1 and *keep holds only the first of them.  For
+ * callers that want a simplification only when it is short.
+ */
+fr_status
+fr_simplify_upto(const fr_env *env, const fr_curve *c, double tol, size_t max_keep,
+				 size_t **keep, size_t *count)
 {
 	fr_prep		p,
 				unused;
@@ -85,9 +173,7 @@ fr_simplify(const fr_env *env, const fr_curve *c, double tol, size_t **keep, siz
 		{
 			size_t		j = i + step < p.n - 1 ? i + step : p.n - 1;
 
-			st = piece_fits(env, &p, i, j, tol, row, &fits);
-			if (st != FR_OK)
-				goto done;
+			piece_fits(&p, i, j, tol, row, &fits);
 			if (fits)
 				good = j;
 			else
@@ -106,9 +192,7 @@ fr_simplify(const fr_env *env, const fr_curve *c, double tol, size_t **keep, siz
 		{
 			size_t		mid = good + (bad - good) / 2;
 
-			st = piece_fits(env, &p, i, mid, tol, row, &fits);
-			if (st != FR_OK)
-				goto done;
+			piece_fits(&p, i, mid, tol, row, &fits);
 			if (fits)
 				good = mid;
 			else
@@ -121,6 +205,8 @@ fr_simplify(const fr_env *env, const fr_curve *c, double tol, size_t **keep, siz
 		}
 		out[k++] = good;
 		i = good;
+		if (k > max_keep)
+			break;
 	}
 
 done:

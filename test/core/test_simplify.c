@@ -12,6 +12,7 @@
 #include <cmocka.h>
 
 #include "testutil.h"
+#include "fr_internal.h"
 
 /* Simplifies and returns the kept curve's coordinates (count in *k). */
 static double *
@@ -108,10 +109,74 @@ noisy_street_shrinks(void **state)
 	free(c);
 }
 
+/*
+ * The one-row decision simplify.c runs on each piece equals the plain
+ * decider on the same free space, on random pieces and at eps exactly at
+ * a vertex's distance to the segment's line or ends and one double either
+ * side.
+ */
+static void
+one_row_equals_plain(void **state)
+{
+	long		count = 0,
+				accepted = 0;
+
+	(void) state;
+	test_rng_state = 7;
+	for (int it = 0; it < 20000; it++)
+	{
+		size_t		n = 2 + it % 23;
+		double	   *c = test_walk(n, 0, 0, 1 + it % 5);
+		double		ends[4] = {c[0] + test_uniform(-0.5, 0.5), c[1] + test_uniform(-0.5, 0.5),
+		c[2 * n - 2] + test_uniform(-0.5, 0.5), c[2 * n - 1] + test_uniform(-0.5, 0.5)};
+		fr_curve	piece = {c, n, 2},
+					seg = {ends, 2, 2};
+		test_heap	h;
+		fr_env		e = test_env(&h);
+		fr_prep		pp,
+					ps;
+		double	   *row = malloc(n * sizeof(double));
+		double		eps;
+		bool		plain,
+					fast;
+		size_t		k = 1 + (size_t) it % (n - 1);
+
+		assert_int_equal(fr_prepare_pair(&e, &piece, &seg, &pp, &ps), FR_OK);
+		switch (it % 4)
+		{
+			case 0:
+				eps = test_uniform(0.1, 4);
+				break;
+			case 1:
+				eps = fr_point_segment_opening(&pp.v[k], &ps.v[0], &ps.s[0], &ps.v[1]);
+				break;
+			case 2:
+				eps = nextafter(fr_point_segment_opening(&pp.v[k], &ps.v[0], &ps.s[0], &ps.v[1]), 0);
+				break;
+			default:
+				eps = fr_pt_dist(&pp.v[k], &ps.v[it % 8 < 4 ? 0 : 1]);
+				break;
+		}
+		assert_int_equal(fr_decide_prepared(&e, &pp, &ps, eps, row, &plain, NULL), FR_OK);
+		fast = fr_one_row_decide(&pp, &ps, eps, row);
+		if (fast != plain)
+			fail_msg("n=%zu eps=%.17g: one row %d, plain %d", n, eps, fast, plain);
+		count++;
+		accepted += fast;
+		fr_release_pair(&e, &pp, &ps);
+		free(row);
+		free(c);
+	}
+	print_message("one-row decisions compared: %ld (%ld accepted)\n", count, accepted);
+	/* both answers must be well represented, or the comparison says little */
+	assert_true(accepted > count / 10 && accepted < count - count / 10);
+}
+
 int
 main(void)
 {
 	const struct CMUnitTest tests[] = {
+		cmocka_unit_test(one_row_equals_plain),
 		cmocka_unit_test(within_tolerance),
 		cmocka_unit_test(straight_line_keeps_its_ends),
 		cmocka_unit_test(noisy_street_shrinks),
