@@ -451,6 +451,35 @@ solve_cells(prune *s, size_t x0, size_t x1, size_t y0, size_t y1)
 			if (c1 > x1)
 				c1 = x1;
 
+			if (s->cands == NULL)
+			{
+				/*
+				 * Nothing to report: sources are not kept, and the
+				 * propagation below (the same rules as the branching one
+				 * after it, written as selects) has no branch but the
+				 * loop's.  A cell nothing enters yields empty outputs here
+				 * as well.
+				 */
+				for (; i < c1 && (i <= hhi || lr != FR_EMPTY); i++)
+				{
+					double		br = s->H[i],
+								a = ra[i - c0],
+								b = rb[i - c0],
+								c = tc[i - c0],
+								d = td[i - c0];
+					double		m = (br != FR_EMPTY) | (a >= lr) ? a : lr,
+								t = (lr != FR_EMPTY) | (c >= br) ? c : br;
+					double		nbr = t <= d ? t : FR_EMPTY;
+
+					visited += (br != FR_EMPTY) | (lr != FR_EMPTY);
+					lr = m <= b ? m : FR_EMPTY;
+					s->H[i] = nbr;
+					nlo = (nlo == x1) & (nbr != FR_EMPTY) ? i : nlo;
+					nhi = nbr != FR_EMPTY ? i : nhi;
+				}
+				continue;
+			}
+
 			for (; i < c1 && (i <= hhi || lr != FR_EMPTY); i++)
 			{
 				double		br = s->H[i],
