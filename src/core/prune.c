@@ -400,7 +400,8 @@ solve_cells(prune *s, size_t x0, size_t x1, size_t y0, size_t y1)
 	const double eps = s->eps;
 	size_t		hlo = x1,
 				hhi = x0,
-				visited = 0;
+				visited = 0,
+				polled = 0;
 	double		ra[CHUNK],
 				rb[CHUNK],
 				tc[CHUNK],
@@ -550,11 +551,19 @@ solve_cells(prune *s, size_t x0, size_t x1, size_t y0, size_t y1)
 		s->Vs[j] = ls;
 		hlo = nlo;
 		hhi = nhi;
+		/*
+		 * Poll row by row: a sweep that starts sparse may still cover a
+		 * large part of the diagram, and cancelling must not wait for it.
+		 */
+		if (fr_poll_add(s->poll, visited - polled + 1))
+		{
+			s->stop = true;
+			break;
+		}
+		polled = visited;
 	}
 	if (s->stats)
 		s->stats->cells += visited;
-	if (fr_poll_add(s->poll, visited + (y1 - y0)))
-		s->stop = true;
 }
 
 /* Is every cell of the horizontal line y = j, columns [x0,x1), free (vertices within eps)? */

@@ -554,6 +554,40 @@ interrupt_is_polled_often(void **state)
 	free(b);
 }
 
+/*
+ * Engine contract: the pruning decider polls as often, also when its sweep
+ * starts from a few reachable cells and then covers most of the diagram
+ * (the curves part at once, then wander together within eps).
+ */
+static void
+pruned_sweep_is_polled_often(void **state)
+{
+	size_t		n = 2000;
+	double	   *a = malloc(2 * n * sizeof(double)),
+			   *b = malloc(2 * n * sizeof(double));
+	fr_curve	p = {a, n, 2},
+				q = {b, n, 2};
+	test_heap	h;
+	fr_env		e = test_env(&h);
+	fr_stats	st = {0};
+	bool		yes;
+
+	a[0] = a[1] = b[0] = b[1] = 0;
+	for (size_t i = 1; i < n; i++)
+	{
+		a[2 * i] = 20 + test_uniform(-2, 2);
+		a[2 * i + 1] = test_uniform(-2, 2);
+		b[2 * i] = 20 + test_uniform(-2, 2);
+		b[2 * i + 1] = test_uniform(-2, 2);
+	}
+	assert_int_equal(fr_decide_exact(&e, &p, &q, 8, &yes, &st), FR_OK);
+	assert_true(yes);
+	assert_true(st.cells >= (uint64_t) (n - 1) * (n - 1) / 2);
+	assert_true((uint64_t) h.interrupt_calls >= st.cells / FR_INTERRUPT_CELLS);
+	free(a);
+	free(b);
+}
+
 /* Engine contract: a failed allocation is reported and nothing leaks. */
 static void
 allocation_failure_is_reported(void **state)
@@ -655,6 +689,7 @@ main(void)
 		cmocka_unit_test(discrete_matches_its_definition),
 		cmocka_unit_test(interrupt_stops_and_frees),
 		cmocka_unit_test(interrupt_is_polled_often),
+		cmocka_unit_test(pruned_sweep_is_polled_often),
 		cmocka_unit_test(allocation_failure_is_reported),
 		cmocka_unit_test(three_dimensional_lift),
 		cmocka_unit_test(infinite_eps_and_invalid_input),
