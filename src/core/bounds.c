@@ -473,6 +473,17 @@ greedy_coupling(const fr_curve *p, const fr_curve *q, double lim)
 	return true;
 }
 
+/* Squared distance between two vertices of dim coordinates. */
+static inline double
+vertex_dist2(const double *v, const double *a, int dim)
+{
+	double		s = 0.0;
+
+	for (int k = 0; k < dim; k++)
+		s += (a[k] - v[k]) * (a[k] - v[k]);
+	return s;
+}
+
 /*
  * Squared distance from vertex v to segment a-b (dim coordinates each), no
  * square root; the nearest point is clamped to the segment.
@@ -550,7 +561,9 @@ vertex_far_dim(const fr_curve *c, const fr_curve *d, double lim, size_t budget, 
 				if (budget-- == 0)
 					return false;
 				a = d->coords + j * dim;
-				if (point_segment_dist2(v, a, d->n > 1 ? a + dim : a, dim) <= lim2)
+				/* the segment's first vertex often settles it, with no division */
+				if (vertex_dist2(v, a, dim) <= lim2 ||
+					point_segment_dist2(v, a, d->n > 1 ? a + dim : a, dim) <= lim2)
 				{
 					close = true;
 					hint = j;
