@@ -326,6 +326,8 @@ typedef struct fast
 	const fr_prep *q;
 	void	   *work;
 	fr_cands	cands;
+	fr_cands	next;			/* openings kept from the last rejected probe */
+	double	   *list;			/* a round's sorted, distinct openings */
 	fr_stats   *stats;
 	double		lo;
 	double		hi;
@@ -546,21 +548,41 @@ fast_search(fast *f, bool confirm_first, double *result, bool *rejected)
 			return st;
 	}
 
+	/*
+	 * Every probe of a round collects openings too: a rejected probe's
+	 * openings are those of the next round (it sets lo), so no round but
+	 * the first needs a probe of its own at lo.  A round whose probes are
+	 * all accepted leaves no opening of its list inside, so it ends the
+	 * search.
+	 */
+	bool		pending = false;
+
 	for (int round = 0; round < 64; round++)
 	{
 		size_t		a,
 					b,
 					k = 0;
+		bool		rejected_one = false,
+					complete;
 
-		st = fast_probe(f, f->lo, true, &yes);
-		if (st != FR_OK)
-			return st;
+		if (!pending)
+		{
+			st = fast_probe(f, f->lo, true, &yes);
+			if (st != FR_OK)
+				return st;
+		}
+		else
+			memcpy(f->cands.v, f->next.v, f->next.count * sizeof(double));
+		if (pending)
+			f->cands.count = f->next.count;
+		complete = pending || !f->cands.overflow;
+		pending = false;
 		if (f->cands.count == 0)
 			break;
 		qsort(f->cands.v, f->cands.count, sizeof(double), cmp_double);
 		for (size_t i = 0; i < f->cands.count; i++)
-			if (k == 0 || f->cands.v[i] != f->cands.v[k - 1])
-				f->cands.v[k++] = f->cands.v[i];
+			if (k == 0 || f->cands.v[i] != f->list[k - 1])
+				f->list[k++] = f->cands.v[i];
 		if (f->stats)
 			f->stats->candidates += k;
 		a = 0;
@@ -568,7 +590,7 @@ fast_search(fast *f, bool confirm_first, double *result, bool *rejected)
 		while (a < b)
 		{
 			size_t		mid = a + (b - a) / 2;
-			double		v = f->cands.v[mid];
+			double		v = f->list[mid];
 
 			if (!(v > f->lo && v < f->hi))
 			{
@@ -578,14 +600,23 @@ fast_search(fast *f, bool confirm_first, double *result, bool *rejected)
 					b = mid;
 				continue;
 			}
-			st = fast_probe(f, v, false, &yes);
+			st = fast_probe(f, v, true, &yes);
 			if (st != FR_OK)
 				return st;
 			if (yes)
 				b = mid;
 			else
+			{
 				a = mid + 1;
+				rejected_one = true;
+				/* this probe's openings, if complete, are the next round's */
+				pending = !f->cands.overflow;
+				f->next.count = f->cands.count;
+				memcpy(f->next.v, f->cands.v, f->cands.count * sizeof(double));
+			}
 		}
+		if (!rejected_one && complete)
+			break;				/* lo unchanged: its full list held nothing below hi */
 	}
 
 	/*
@@ -663,11 +694,14 @@ fr_distance_prepared(const fr_env *env, const fr_prep *p, const fr_prep *q,
 	f.stats = stats;
 	f.cands.cap = FR_CANDIDATES;
 	f.work = fr_alloc(env, fr_prune_work_bytes(p->n, q->n));
-	f.cands.v = fr_alloc(env, FR_CANDIDATES * sizeof(double));
+	/* openings: as collected, as kept for the next round, as a sorted list */
+	f.cands.v = fr_alloc(env, 3 * FR_CANDIDATES * sizeof(double));
 	if (f.work == NULL || f.cands.v == NULL)
 		st = FR_ENOMEM;
 	else
 	{
+		f.next.v = f.cands.v + FR_CANDIDATES;
+		f.list = f.next.v + FR_CANDIDATES;
 		fr_prune_setup(f.work, p, q);
 		st = fast_distance(&f, result);
 	}

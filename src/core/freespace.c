@@ -48,7 +48,7 @@ fr_scratch_bytes(size_t n, size_t m)
 {
 	/* vertices and segments of both curves, the pruning decider's work, openings */
 	size_t		base = (n + m) * (sizeof(fr_pt) + sizeof(fr_seg)) + 64 +
-		fr_prune_work_bytes(n, m) + FR_CANDIDATES * sizeof(double) + 256;
+		fr_prune_work_bytes(n, m) + 3 * FR_CANDIDATES * sizeof(double) + 256;
 
 	/*
 	 * A distance may also simplify both curves (an index and a row each)
