@@ -493,7 +493,8 @@ simplified_bracket(fast *f)
 static fr_status
 fast_search(fast *f, bool confirm_first, double *result, bool *rejected)
 {
-	bool		yes;
+	bool		yes,
+				pending = false;	/* the next round's openings are at hand */
 	fr_status	st;
 
 	f->lo = fmax(fr_pt_dist(&f->p->v[0], &f->q->v[0]),
@@ -555,8 +556,6 @@ fast_search(fast *f, bool confirm_first, double *result, bool *rejected)
 	 * all accepted leaves no opening of its list inside, so it ends the
 	 * search.
 	 */
-	bool		pending = false;
-
 	for (int round = 0; round < 64; round++)
 	{
 		size_t		a,

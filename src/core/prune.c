@@ -468,14 +468,14 @@ solve_cells(prune *s, size_t x0, size_t x1, size_t y0, size_t y1)
 								b = rb[i - c0],
 								c = tc[i - c0],
 								d = td[i - c0];
-					double		m = (br != FR_EMPTY) | (a >= lr) ? a : lr,
-								t = (lr != FR_EMPTY) | (c >= br) ? c : br;
+					double		m = ((br != FR_EMPTY) | (a >= lr)) ? a : lr,
+								t = ((lr != FR_EMPTY) | (c >= br)) ? c : br;
 					double		nbr = t <= d ? t : FR_EMPTY;
 
 					visited += (br != FR_EMPTY) | (lr != FR_EMPTY);
 					lr = m <= b ? m : FR_EMPTY;
 					s->H[i] = nbr;
-					nlo = (nlo == x1) & (nbr != FR_EMPTY) ? i : nlo;
+					nlo = ((nlo == x1) & (nbr != FR_EMPTY)) ? i : nlo;
 					nhi = nbr != FR_EMPTY ? i : nhi;
 				}
 				continue;
