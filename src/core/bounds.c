@@ -317,11 +317,19 @@ fr_convex_hull(const fr_curve *c, double *sorted, double *hull)
 static double
 curve_box_gap(const fr_curve *c, const fr_key *key)
 {
-	double		h = 0.0;
+	double		h2 = 0.0;
 
+	/* the largest square, then one root: sqrt is monotone, so the result is the same */
 	for (size_t i = 0; i < c->n; i++)
-		h = max2(h, point_box_gap(key, c->coords[i * c->dim], c->coords[i * c->dim + 1]));
-	return h;
+	{
+		double		x = c->coords[i * c->dim],
+					y = c->coords[i * c->dim + 1];
+		double		dx = interval_gap(key->lo[FR_KEY_MIN_X], key->hi[FR_KEY_MAX_X], x, x),
+					dy = interval_gap(key->lo[FR_KEY_MIN_Y], key->hi[FR_KEY_MAX_Y], y, y);
+
+		h2 = max2(h2, dx * dx + dy * dy);
+	}
+	return sqrt(h2);
 }
 
 /* Largest coordinate magnitude of a curve, in all dimensions. */

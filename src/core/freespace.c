@@ -77,19 +77,20 @@ exact_origin(double lo, double hi)
 	return 0.0;
 }
 
-/* Range of one axis over a raw curve. */
+/* Ranges of every axis over a raw curve, in one pass (axes it lacks are 0). */
 static void
-axis_range(const fr_curve *c, int axis, double *lo, double *hi)
+axis_ranges(const fr_curve *c, double *lo, double *hi)
 {
 	for (size_t i = 0; i < c->n; i++)
-	{
-		double		x = axis < c->dim ? c->coords[i * c->dim + axis] : 0.0;
+		for (int axis = 0; axis < 3; axis++)
+		{
+			double		x = axis < c->dim ? c->coords[i * c->dim + axis] : 0.0;
 
-		if (x < *lo)
-			*lo = x;
-		if (x > *hi)
-			*hi = x;
-	}
+			if (x < lo[axis])
+				lo[axis] = x;
+			if (x > hi[axis])
+				hi[axis] = x;
+		}
 }
 
 /* Fills the n - 1 segments of a prepared curve from its vertices. */
@@ -254,6 +255,8 @@ fr_prepare_pair_extra(const fr_env *env, const fr_curve *p, const fr_curve *q,
 					  fr_prep *pp, fr_prep *pq, size_t extra, void **extra_out)
 {
 	double		origin[3],
+				lo[3] = {INFINITY, INFINITY, INFINITY},
+				hi[3] = {-INFINITY, -INFINITY, -INFINITY},
 				extent = 0,
 				scale = 1;
 	size_t		off_pv,
@@ -271,16 +274,13 @@ fr_prepare_pair_extra(const fr_env *env, const fr_curve *p, const fr_curve *q,
 		*extra_out = NULL;
 	if (!fr_pair_valid(p, q))
 		return FR_EINVAL;
+	axis_ranges(p, lo, hi);
+	axis_ranges(q, lo, hi);
 	for (int axis = 0; axis < 3; axis++)
 	{
-		double		lo = INFINITY,
-					hi = -INFINITY;
-
-		axis_range(p, axis, &lo, &hi);
-		axis_range(q, axis, &lo, &hi);
-		origin[axis] = exact_origin(lo, hi);
+		origin[axis] = exact_origin(lo[axis], hi[axis]);
 		/* the largest local coordinate: the origin may be 0 */
-		extent = fmax(extent, fmax(fabs(hi - origin[axis]), fabs(lo - origin[axis])));
+		extent = fmax(extent, fmax(fabs(hi[axis] - origin[axis]), fabs(lo[axis] - origin[axis])));
 	}
 	if (extent > 0 && extent < 0x1p-20)
 	{
