@@ -326,7 +326,8 @@ row_batch_body(const prune_cols *c, const fr_prep *q, size_t j, size_t c0, size_
 	int32_t    *restrict row = c->row + c0;
 
 	w = w / BATCH_STEP * BATCH_STEP;
-	for (size_t k = 0; k < w + BATCH_STEP; k++)
+	/* w + 1 vertices: a vector loop over w, then the last one */
+	for (size_t k = 0; k < w; k++)
 	{
 		double		tx = x[k] - qb.x,
 					ty = y[k] - qb.y,
@@ -335,12 +336,20 @@ row_batch_body(const prune_cols *c, const fr_prep *q, size_t j, size_t c0, size_
 		dt[k] = sqrt(tx * tx + ty * ty + tz * tz);
 		db[k] = dist[k];
 	}
+	{
+		double		tx = x[w] - qb.x,
+					ty = y[w] - qb.y,
+					tz = z[w] - qb.z;
+
+		dt[w] = sqrt(tx * tx + ty * ty + tz * tz);
+		db[w] = dist[w];
+	}
 	/*
 	 * The distances to q[j] were the previous row's distances to its
 	 * q[j+1] wherever a batch covered the column then: only the others are
 	 * computed here (same formula, so the same values).
 	 */
-	for (size_t k = 1; k < w + BATCH_STEP; k++)
+	for (size_t k = 1; k <= w; k++)
 		if (row[k] != (int32_t) j)
 		{
 			double		bx = x[k] - qa.x,
@@ -358,7 +367,7 @@ row_batch_body(const prune_cols *c, const fr_prep *q, size_t j, size_t c0, size_
 						ux[k], uy[k], uz[k], len[k], inv[k], eps, dt[k], dt[k + 1],
 						planar, &tc[k], &td[k]);
 	}
-	for (size_t k = 0; k < w + BATCH_STEP; k++)
+	for (size_t k = 0; k <= w; k++)
 	{
 		dist[k] = dt[k];
 		row[k] = (int32_t) (j + 1);
