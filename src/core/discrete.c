@@ -71,3 +71,72 @@ fr_discrete_distance(const fr_env *env, const fr_curve *p, const fr_curve *q,
 	fr_release_pair(env, &pp, &pq);
 	return st;
 }
+
+/*
+ * A positive filter for the deciders: is there a monotone vertex coupling
+ * (a discrete Fréchet matching, Eiter & Mannila 1994) whose every pair is
+ * within eps by the deciders' own vertex test (fr_pt_dist <= eps)?  Then
+ * the deciders accept eps too: a coupled pair is a free corner of the free
+ * space, a step between coupled pairs stays inside one convex cell (or
+ * along a boundary both of whose ends are free), and the deciders' free
+ * intervals contain a boundary's end exactly when its vertex test passes,
+ * so the corner-to-corner path is one they propagate.  (Hence also
+ * d <= d_discrete.)
+ *
+ * Reachable pairs are swept row by row (rows: vertices of q), visiting
+ * only the columns something can enter; row holds one flag per vertex of
+ * p.  Gives up (false) after budget pairs, so it costs little where it
+ * cannot succeed.  Squared distances are classified without square roots
+ * where plain (fr_within_d2).
+ */
+bool
+fr_coupling_within(const fr_prep *p, const fr_prep *q, double eps, unsigned char *row,
+				   size_t budget)
+{
+	const size_t n = p->n,
+				m = q->n;
+	const fr_within w = fr_within_init(eps);
+	size_t		lo = 0,
+				hi = 0,
+				visited = 0;
+
+	/* row 0: along q[0] from (0, 0) while the pairs stay within eps */
+	if (!fr_within_d2(&w, fr_pt_dist2(&p->v[0], &q->v[0])))
+		return false;
+	row[0] = 1;
+	while (hi + 1 < n && fr_within_d2(&w, fr_pt_dist2(&p->v[hi + 1], &q->v[0])))
+		row[++hi] = 1;
+	for (size_t j = 1; j < m; j++)
+	{
+		size_t		nlo = n,
+					nhi = 0,
+					i = lo;
+		bool		left = false,	/* (i-1, j) reachable */
+					diag = false;	/* (i-1, j-1) reachable */
+
+		/* columns lo .. hi + 1 can be entered from below; on, while the row runs */
+		/* branch-free but for the loop and the rare exact check */
+		for (; i < n && (i <= hi + 1 || left); i++)
+		{
+			double		d2 = fr_pt_dist2(&p->v[i], &q->v[j]);
+			bool		below = (i <= hi) & (row[i] != 0),
+						in = d2 <= w.in2,
+						r;
+
+			if ((d2 > w.in2) & (d2 <= w.out2))
+				in = sqrt(d2) <= eps;	/* too close to eps to tell from the square */
+			r = (below | left | diag) & in;
+			diag = below;
+			row[i] = r;
+			left = r;
+			nlo = (r & (nlo == n)) ? i : nlo;
+			nhi = r ? i : nhi;
+		}
+		visited += i - lo;
+		if (nlo == n || visited > budget)
+			return false;
+		lo = nlo;
+		hi = nhi;
+	}
+	return hi == n - 1 && row[n - 1];
+}

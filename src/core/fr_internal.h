@@ -400,6 +400,10 @@ fr_status	fr_simplify_upto(const fr_env *env, const fr_curve *c, double tol, siz
 /* The plain decision on a one-row free space, as simplify.c runs it (for tests). */
 bool		fr_one_row_decide(const fr_prep *piece, const fr_prep *seg, double eps, double *row);
 
+/* Is there a vertex coupling within eps (a positive filter for the deciders; discrete.c)? */
+bool		fr_coupling_within(const fr_prep *p, const fr_prep *q, double eps,
+							   unsigned char *row, size_t budget);
+
 /* Opening values (critical values) a pruned decision reports inside (lo, hi). */
 typedef struct fr_cands
 {

@@ -8,6 +8,7 @@
 #include <stdarg.h>
 #include <stddef.h>
 #include <stdio.h>
+#include <stdint.h>
 
 #include <cmocka.h>
 
@@ -372,11 +373,75 @@ branch_free_interval_matches(void **state)
 	print_message("branch-free free intervals checked: %ld\n", count);
 }
 
+/*
+ * The coupling filter: with room enough it answers exactly "discrete
+ * distance <= eps" (fr_discrete_distance, itself checked against GEOS in
+ * test_geos.c), at eps equal to the discrete distance and one double
+ * below; and whenever it says yes, the plain decider says yes (the filter
+ * must never claim what the deciders would not).
+ */
+static void
+coupling_filter_is_the_discrete_decision(void **state)
+{
+	long		yes_count = 0,
+				count = 0;
+
+	(void) state;
+	test_rng_state = 99;
+	for (int t = 0; t < 3000; t++)
+	{
+		int			kind = t % 4;
+		size_t		n = 2 + test_rand64() % 40,
+					m = kind == 1 || kind == 3 ? n : 2 + test_rand64() % 40;
+		double	   *ca = make_curve(kind == 1 ? 0 : kind, n, NULL, 0),
+				   *cb = kind == 1 ? make_curve(1, n, ca, n) : kind == 3 ? test_jitter(ca, n, 2, 6) : make_curve(kind, m, NULL, 0);
+		fr_curve	a = {ca, n, 2},
+					b = {cb, m, 2};
+		test_heap	h;
+		fr_env		e = test_env(&h);
+		fr_prep		pp,
+					pq;
+		double		dd,
+					eps[3];
+		unsigned char *row = malloc(n);
+
+		assert_int_equal(fr_discrete_distance(&e, &a, &b, &dd), FR_OK);
+		assert_int_equal(fr_prepare_pair(&e, &a, &b, &pp, &pq), FR_OK);
+		eps[0] = fr_to_local(&pp, dd);
+		eps[1] = nextafter(eps[0], 0);
+		eps[2] = eps[0] * test_uniform(0.5, 1.5);
+		for (int k = 0; k < 3; k++)
+		{
+			bool		c = fr_coupling_within(&pp, &pq, eps[k], row, SIZE_MAX),
+						plain;
+			double	   *r = malloc(n * sizeof(double));
+
+			/* the engine's discrete distance is the largest coupled vertex distance */
+			if (c != (eps[k] >= eps[0]))
+				fail_msg("pair %d (kind %d, n=%zu m=%zu) eps=%.17g, discrete %.17g: coupling says %d",
+						 t, kind, n, m, eps[k], eps[0], c);
+			assert_int_equal(fr_decide_prepared(&e, &pp, &pq, eps[k], r, &plain, NULL), FR_OK);
+			if (c && !plain)
+				fail_msg("pair %d: coupling within %.17g but the plain decider says no", t, eps[k]);
+			yes_count += c;
+			count++;
+			free(r);
+		}
+		fr_release_pair(&e, &pp, &pq);
+		free(row);
+		free(ca);
+		free(cb);
+	}
+	print_message("coupling filter checked: %ld (%ld yes)\n", count, yes_count);
+	assert_true(yes_count > count / 4 && yes_count < count - count / 4);
+}
+
 int
 main(void)
 {
 	const struct CMUnitTest tests[] = {
 		cmocka_unit_test(branch_free_interval_matches),
+		cmocka_unit_test(coupling_filter_is_the_discrete_decision),
 		cmocka_unit_test(pruned_agrees_with_plain),
 		cmocka_unit_test(fast_distance_equals_reference),
 		cmocka_unit_test(simplified_bounds_keep_the_result),
