@@ -75,6 +75,7 @@ typedef struct prune_cols
 	double	   *dist;			/* dist[i] = |p[i] - q[row[i]]|, from the last batch over i */
 	int32_t    *row;			/* -1: none yet */
 	unsigned char *flags;		/* a row of flags for the coupling filter */
+	double	   *failed;			/* largest eps at which the coupling filter failed */
 } prune_cols;
 
 /* State of one pruned decision. */
@@ -103,6 +104,9 @@ carve(void *work, size_t n, size_t m, prune_cols *c, double **H, double **V,
 	double	   *d = work;
 	size_t		np = n + PAD;
 
+	/* d[0..3]: state kept across the decisions on one pair; the arrays follow, aligned */
+	c->failed = d;
+	d += 4;
 	c->x = d;
 	c->y = c->x + np;
 	c->z = c->y + np;
@@ -135,6 +139,7 @@ fr_prune_setup(void *work, const fr_prep *p, const fr_prep *q)
 			   *Vs;
 
 	carve(work, p->n, q->n, &c, &H, &V, &Hs, &Vs);
+	*c.failed = -INFINITY;
 	for (size_t i = 0; i < p->n + PAD; i++)
 	{
 		const fr_pt *v = &p->v[i < p->n ? i : p->n - 1];
@@ -742,10 +747,20 @@ fr_decide_pruned(const fr_env *env, const fr_prep *p, const fr_prep *q, double e
 	 * It costs a vertex distance a pair, and gives up after a few pairs a
 	 * row, so it adds little where it fails.
 	 */
-	if (cands == NULL && fr_coupling_within(p, q, eps, s.c.flags, 16 * (n + m)))
+	if (cands == NULL && eps > *s.c.failed)
 	{
-		*result = true;
-		return FR_OK;
+		if (fr_coupling_within(p, q, eps, s.c.flags, 16 * (n + m)))
+		{
+			*result = true;
+			return FR_OK;
+		}
+		/*
+		 * No coupling within eps (or none found within the budget), so
+		 * none, or none cheaply, at any smaller eps: on this pair (a
+		 * distance search decides many times) the filter is not tried
+		 * there again.  Only speed depends on this, never an answer.
+		 */
+		*s.c.failed = eps;
 	}
 	s.planar = true;
 	for (size_t i = 0; i < n && s.planar; i++)
@@ -785,6 +800,6 @@ size_t
 fr_prune_work_bytes(size_t n, size_t m)
 {
 	/* p as padded arrays (3 per vertex, 5 per segment, distance cache), H, V and their sources */
-	return 9 * (n + PAD) * sizeof(double) + (n + PAD) * (sizeof(int32_t) + 1) +
+	return (9 * (n + PAD) + 4) * sizeof(double) + (n + PAD) * (sizeof(int32_t) + 1) +
 		(n + m) * (sizeof(double) + sizeof(int32_t)) + 64;
 }
