@@ -116,16 +116,9 @@ static Datum
 partial_distance(FunctionCallInfo fcinfo, bool geodetic)
 {
 	geo_curves	gc;
-	glue_env	g;
-	double		d;
-	fr_status	st;
 
 	geo_decode_args(fcinfo, geodetic, &gc);
-	glue_env_begin(&g, fr_scratch_bytes(gc.p.n, gc.q.n), "frechet_partial_distance");
-	st = fr_partial_distance(&g.env, &gc.p, &gc.q, &d, NULL);
-	glue_env_end(&g);
-	glue_check_status(st, "frechet_partial_distance");
-	PG_RETURN_FLOAT8(geo_result_distance(&gc, d));
+	PG_RETURN_FLOAT8(geo_result_distance(&gc, glue_partial_distance(&gc.p, &gc.q)));
 }
 
 /* frechet_partial_match(trip, route, epsilon): the route part, with its sub-line. */
@@ -138,18 +131,12 @@ partial_match_row(FunctionCallInfo fcinfo, bool geodetic)
 				from,
 				to,
 				d;
-	glue_env	g;
 	bool		found;
-	fr_status	st;
 
 	InitMaterializedSRF(fcinfo, 0);
 	geo_decode_args(fcinfo, geodetic, &gc);
 	glue_check_epsilon(eps, 3);
-	glue_env_begin(&g, 3 * fr_scratch_bytes(gc.p.n, gc.q.n), "frechet_partial_match");
-	st = fr_partial_match(&g.env, &gc.p, &gc.q, geo_engine_epsilon(&gc, eps),
-						  &found, &from, &to, &d, NULL);
-	glue_env_end(&g);
-	glue_check_status(st, "frechet_partial_match");
+	glue_partial_match(&gc.p, &gc.q, geo_engine_epsilon(&gc, eps), &found, &from, &to, &d);
 	if (found)
 	{
 		Datum		values[4];

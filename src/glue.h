@@ -37,6 +37,9 @@ void		point_array_curve(ArrayType *arr, int argno, fr_curve *out);
  */
 fr_match_pt *glue_matching(const fr_curve *p, const fr_curve *q, double eps,
 						   size_t *count, const char *what);
+double		glue_partial_distance(const fr_curve *trip, const fr_curve *route);
+void		glue_partial_match(const fr_curve *trip, const fr_curve *route, double eps,
+							   bool *found, double *from, double *to, double *d);
 fr_excursion *glue_excursions(const fr_curve *p, const fr_curve *q, double eps,
 							  size_t *count);
 

@@ -57,6 +57,39 @@ glue_matching(const fr_curve *p, const fr_curve *q, double eps, size_t *count,
 	return copy;
 }
 
+/* The partial distance (trip against any part of route), for every caller. */
+double
+glue_partial_distance(const fr_curve *trip, const fr_curve *route)
+{
+	glue_env	g;
+	double		d;
+	fr_status	st;
+
+	glue_env_begin(&g, fr_scratch_bytes(trip->n, route->n), "frechet_partial_distance");
+	st = fr_partial_distance(&g.env, trip, route, &d, NULL);
+	glue_env_end(&g);
+	glue_check_status(st, "frechet_partial_distance");
+	return d;
+}
+
+/*
+ * The part of route that trip follows within eps, for every caller: *found,
+ * and when found the positions (0-based) and the distance to that part.
+ */
+void
+glue_partial_match(const fr_curve *trip, const fr_curve *route, double eps, bool *found,
+				   double *from, double *to, double *d)
+{
+	glue_env	g;
+	fr_status	st;
+
+	/* the search holds up to three prepared pairs at once */
+	glue_env_begin(&g, 3 * fr_scratch_bytes(trip->n, route->n), "frechet_partial_match");
+	st = fr_partial_match(&g.env, trip, route, eps, found, from, to, d, NULL);
+	glue_env_end(&g);
+	glue_check_status(st, "frechet_partial_match");
+}
+
 /*
  * Runs the excursions in scratch memory and copies them out into the
  * caller's context (NULL when there are none).
@@ -160,17 +193,10 @@ frechet_partial_distance_point_array(PG_FUNCTION_ARGS)
 {
 	fr_curve	p,
 				q;
-	glue_env	g;
-	double		d;
-	fr_status	st;
 
 	point_array_curve(PG_GETARG_ARRAYTYPE_P(0), 1, &p);
 	point_array_curve(PG_GETARG_ARRAYTYPE_P(1), 2, &q);
-	glue_env_begin(&g, fr_scratch_bytes(p.n, q.n), "frechet_partial_distance");
-	st = fr_partial_distance(&g.env, &p, &q, &d, NULL);
-	glue_env_end(&g);
-	glue_check_status(st, "frechet_partial_distance");
-	PG_RETURN_FLOAT8(d);
+	PG_RETURN_FLOAT8(glue_partial_distance(&p, &q));
 }
 
 PG_FUNCTION_INFO_V1(frechet_partial_match_point_array);
@@ -185,18 +211,13 @@ frechet_partial_match_point_array(PG_FUNCTION_ARGS)
 				from,
 				to,
 				d;
-	glue_env	g;
 	bool		found;
-	fr_status	st;
 
 	InitMaterializedSRF(fcinfo, 0);
 	point_array_curve(PG_GETARG_ARRAYTYPE_P(0), 1, &p);
 	point_array_curve(PG_GETARG_ARRAYTYPE_P(1), 2, &q);
 	glue_check_epsilon(eps, 3);
-	glue_env_begin(&g, 3 * fr_scratch_bytes(p.n, q.n), "frechet_partial_match");
-	st = fr_partial_match(&g.env, &p, &q, eps, &found, &from, &to, &d, NULL);
-	glue_env_end(&g);
-	glue_check_status(st, "frechet_partial_match");
+	glue_partial_match(&p, &q, eps, &found, &from, &to, &d);
 	if (found)
 	{
 		Datum		values[3];

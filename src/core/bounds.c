@@ -343,17 +343,22 @@ curve_magnitude(const fr_curve *c)
 	return m;
 }
 
+/* Squared distance between two vertices of dim coordinates. */
+static inline double
+vertex_dist2(const double *v, const double *a, int dim)
+{
+	double		s = 0.0;
+
+	for (int k = 0; k < dim; k++)
+		s += (a[k] - v[k]) * (a[k] - v[k]);
+	return s;
+}
+
 /* Distance between vertex i of p and vertex j of q, in all dimensions. */
 static inline double
 vertex_dist(const fr_curve *p, size_t i, const fr_curve *q, size_t j)
 {
-	const double *a = p->coords + i * p->dim,
-			   *b = q->coords + j * q->dim;
-	double		s = 0.0;
-
-	for (int k = 0; k < p->dim; k++)
-		s += (a[k] - b[k]) * (a[k] - b[k]);
-	return sqrt(s);
+	return sqrt(vertex_dist2(p->coords + i * p->dim, q->coords + j * q->dim, p->dim));
 }
 
 /* Distance from vertex i of c to the point at parameter t of segment j of d. */
@@ -479,17 +484,6 @@ greedy_coupling(const fr_curve *p, const fr_curve *q, double lim)
 		j = nj;
 	}
 	return true;
-}
-
-/* Squared distance between two vertices of dim coordinates. */
-static inline double
-vertex_dist2(const double *v, const double *a, int dim)
-{
-	double		s = 0.0;
-
-	for (int k = 0; k < dim; k++)
-		s += (a[k] - v[k]) * (a[k] - v[k]);
-	return s;
 }
 
 /*

@@ -115,17 +115,12 @@ fr_coupling_within(const fr_prep *p, const fr_prep *q, double eps, unsigned char
 					diag = false;	/* (i-1, j-1) reachable */
 
 		/* columns lo .. hi + 1 can be entered from below; on, while the row runs */
-		/* branch-free but for the loop and the rare exact check */
 		for (; i < n && (i <= hi + 1 || left); i++)
 		{
-			double		d2 = fr_pt_dist2(&p->v[i], &q->v[j]);
 			bool		below = (i <= hi) & (row[i] != 0),
-						in = d2 <= w.in2,
 						r;
 
-			if ((d2 > w.in2) & (d2 <= w.out2))
-				in = sqrt(d2) <= eps;	/* too close to eps to tell from the square */
-			r = (below | left | diag) & in;
+			r = (below | left | diag) & fr_within_d2(&w, fr_pt_dist2(&p->v[i], &q->v[j]));
 			diag = below;
 			row[i] = r;
 			left = r;

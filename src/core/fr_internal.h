@@ -397,7 +397,7 @@ fr_status	fr_decide_prepared(const fr_env *env, const fr_prep *p, const fr_prep 
 fr_status	fr_simplify_upto(const fr_env *env, const fr_curve *c, double tol, size_t max_keep,
 							 size_t **keep, size_t *count);
 
-/* The plain decision on a one-row free space, as simplify.c runs it (for tests). */
+/* The plain decision on a one-row free space, as simplify.c runs it on each piece. */
 bool		fr_one_row_decide(const fr_prep *piece, const fr_prep *seg, double eps, double *row);
 
 /* Is there a vertex coupling within eps (a positive filter for the deciders; discrete.c)? */

@@ -344,13 +344,19 @@ foot_and_height(const fr_pt *p, const fr_pt *a, const fr_seg *s,
 	*h = fr_cross_norm(cx, cy, cz);
 }
 
-/* Distance from vertex p to the segment a-b (s holds its direction). */
-double
-fr_point_segment_dist(const fr_pt *p, const fr_pt *a, const fr_seg *s, const fr_pt *b)
+/*
+ * Distance from vertex p to the segment a-b (s holds its direction);
+ * *inside says whether the nearest point lies strictly inside the segment
+ * (then the distance is the height over the line).
+ */
+static double
+nearest_on_segment(const fr_pt *p, const fr_pt *a, const fr_seg *s, const fr_pt *b,
+				   bool *inside)
 {
 	double		foot,
 				h;
 
+	*inside = false;
 	if (s->len == 0.0)
 		return fr_pt_dist(p, a);
 	foot_and_height(p, a, s, &foot, &h);
@@ -358,7 +364,17 @@ fr_point_segment_dist(const fr_pt *p, const fr_pt *a, const fr_seg *s, const fr_
 		return fr_pt_dist(p, a);
 	if (foot >= s->len)
 		return fr_pt_dist(p, b);
+	*inside = true;
 	return h;
+}
+
+/* Distance from vertex p to the segment a-b (s holds its direction). */
+double
+fr_point_segment_dist(const fr_pt *p, const fr_pt *a, const fr_seg *s, const fr_pt *b)
+{
+	bool		inside;
+
+	return nearest_on_segment(p, a, s, b, &inside);
 }
 
 /*
@@ -374,18 +390,13 @@ fr_point_segment_dist(const fr_pt *p, const fr_pt *a, const fr_seg *s, const fr_
 double
 fr_point_segment_opening(const fr_pt *p, const fr_pt *a, const fr_seg *s, const fr_pt *b)
 {
-	double		foot,
-				h,
+	bool		inside;
+	double		h = nearest_on_segment(p, a, s, b, &inside),
 				sh,
 				e;
 
-	if (s->len == 0.0)
-		return fr_pt_dist(p, a);
-	foot_and_height(p, a, s, &foot, &h);
-	if (foot <= 0.0)
-		return fr_pt_dist(p, a);
-	if (foot >= s->len)
-		return fr_pt_dist(p, b);
+	if (!inside)
+		return h;				/* an end is nearest: its distance, exactly */
 	sh = FR_TANGENT_SLACK * h;
 	e = h - sh;
 	if (!(e >= h / 2))

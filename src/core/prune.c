@@ -75,8 +75,17 @@ typedef struct prune_cols
 	double	   *dist;			/* dist[i] = |p[i] - q[row[i]]|, from the last batch over i */
 	int32_t    *row;			/* -1: none yet */
 	unsigned char *flags;		/* a row of flags for the coupling filter */
-	double	   *failed;			/* largest eps at which the coupling filter failed */
 } prune_cols;
+
+/* What fr_prune_setup finds once per pair and the decisions on it share. */
+typedef struct prune_pair
+{
+	double		failed;			/* largest eps at which the coupling filter failed */
+	bool		planar;			/* every z of both curves is 0 */
+} prune_pair;
+
+/* The pair state's room at the start of the work memory (keeps the arrays 32-byte aligned). */
+#define PAIR_BYTES 32
 
 /* State of one pruned decision. */
 typedef struct prune
@@ -85,7 +94,7 @@ typedef struct prune
 	const fr_prep *q;
 	double		eps;
 	prune_cols	c;				/* p as arrays */
-	bool		planar;			/* every z of both curves is 0 */
+	prune_pair *pair;
 	double	   *H;				/* reachable lower end on the current horizontal boundary, per column */
 	double	   *V;				/* ... on the current vertical boundary, per row */
 	int32_t    *Hs;				/* source vertex (of q) of each H */
@@ -96,17 +105,15 @@ typedef struct prune
 	bool		stop;			/* interrupted */
 } prune;
 
-/* Carves the work memory for curves of n and m vertices. */
-static void
+/* Carves the work memory for curves of n and m vertices; returns the pair state. */
+static prune_pair *
 carve(void *work, size_t n, size_t m, prune_cols *c, double **H, double **V,
 	  int32_t **Hs, int32_t **Vs)
 {
-	double	   *d = work;
+	double	   *d = (double *) ((char *) work + PAIR_BYTES);
 	size_t		np = n + PAD;
 
-	/* d[0..3]: state kept across the decisions on one pair; the arrays follow, aligned */
-	c->failed = d;
-	d += 4;
+	_Static_assert(sizeof(prune_pair) <= PAIR_BYTES, "pair state outgrows its room");
 	c->x = d;
 	c->y = c->x + np;
 	c->z = c->y + np;
@@ -122,11 +129,13 @@ carve(void *work, size_t n, size_t m, prune_cols *c, double **H, double **V,
 	*Vs = *Hs + (n - 1);
 	c->row = *Vs + (m - 1);
 	c->flags = (unsigned char *) (c->row + np);
+	return work;
 }
 
 /*
  * Fills work memory for deciding on p against q: the copy of p as arrays,
- * padded with copies of the last vertex (and zero-length segments).
+ * padded with copies of the last vertex (and zero-length segments), and the
+ * pair state (whether both curves are planar; no coupling failure yet).
  * Needed once per pair, before any number of fr_decide_pruned calls.
  */
 void
@@ -138,8 +147,14 @@ fr_prune_setup(void *work, const fr_prep *p, const fr_prep *q)
 	int32_t    *Hs,
 			   *Vs;
 
-	carve(work, p->n, q->n, &c, &H, &V, &Hs, &Vs);
-	*c.failed = -INFINITY;
+	prune_pair *pair = carve(work, p->n, q->n, &c, &H, &V, &Hs, &Vs);
+
+	pair->failed = -INFINITY;
+	pair->planar = true;
+	for (size_t i = 0; i < p->n && pair->planar; i++)
+		pair->planar = p->v[i].z == 0.0;
+	for (size_t j = 0; j < q->n && pair->planar; j++)
+		pair->planar = q->v[j].z == 0.0;
 	for (size_t i = 0; i < p->n + PAD; i++)
 	{
 		const fr_pt *v = &p->v[i < p->n ? i : p->n - 1];
@@ -461,7 +476,7 @@ solve_cells(prune *s, size_t x0, size_t x1, size_t y0, size_t y1)
 			c1 = c0 + (c1 - c0 + BATCH_STEP - 1) / BATCH_STEP * BATCH_STEP;
 			if (c1 > c0 + CHUNK)
 				c1 = c0 + CHUNK;
-			if (s->planar)
+			if (s->pair->planar)
 				row_batch_planar(&s->c, q, j, c0, c1 - c0, eps, ra, rb, tc, td);
 			else
 				row_batch_space(&s->c, q, j, c0, c1 - c0, eps, ra, rb, tc, td);
@@ -739,7 +754,7 @@ fr_decide_pruned(const fr_env *env, const fr_prep *p, const fr_prep *q, double e
 	s.p = p;
 	s.q = q;
 	s.eps = eps;
-	carve(work, n, m, &s.c, &s.H, &s.V, &s.Hs, &s.Vs);
+	s.pair = carve(work, n, m, &s.c, &s.H, &s.V, &s.Hs, &s.Vs);
 
 	/*
 	 * A vertex coupling within eps settles the answer (positive filter;
@@ -747,7 +762,7 @@ fr_decide_pruned(const fr_env *env, const fr_prep *p, const fr_prep *q, double e
 	 * It costs a vertex distance a pair, and gives up after a few pairs a
 	 * row, so it adds little where it fails.
 	 */
-	if (cands == NULL && eps > *s.c.failed)
+	if (cands == NULL && eps > s.pair->failed)
 	{
 		if (fr_coupling_within(p, q, eps, s.c.flags, 16 * (n + m)))
 		{
@@ -760,13 +775,8 @@ fr_decide_pruned(const fr_env *env, const fr_prep *p, const fr_prep *q, double e
 		 * distance search decides many times) the filter is not tried
 		 * there again.  Only speed depends on this, never an answer.
 		 */
-		*s.c.failed = eps;
+		s.pair->failed = eps;
 	}
-	s.planar = true;
-	for (size_t i = 0; i < n && s.planar; i++)
-		s.planar = p->v[i].z == 0.0;
-	for (size_t j = 0; j < m && s.planar; j++)
-		s.planar = q->v[j].z == 0.0;
 	s.cands = cands;
 	s.stats = stats;
 	fr_poll_init(&poll, env);
@@ -800,6 +810,6 @@ size_t
 fr_prune_work_bytes(size_t n, size_t m)
 {
 	/* p as padded arrays (3 per vertex, 5 per segment, distance cache), H, V and their sources */
-	return (9 * (n + PAD) + 4) * sizeof(double) + (n + PAD) * (sizeof(int32_t) + 1) +
+	return PAIR_BYTES + 9 * (n + PAD) * sizeof(double) + (n + PAD) * (sizeof(int32_t) + 1) +
 		(n + m) * (sizeof(double) + sizeof(int32_t)) + 64;
 }

@@ -24,8 +24,8 @@
  * operations in the same order as fr_row_step, so the answers are the same
  * (test_simplify compares them).
  */
-static bool
-one_row_decide(const fr_prep *piece, const fr_prep *seg, double eps, double *row)
+bool
+fr_one_row_decide(const fr_prep *piece, const fr_prep *seg, double eps, double *row)
 {
 	const size_t n = piece->n;
 	const fr_pt *pv = piece->v,
@@ -107,17 +107,7 @@ piece_fits(const fr_prep *c, size_t i, size_t j, double tol, double *row, bool *
 	seg.s = &s;
 	seg.n = 2;
 	/* the piece runs along the columns: a row of j - i cells */
-	*fits = one_row_decide(&piece, &seg, tol, row);
-}
-
-/*
- * For tests: the one-row decision on a curve against a segment (two or
- * more vertices each), which must equal fr_decide_prepared's.
- */
-bool
-fr_one_row_decide(const fr_prep *piece, const fr_prep *seg, double eps, double *row)
-{
-	return one_row_decide(piece, seg, eps, row);
+	*fits = fr_one_row_decide(&piece, &seg, tol, row);
 }
 
 /* Simplification of a curve within tol; see the top of this file. */

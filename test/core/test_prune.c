@@ -273,9 +273,7 @@ simplified_bounds_keep_the_result(void **state)
 static void
 interval_both_ways(const fr_pt *p, const fr_pt *a, const fr_pt *b, double eps, long *count)
 {
-	fr_prep		seg;
-	fr_pt		v[2] = {*a, *b};
-	fr_seg		s;
+	fr_seg		s = fr_seg_between(a, b);	/* the segment as the engine prepares it */
 	double		lo1,
 				hi1,
 				lo2,
@@ -284,20 +282,6 @@ interval_both_ways(const fr_pt *p, const fr_pt *a, const fr_pt *b, double eps, l
 				da = sqrt(da2),
 				db = fr_pt_dist(p, b);
 
-	memset(&seg, 0, sizeof(seg));
-	seg.v = v;
-	seg.n = 2;
-	seg.s = &s;
-	{
-		test_heap	h;
-		fr_env		e = test_env(&h);
-		fr_prep		tmp = seg;
-
-		/* the segment's direction and length exactly as the engine prepares them */
-		assert_int_equal(fr_prep_segments(&e, &tmp), FR_OK);
-		s = tmp.s[0];
-		fr_free(&e, tmp.s);
-	}
 	fr_interval_core(p, a, &s, eps, da <= eps, db <= eps, da2, &lo1, &hi1);
 	fr_interval_select_one(p, a, &s, eps, da, db, &lo2, &hi2);
 	if (memcmp(&lo1, &lo2, sizeof(double)) != 0 || memcmp(&hi1, &hi2, sizeof(double)) != 0)
