@@ -3,6 +3,8 @@
  * couplings of vertices only, by dynamic programming over the n x m table
  * of vertex distances, one row at a time, O(min(n,m)) memory.
  */
+#include <string.h>
+
 #include "fr_internal.h"
 
 /* Discrete Fréchet distance between two curves. */
@@ -85,32 +87,67 @@ fr_discrete_distance(const fr_env *env, const fr_curve *p, const fr_curve *q,
  *
  * Reachable pairs are swept row by row (rows: vertices of q), visiting
  * only the columns something can enter; row holds one flag per vertex of
- * p.  Gives up (false) after budget pairs, so it costs little where it
- * cannot succeed.  Squared distances are classified without square roots
- * where plain (fr_within_d2).
+ * p.  Squared distances are classified without square roots where plain
+ * (fr_within_d2).
+ *
+ * Where a row has no reachable pair the sweep reports the row (a "wall":
+ * the continuous free space is often blocked near there too, which
+ * prune.c then tries to certify) and, if asked to go on, restarts from the
+ * pairs within eps near where the band was.  Only the first pass, with no
+ * restart, proves anything; the rows reported after a restart are hints.
+ * The sweep gives up after budget pairs, so it costs little where it
+ * cannot succeed.
  */
-bool
-fr_coupling_within(const fr_prep *p, const fr_prep *q, double eps, unsigned char *row,
-				   size_t budget)
+void
+fr_coupling_begin(fr_coupling_sweep *c, const fr_prep *p, const fr_prep *q, double eps,
+				  unsigned char *row, size_t budget)
 {
+	c->p = p;
+	c->q = q;
+	c->w = fr_within_init(eps);
+	c->row = row;
+	c->budget = budget;
+	c->visited = 0;
+	c->restarted = false;
+	c->lo = 0;
+	c->hi = 0;
+	c->j = 1;
+	/* row 0: along q[0] from (0, 0) while the pairs stay within eps */
+	c->dead = !fr_within_d2(&c->w, fr_pt_dist2(&p->v[0], &q->v[0]));
+	if (c->dead)
+		return;
+	row[0] = 1;
+	while (c->hi + 1 < p->n && fr_within_d2(&c->w, fr_pt_dist2(&p->v[c->hi + 1], &q->v[0])))
+		row[++c->hi] = 1;
+}
+
+/* Columns on either side of the lost band that a restart looks at. */
+#define RESTART_REACH 8
+
+/*
+ * Sweeps on to the next event: FR_SWEEP_THROUGH if the last pair is
+ * reached on the first pass (a coupling within eps exists), FR_SWEEP_WALL
+ * with *wall = the row with no reachable pair, FR_SWEEP_END when the
+ * diagram ends after a restart or the budget is spent.
+ */
+fr_sweep_event
+fr_coupling_next(fr_coupling_sweep *c, size_t *wall)
+{
+	const fr_prep *p = c->p,
+			   *q = c->q;
 	const size_t n = p->n,
 				m = q->n;
-	const fr_within w = fr_within_init(eps);
-	size_t		lo = 0,
-				hi = 0,
-				visited = 0;
+	unsigned char *row = c->row;
 
-	/* row 0: along q[0] from (0, 0) while the pairs stay within eps */
-	if (!fr_within_d2(&w, fr_pt_dist2(&p->v[0], &q->v[0])))
-		return false;
-	row[0] = 1;
-	while (hi + 1 < n && fr_within_d2(&w, fr_pt_dist2(&p->v[hi + 1], &q->v[0])))
-		row[++hi] = 1;
-	for (size_t j = 1; j < m; j++)
+	if (c->dead)
+		return FR_SWEEP_END;
+	for (; c->j < m; c->j++)
 	{
+		const size_t j = c->j;
 		size_t		nlo = n,
 					nhi = 0,
-					i = lo;
+					i = c->lo,
+					hi = c->hi;
 		bool		left = false,	/* (i-1, j) reachable */
 					diag = false;	/* (i-1, j-1) reachable */
 
@@ -120,18 +157,65 @@ fr_coupling_within(const fr_prep *p, const fr_prep *q, double eps, unsigned char
 			bool		below = (i <= hi) & (row[i] != 0),
 						r;
 
-			r = (below | left | diag) & fr_within_d2(&w, fr_pt_dist2(&p->v[i], &q->v[j]));
+			r = (below | left | diag) & fr_within_d2(&c->w, fr_pt_dist2(&p->v[i], &q->v[j]));
 			diag = below;
 			row[i] = r;
 			left = r;
 			nlo = (r & (nlo == n)) ? i : nlo;
 			nhi = r ? i : nhi;
 		}
-		visited += i - lo;
-		if (nlo == n || visited > budget)
-			return false;
-		lo = nlo;
-		hi = nhi;
+		c->visited += i - c->lo;
+		if (c->visited > c->budget)
+		{
+			c->dead = true;
+			return FR_SWEEP_END;
+		}
+		if (nlo == n)
+		{
+			/*
+			 * A wall.  Restart from the pairs of this row within eps
+			 * near the old band, or, if there are none, carry the old
+			 * band on unchanged.
+			 */
+			size_t		a = c->lo > RESTART_REACH ? c->lo - RESTART_REACH : 0,
+						b = hi + 2 * RESTART_REACH < n ? hi + 2 * RESTART_REACH : n - 1;
+
+			for (size_t k = a; k <= b; k++)
+			{
+				bool		r = fr_within_d2(&c->w, fr_pt_dist2(&p->v[k], &q->v[j]));
+
+				row[k] = r;
+				nlo = (r & (nlo == n)) ? k : nlo;
+				nhi = r ? k : nhi;
+			}
+			c->visited += b + 1 - a;
+			if (nlo == n)
+			{
+				nlo = c->lo;
+				nhi = hi;
+				memset(row + nlo, 1, nhi + 1 - nlo);
+			}
+			c->lo = nlo;
+			c->hi = nhi;
+			c->restarted = true;
+			*wall = c->j++;
+			return FR_SWEEP_WALL;
+		}
+		c->lo = nlo;
+		c->hi = nhi;
 	}
-	return hi == n - 1 && row[n - 1];
+	c->dead = true;
+	return !c->restarted && c->hi == n - 1 && row[n - 1] ? FR_SWEEP_THROUGH : FR_SWEEP_END;
+}
+
+/* Is there a vertex coupling within eps (found within budget pairs)? */
+bool
+fr_coupling_within(const fr_prep *p, const fr_prep *q, double eps, unsigned char *row,
+				   size_t budget)
+{
+	fr_coupling_sweep c;
+	size_t		wall;
+
+	fr_coupling_begin(&c, p, q, eps, row, budget);
+	return fr_coupling_next(&c, &wall) == FR_SWEEP_THROUGH;
 }

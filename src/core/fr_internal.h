@@ -404,6 +404,37 @@ bool		fr_one_row_decide(const fr_prep *piece, const fr_prep *seg, double eps, do
 bool		fr_coupling_within(const fr_prep *p, const fr_prep *q, double eps,
 							   unsigned char *row, size_t budget);
 
+/*
+ * The same sweep of vertex couplings, resumable: it stops at each row
+ * where no coupling pair is reachable (a wall) and can go on from there
+ * (discrete.c).
+ */
+typedef struct fr_coupling_sweep
+{
+	const fr_prep *p;
+	const fr_prep *q;
+	fr_within	w;
+	unsigned char *row;			/* one flag per vertex of p */
+	size_t		lo;				/* reachable columns of the last row: lo .. hi */
+	size_t		hi;
+	size_t		j;				/* the next row */
+	size_t		visited;
+	size_t		budget;
+	bool		restarted;		/* a wall was passed: reaching the end proves nothing */
+	bool		dead;			/* nothing more to report */
+} fr_coupling_sweep;
+
+typedef enum fr_sweep_event
+{
+	FR_SWEEP_THROUGH,			/* a coupling within eps: the answer is yes */
+	FR_SWEEP_WALL,				/* a row with no reachable pair */
+	FR_SWEEP_END				/* nothing more: the end after a restart, or the budget spent */
+} fr_sweep_event;
+
+void		fr_coupling_begin(fr_coupling_sweep *c, const fr_prep *p, const fr_prep *q,
+							  double eps, unsigned char *row, size_t budget);
+fr_sweep_event fr_coupling_next(fr_coupling_sweep *c, size_t *wall);
+
 /* Opening values (critical values) a pruned decision reports inside (lo, hi). */
 typedef struct fr_cands
 {

@@ -61,6 +61,7 @@ typedef struct fr_stats
 	uint64_t	decisions;		/* decider calls made */
 	uint64_t	cells;			/* free-space cells visited by deciders */
 	uint64_t	candidates;		/* critical values examined */
+	uint64_t	walls;			/* decisions settled "no" near a wall of the vertex couplings */
 } fr_stats;
 
 /* Human-readable name of a status, for error messages. */

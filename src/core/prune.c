@@ -80,7 +80,6 @@ typedef struct prune_cols
 /* What fr_prune_setup finds once per pair and the decisions on it share. */
 typedef struct prune_pair
 {
-	double		failed;			/* largest eps at which the coupling filter failed */
 	bool		planar;			/* every z of both curves is 0 */
 } prune_pair;
 
@@ -102,6 +101,8 @@ typedef struct prune
 	fr_cands   *cands;			/* where to report opening values, or NULL */
 	fr_poll    *poll;
 	fr_stats   *stats;
+	size_t		limit;			/* cells solve_cells may still visit (wall probes) */
+	bool		over;			/* it stopped at the limit */
 	bool		stop;			/* interrupted */
 } prune;
 
@@ -135,7 +136,7 @@ carve(void *work, size_t n, size_t m, prune_cols *c, double **H, double **V,
 /*
  * Fills work memory for deciding on p against q: the copy of p as arrays,
  * padded with copies of the last vertex (and zero-length segments), and the
- * pair state (whether both curves are planar; no coupling failure yet).
+ * pair state (whether both curves are planar).
  * Needed once per pair, before any number of fr_decide_pruned calls.
  */
 void
@@ -149,7 +150,6 @@ fr_prune_setup(void *work, const fr_prep *p, const fr_prep *q)
 
 	prune_pair *pair = carve(work, p->n, q->n, &c, &H, &V, &Hs, &Vs);
 
-	pair->failed = -INFINITY;
 	pair->planar = true;
 	for (size_t i = 0; i < p->n && pair->planar; i++)
 		pair->planar = p->v[i].z == 0.0;
@@ -419,9 +419,11 @@ row_batch_space(const prune_cols *c, const fr_prep *q, size_t j, size_t c0, size
  * below, and on while reachability keeps flowing right.  Cells left out
  * would stay empty in the plain propagation too.  The free intervals come
  * in batches from row_batch (a batch may cover a few cells the row then
- * does not need); the propagation itself is the plain decider's.
+ * does not need); the propagation itself is the plain decider's.  Stops
+ * early (s->over) once it has visited more than s->limit cells.  Returns
+ * whether anything reaches the top (y = y1).
  */
-static void
+static bool
 solve_cells(prune *s, size_t x0, size_t x1, size_t y0, size_t y1)
 {
 	const fr_prep *p = s->p,
@@ -582,6 +584,11 @@ solve_cells(prune *s, size_t x0, size_t x1, size_t y0, size_t y1)
 		s->Vs[j] = ls;
 		hlo = nlo;
 		hhi = nhi;
+		if (visited > s->limit)
+		{
+			s->over = true;
+			break;
+		}
 		/*
 		 * Poll row by row: a sweep that starts sparse may still cover a
 		 * large part of the diagram, and cancelling must not wait for it.
@@ -593,8 +600,10 @@ solve_cells(prune *s, size_t x0, size_t x1, size_t y0, size_t y1)
 		}
 		polled = visited;
 	}
+	s->limit -= visited < s->limit ? visited : s->limit;
 	if (s->stats)
 		s->stats->cells += visited;
+	return hlo < x1;
 }
 
 /* Is every cell of the horizontal line y = j, columns [x0,x1), free (vertices within eps)? */
@@ -735,6 +744,87 @@ solve_box(prune *s, size_t x0, size_t x1, size_t y0, size_t y1)
 	}
 }
 
+/* Rows a wall probe starts before the row where the vertex couplings stop, and goes on after it. */
+#define PROBE_BEFORE 8
+#define PROBE_AFTER 24
+
+/* Walls probed in one decision. */
+#define PROBES 8
+
+/* Free cells on a probe's first line beyond which the probe is not tried (no band there). */
+#define PROBE_WIDTH 256
+
+/*
+ * A certificate for "no" at a wall that the vertex-coupling sweep found
+ * (fr_coupling_next).  Every monotone path from the start to the end of
+ * the free space crosses the horizontal line y = j0, so what the deciders
+ * find reachable above it is contained in what they would find starting
+ * from every free point of that line (and every free point of the left
+ * edge above it): the propagation rules are monotone in their inputs.  If
+ * that relaxed start dies out before line j1 and never reaches the right
+ * edge, nothing reaches the end: the answer is no, exactly as the plain
+ * decider would say.  Walls in the free space of two recordings of one
+ * route are local, so a few rows around a wall of the couplings usually
+ * settle it at a cost of O(n) plus a few rows of the band, instead of a
+ * sweep of the whole band.
+ *
+ * The free points of line j0 are found with a conservative test first: a
+ * vertex q[j0] whose free interval on segment p[i] is not empty lies
+ * within eps of the segment by the deciders' arithmetic, so within
+ * eps + len of p[i], up to a few ulps (the test allows 2^-20, relative,
+ * and underflow); only the segments passing it get a free interval.
+ * Probes are for bands: a line with more than PROBE_WIDTH free cells is
+ * not tried, and all probes of a decision share a limit of cells
+ * (s->limit); a probe that reaches it proves nothing.
+ */
+static bool
+probe_wall(prune *s, size_t wall)
+{
+	const fr_prep *p = s->p,
+			   *q = s->q;
+	const size_t n = p->n,
+				m = q->n;
+	const double eps = s->eps;
+	const prune_cols *c = &s->c;
+	size_t		j0 = wall > PROBE_BEFORE ? wall - PROBE_BEFORE : 1,
+				j1 = wall + PROBE_AFTER < m - 1 ? wall + PROBE_AFTER : m - 1;
+	const fr_pt *v;
+	size_t		width = 0;
+	bool		full;
+
+	if (j1 <= j0)
+		return false;
+	v = &q->v[j0];
+	for (size_t i = 0; i + 1 < n; i++)
+	{
+		double		dx = c->x[i] - v->x,
+					dy = c->y[i] - v->y,
+					dz = c->z[i] - v->z,
+					r = eps + c->len[i];
+
+		s->H[i] = dx * dx + dy * dy + dz * dz <= r * r * (1.0 + 0x1p-20) + 0x1p-900 ? 0.0 : FR_EMPTY;
+	}
+	for (size_t i = 0; i + 1 < n; i++)
+		if (s->H[i] == 0.0)
+		{
+			double		lo,
+						hi;
+
+			if (++width > PROBE_WIDTH)
+				return false;
+			fr_free_interval(v, &p->v[i], &p->s[i], &p->v[i + 1], eps, &lo, &hi);
+			s->H[i] = lo <= hi ? lo : FR_EMPTY;
+		}
+	for (size_t j = j0; j < j1; j++)
+		s->V[j] = fr_left_edge(p, q, j, eps, &full);
+	if (solve_cells(s, 0, n - 1, j0, j1) || s->stop || s->over)
+		return false;
+	for (size_t j = j0; j < j1; j++)
+		if (s->V[j] != FR_EMPTY)
+			return false;
+	return true;
+}
+
 /*
  * The pruning decision on prepared curves (two or more vertices each, both
  * end pairs within eps).  work must hold fr_prune_work_bytes(n, m) bytes
@@ -755,32 +845,48 @@ fr_decide_pruned(const fr_env *env, const fr_prep *p, const fr_prep *q, double e
 	s.q = q;
 	s.eps = eps;
 	s.pair = carve(work, n, m, &s.c, &s.H, &s.V, &s.Hs, &s.Vs);
-
-	/*
-	 * A vertex coupling within eps settles the answer (positive filter;
-	 * not when openings are wanted, which only rejected decisions give).
-	 * It costs a vertex distance a pair, and gives up after a few pairs a
-	 * row, so it adds little where it fails.
-	 */
-	if (cands == NULL && eps > s.pair->failed)
-	{
-		if (fr_coupling_within(p, q, eps, s.c.flags, 16 * (n + m)))
-		{
-			*result = true;
-			return FR_OK;
-		}
-		/*
-		 * No coupling within eps (or none found within the budget), so
-		 * none, or none cheaply, at any smaller eps: on this pair (a
-		 * distance search decides many times) the filter is not tried
-		 * there again.  Only speed depends on this, never an answer.
-		 */
-		s.pair->failed = eps;
-	}
 	s.cands = cands;
 	s.stats = stats;
 	fr_poll_init(&poll, env);
 	s.poll = &poll;
+	s.limit = SIZE_MAX;
+
+	/*
+	 * A vertex coupling within eps settles the answer (positive filter),
+	 * and where the couplings stop, a few rows of the free space may
+	 * settle it the other way (probe_wall).  Not when openings are wanted:
+	 * they come from the whole sweep.  The coupling sweep costs a vertex
+	 * distance a pair and gives up after a few pairs a row.
+	 */
+	if (cands == NULL)
+	{
+		fr_coupling_sweep sweep;
+		size_t		wall;
+		fr_sweep_event ev;
+
+		fr_coupling_begin(&sweep, p, q, eps, s.c.flags, 16 * (n + m));
+		ev = fr_coupling_next(&sweep, &wall);
+		if (ev == FR_SWEEP_THROUGH)
+		{
+			*result = true;
+			return FR_OK;
+		}
+		s.limit = n + m;
+		for (int k = 0; k < PROBES && ev == FR_SWEEP_WALL && !s.over; k++)
+		{
+			if (probe_wall(&s, wall))
+			{
+				if (stats)
+					stats->walls++;
+				*result = false;
+				return FR_OK;
+			}
+			if (s.stop)
+				return FR_EINTR;
+			ev = fr_coupling_next(&sweep, &wall);
+		}
+		s.limit = SIZE_MAX;
+	}
 
 	fr_bottom_edge(p, q, eps, s.H);
 	for (size_t i = 0; i + 1 < n; i++)

@@ -20,11 +20,14 @@
  * decider alone, and the plain one.  Fails with the input described when
  * they differ.
  */
+static long walls_settled;		/* pruned decisions settled by a wall probe */
+
 static void
 agree(const fr_curve *a, const fr_curve *b, double eps, long *count)
 {
 	test_heap	h;
 	fr_env		e = test_env(&h);
+	fr_stats	st = {0};
 	bool		fast,
 				plain,
 				pruned;
@@ -44,7 +47,8 @@ agree(const fr_curve *a, const fr_curve *b, double eps, long *count)
 			fr_pt_dist(&pp.v[a->n - 1], &pq.v[b->n - 1]) <= eps)
 		{
 			fr_prune_setup(w, &pp, &pq);
-			assert_int_equal(fr_decide_pruned(&e, &pp, &pq, eps, w, &pruned, NULL, NULL), FR_OK);
+			assert_int_equal(fr_decide_pruned(&e, &pp, &pq, eps, w, &pruned, &st, NULL), FR_OK);
+			walls_settled += (long) st.walls;
 		}
 		fr_release_pair(&e, &pp, &pq);
 		free(w);
@@ -181,7 +185,94 @@ pruned_agrees_with_plain(void **state)
 		free(ca);
 		free(cb);
 	}
-	print_message("%ld decisions compared\n", decisions);
+	print_message("%ld decisions compared (%ld settled by wall probes)\n", decisions, walls_settled);
+}
+
+/*
+ * A street and a second recording of it: the street's points every 5-25 m
+ * with gentle turns (turn is the largest change of heading a point, in
+ * radians), and the recording of it with noise up to 6 m.  back > 0 makes
+ * the street turn round after back points and come back along itself 4 m
+ * to the side, so that free space opens far from the band as well.
+ */
+static void
+street_pair(size_t n, double turn, size_t back, double **a, double **b)
+{
+	double	   *c = malloc(2 * n * sizeof(double));
+	double		x = 0,
+				y = 0,
+				hd = 0;
+
+	for (size_t i = 0; i < n; i++)
+	{
+		if (back > 0 && i >= back && i < 2 * back)
+		{
+			/* retrace: the mirror of the way out, shifted to the side */
+			c[2 * i] = c[2 * (2 * back - 1 - i)] + 4 * sin(hd);
+			c[2 * i + 1] = c[2 * (2 * back - 1 - i) + 1] - 4 * cos(hd);
+			x = c[2 * i];
+			y = c[2 * i + 1];
+			continue;
+		}
+		hd += test_uniform(-turn, turn);
+		x += test_uniform(5, 25) * cos(hd);
+		y += test_uniform(5, 25) * sin(hd);
+		c[2 * i] = x + test_uniform(-3, 3);
+		c[2 * i + 1] = y + test_uniform(-3, 3);
+	}
+	*a = c;
+	*b = test_jitter(c, n, 2, 6);
+}
+
+/*
+ * The wall probes of the pruning decider (prune.c) answer "no" from a few
+ * rows of the free space, starting from every free point of a line.  On
+ * long pairs of recordings of one street, some of which turn round and
+ * come back along themselves (free points far from the band on the probe's
+ * line), at eps below the distance, at it and one double either side: the
+ * answers must be the plain decider's, and the probes must have settled
+ * many of the "no"s, or this test would check nothing.
+ */
+static void
+wall_probes_agree_with_plain(void **state)
+{
+	long		decisions = 0,
+				no = 0,
+				before = walls_settled;
+
+	(void) state;
+	test_rng_state = 4242;
+	for (int t = 0; t < 24; t++)
+	{
+		size_t		n = 200 + test_rand64() % 600,
+					back = t % 3 == 2 ? n / 3 : 0;
+		double	   *ca,
+				   *cb,
+					d;
+		fr_curve	a,
+					b;
+		test_heap	h;
+		fr_env		e = test_env(&h);
+		const double f[] = {0.6, 0.8, 0.9, 0.95, 0.99, 1.0, 1.05};
+
+		street_pair(n, t % 2 ? 0.5 : 0.1, back, &ca, &cb);
+		a = (fr_curve) {ca, n, 2};
+		b = (fr_curve) {cb, n, 2};
+		assert_int_equal(fr_distance(&e, &a, &b, &d, NULL), FR_OK);
+		for (size_t k = 0; k < sizeof(f) / sizeof(f[0]); k++)
+		{
+			agree(&a, &b, d * f[k], &decisions);
+			no += f[k] < 1.0;
+		}
+		agree(&a, &b, nextafter(d, 0), &decisions);
+		agree(&a, &b, nextafter(d, INFINITY), &decisions);
+		no++;
+		free(ca);
+		free(cb);
+	}
+	print_message("%ld decisions compared, %ld settled by wall probes of %ld below the distance\n",
+				  decisions, walls_settled - before, no);
+	assert_true(walls_settled - before >= no / 2);
 }
 
 /*
@@ -427,6 +518,7 @@ main(void)
 		cmocka_unit_test(branch_free_interval_matches),
 		cmocka_unit_test(coupling_filter_is_the_discrete_decision),
 		cmocka_unit_test(pruned_agrees_with_plain),
+		cmocka_unit_test(wall_probes_agree_with_plain),
 		cmocka_unit_test(fast_distance_equals_reference),
 		cmocka_unit_test(simplified_bounds_keep_the_result),
 	};
