@@ -100,9 +100,10 @@ fr_discrete_distance(const fr_env *env, const fr_curve *p, const fr_curve *q,
  */
 void
 fr_coupling_begin(fr_coupling_sweep *c, const fr_prep *p, const fr_prep *q, double eps,
-				  unsigned char *row, size_t budget)
+				  unsigned char *row, size_t budget, fr_poll *poll)
 {
 	c->p = p;
+	c->poll = poll;
 	c->q = q;
 	c->w = fr_within_init(eps);
 	c->row = row;
@@ -128,7 +129,8 @@ fr_coupling_begin(fr_coupling_sweep *c, const fr_prep *p, const fr_prep *q, doub
  * Sweeps on to the next event: FR_SWEEP_THROUGH if the last pair is
  * reached on the first pass (a coupling within eps exists), FR_SWEEP_WALL
  * with *wall = the row with no reachable pair, FR_SWEEP_END when the
- * diagram ends after a restart or the budget is spent.
+ * diagram ends after a restart or the budget is spent, FR_SWEEP_STOP if
+ * the poll reports an interrupt (it is asked row by row).
  */
 fr_sweep_event
 fr_coupling_next(fr_coupling_sweep *c, size_t *wall)
@@ -170,6 +172,11 @@ fr_coupling_next(fr_coupling_sweep *c, size_t *wall)
 			c->dead = true;
 			return FR_SWEEP_END;
 		}
+		if (c->poll && fr_poll_add(c->poll, i - c->lo + 1))
+		{
+			c->dead = true;
+			return FR_SWEEP_STOP;
+		}
 		if (nlo == n)
 		{
 			/*
@@ -208,14 +215,13 @@ fr_coupling_next(fr_coupling_sweep *c, size_t *wall)
 	return !c->restarted && c->hi == n - 1 && row[n - 1] ? FR_SWEEP_THROUGH : FR_SWEEP_END;
 }
 
-/* Is there a vertex coupling within eps (found within budget pairs)? */
+/* Is there a vertex coupling within eps? */
 bool
-fr_coupling_within(const fr_prep *p, const fr_prep *q, double eps, unsigned char *row,
-				   size_t budget)
+fr_coupling_within(const fr_prep *p, const fr_prep *q, double eps, unsigned char *row)
 {
 	fr_coupling_sweep c;
 	size_t		wall;
 
-	fr_coupling_begin(&c, p, q, eps, row, budget);
+	fr_coupling_begin(&c, p, q, eps, row, SIZE_MAX, NULL);
 	return fr_coupling_next(&c, &wall) == FR_SWEEP_THROUGH;
 }

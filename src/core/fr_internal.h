@@ -402,7 +402,7 @@ bool		fr_one_row_decide(const fr_prep *piece, const fr_prep *seg, double eps, do
 
 /* Is there a vertex coupling within eps (a positive filter for the deciders; discrete.c)? */
 bool		fr_coupling_within(const fr_prep *p, const fr_prep *q, double eps,
-							   unsigned char *row, size_t budget);
+							   unsigned char *row);
 
 /*
  * The same sweep of vertex couplings, resumable: it stops at each row
@@ -418,8 +418,9 @@ typedef struct fr_coupling_sweep
 	size_t		lo;				/* reachable columns of the last row: lo .. hi */
 	size_t		hi;
 	size_t		j;				/* the next row */
-	size_t		visited;
-	size_t		budget;
+	size_t		visited;		/* pairs visited */
+	size_t		budget;			/* ... at most */
+	fr_poll    *poll;			/* for interrupts, or NULL */
 	bool		restarted;		/* a wall was passed: reaching the end proves nothing */
 	bool		dead;			/* nothing more to report */
 } fr_coupling_sweep;
@@ -428,11 +429,12 @@ typedef enum fr_sweep_event
 {
 	FR_SWEEP_THROUGH,			/* a coupling within eps: the answer is yes */
 	FR_SWEEP_WALL,				/* a row with no reachable pair */
-	FR_SWEEP_END				/* nothing more: the end after a restart, or the budget spent */
+	FR_SWEEP_END,				/* nothing more: the end after a restart, or the budget spent */
+	FR_SWEEP_STOP				/* interrupted */
 } fr_sweep_event;
 
 void		fr_coupling_begin(fr_coupling_sweep *c, const fr_prep *p, const fr_prep *q,
-							  double eps, unsigned char *row, size_t budget);
+							  double eps, unsigned char *row, size_t budget, fr_poll *poll);
 fr_sweep_event fr_coupling_next(fr_coupling_sweep *c, size_t *wall);
 
 /* Opening values (critical values) a pruned decision reports inside (lo, hi). */

@@ -80,6 +80,7 @@ typedef struct prune_cols
 /* What fr_prune_setup finds once per pair and the decisions on it share. */
 typedef struct prune_pair
 {
+	double		mean_len;		/* mean segment length of p */
 	bool		planar;			/* every z of both curves is 0 */
 } prune_pair;
 
@@ -136,7 +137,7 @@ carve(void *work, size_t n, size_t m, prune_cols *c, double **H, double **V,
 /*
  * Fills work memory for deciding on p against q: the copy of p as arrays,
  * padded with copies of the last vertex (and zero-length segments), and the
- * pair state (whether both curves are planar).
+ * pair state (whether both curves are planar, p's mean segment length).
  * Needed once per pair, before any number of fr_decide_pruned calls.
  */
 void
@@ -149,6 +150,7 @@ fr_prune_setup(void *work, const fr_prep *p, const fr_prep *q)
 			   *Vs;
 
 	prune_pair *pair = carve(work, p->n, q->n, &c, &H, &V, &Hs, &Vs);
+	double		length = 0;
 
 	pair->planar = true;
 	for (size_t i = 0; i < p->n && pair->planar; i++)
@@ -173,7 +175,9 @@ fr_prune_setup(void *work, const fr_prep *p, const fr_prep *q)
 		c.len[i] = real ? p->s[i].len : 0.0;
 		c.inv[i] = real ? p->s[i].inv : 0.0;
 		c.row[i] = -1;
+		length += c.len[i];
 	}
+	pair->mean_len = length / (double) (p->n - 1);
 }
 
 /* Records an opening value if it lies strictly inside the bracket. */
@@ -744,6 +748,17 @@ solve_box(prune *s, size_t x0, size_t x1, size_t y0, size_t y1)
 	}
 }
 
+/* Pairs the coupling sweep of a decision may visit; see fr_decide_pruned. */
+static size_t
+coupling_budget(const prune *s)
+{
+	double		width = 2 + 2 * s->eps / s->pair->mean_len,
+				budget = 4 * width * (double) (s->p->n + s->q->n);
+
+	/* NaN (length 0) and overflow both fall to the largest budget */
+	return budget < 0x1p60 ? (size_t) budget : (size_t) 0x1p60;
+}
+
 /* Rows a wall probe starts before the row where the vertex couplings stop, and goes on after it. */
 #define PROBE_BEFORE 8
 #define PROBE_AFTER 24
@@ -855,8 +870,16 @@ fr_decide_pruned(const fr_env *env, const fr_prep *p, const fr_prep *q, double e
 	 * A vertex coupling within eps settles the answer (positive filter),
 	 * and where the couplings stop, a few rows of the free space may
 	 * settle it the other way (probe_wall).  Not when openings are wanted:
-	 * they come from the whole sweep.  The coupling sweep costs a vertex
-	 * distance a pair and gives up after a few pairs a row.
+	 * they come from the whole sweep.  The coupling sweep costs one vertex
+	 * distance a pair against two free intervals a cell below, and the
+	 * pairs it reaches are corners of cells the sweep below reaches too (a
+	 * coupling is a path through the free space), so where it fails it
+	 * has added a fraction of the sweep's cost, as long as the band is
+	 * not settled by whole boxes there.  Its budget is a few times the
+	 * band a row of pairs about 2 eps wide would make along p's mean
+	 * segment length, so dense tracks get a wide band, and a region that
+	 * is free throughout (the boxes' case: a vehicle parked in both
+	 * recordings) cannot take it far.
 	 */
 	if (cands == NULL)
 	{
@@ -864,8 +887,10 @@ fr_decide_pruned(const fr_env *env, const fr_prep *p, const fr_prep *q, double e
 		size_t		wall;
 		fr_sweep_event ev;
 
-		fr_coupling_begin(&sweep, p, q, eps, s.c.flags, 16 * (n + m));
+		fr_coupling_begin(&sweep, p, q, eps, s.c.flags, coupling_budget(&s), &poll);
 		ev = fr_coupling_next(&sweep, &wall);
+		if (ev == FR_SWEEP_STOP)
+			return FR_EINTR;
 		if (ev == FR_SWEEP_THROUGH)
 		{
 			*result = true;
@@ -884,6 +909,8 @@ fr_decide_pruned(const fr_env *env, const fr_prep *p, const fr_prep *q, double e
 			if (s.stop)
 				return FR_EINTR;
 			ev = fr_coupling_next(&sweep, &wall);
+			if (ev == FR_SWEEP_STOP)
+				return FR_EINTR;
 		}
 		s.limit = SIZE_MAX;
 	}

@@ -487,7 +487,7 @@ coupling_filter_is_the_discrete_decision(void **state)
 		eps[2] = eps[0] * test_uniform(0.5, 1.5);
 		for (int k = 0; k < 3; k++)
 		{
-			bool		c = fr_coupling_within(&pp, &pq, eps[k], row, SIZE_MAX),
+			bool		c = fr_coupling_within(&pp, &pq, eps[k], row),
 						plain;
 			double	   *r = malloc(n * sizeof(double));
 
@@ -511,12 +511,59 @@ coupling_filter_is_the_discrete_decision(void **state)
 	assert_true(yes_count > count / 4 && yes_count < count - count / 4);
 }
 
+/*
+ * Engine contract: the coupling sweep polls for interrupts row by row (at
+ * least once per FR_INTERRUPT_CELLS pairs) and stops when told, also where
+ * it covers whole rows (two curves within eps of each other throughout).
+ */
+static void
+coupling_sweep_is_polled(void **state)
+{
+	const size_t n = 1500;
+	double	   *a = malloc(2 * n * sizeof(double)),
+			   *b = malloc(2 * n * sizeof(double));
+	fr_curve	ca = {a, n, 2},
+				cb = {b, n, 2};
+	unsigned char *row = malloc(n);
+	test_heap	h;
+	fr_env		e = test_env(&h);
+	fr_prep		pp,
+				pq;
+	fr_poll		poll;
+	fr_coupling_sweep c;
+	size_t		wall;
+
+	(void) state;
+	for (size_t i = 0; i < 2 * n; i++)
+	{
+		a[i] = test_uniform(-1, 1);
+		b[i] = test_uniform(-1, 1);
+	}
+	assert_int_equal(fr_prepare_pair(&e, &ca, &cb, &pp, &pq), FR_OK);
+	fr_poll_init(&poll, &e);
+	fr_coupling_begin(&c, &pp, &pq, fr_to_local(&pp, 10), row, SIZE_MAX, &poll);
+	assert_int_equal(fr_coupling_next(&c, &wall), FR_SWEEP_THROUGH);
+	assert_true(c.visited >= n * (n - 1));
+	assert_true((size_t) h.interrupt_calls >= c.visited / FR_INTERRUPT_CELLS);
+	h.interrupt_after = h.interrupt_calls + 2;
+	fr_poll_init(&poll, &e);
+	fr_coupling_begin(&c, &pp, &pq, fr_to_local(&pp, 10), row, SIZE_MAX, &poll);
+	assert_int_equal(fr_coupling_next(&c, &wall), FR_SWEEP_STOP);
+	assert_true(c.visited <= 4 * FR_INTERRUPT_CELLS);
+	fr_release_pair(&e, &pp, &pq);
+	assert_int_equal(h.live, 0);
+	free(row);
+	free(a);
+	free(b);
+}
+
 int
 main(void)
 {
 	const struct CMUnitTest tests[] = {
 		cmocka_unit_test(branch_free_interval_matches),
 		cmocka_unit_test(coupling_filter_is_the_discrete_decision),
+		cmocka_unit_test(coupling_sweep_is_polled),
 		cmocka_unit_test(pruned_agrees_with_plain),
 		cmocka_unit_test(wall_probes_agree_with_plain),
 		cmocka_unit_test(fast_distance_equals_reference),
