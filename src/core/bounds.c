@@ -437,21 +437,79 @@ rest_within(const fr_curve *c, size_t i, const fr_curve *d, size_t j, double lim
 	return true;
 }
 
+/* Most steps in one run of greedy_coupling. */
+#define RUN_MAX 4096
+
+/*
+ * A run of greedy_coupling from (*i, *j), whose leash is r: steps taken
+ * without measuring the leash.  Each pair (a, b) of the run is within
+ * |p[a] - p[*i]| + r + |q[b] - q[*j]| of each other (triangle
+ * inequality), so a step costs one distance, from the walker's new vertex
+ * to where it began the run, instead of the three leashes a measured step
+ * compares; the walker that has moved less steps next, so both keep pace.
+ * The run stops before that bound passes room.  Returns the number of
+ * steps taken; *i and *j move only if there are two or more (a single
+ * step is better chosen by measuring).
+ */
+static size_t
+coupling_run(const fr_curve *p, const fr_curve *q, size_t *i, size_t *j, double r, double room)
+{
+	size_t		a = *i,
+				b = *j,
+				steps = 0;
+	double		dp = 0.0,		/* |p[a] - p[*i]| */
+				dq = 0.0;		/* |q[b] - q[*j]| */
+
+	while (steps < RUN_MAX && (a + 1 < p->n || b + 1 < q->n))
+	{
+		bool		step_p = a + 1 < p->n && (b + 1 >= q->n || dp <= dq);
+		double		moved = step_p ? vertex_dist(p, a + 1, p, *i) : vertex_dist(q, b + 1, q, *j);
+
+		if (!((step_p ? moved + dq : dp + moved) + r <= room))
+			break;
+		if (step_p)
+		{
+			dp = moved;
+			a++;
+		}
+		else
+		{
+			dq = moved;
+			b++;
+		}
+		steps++;
+	}
+	if (steps >= 2)
+	{
+		*i = a;
+		*j = b;
+	}
+	return steps;
+}
+
 /*
  * Greedy monotone vertex coupling: from (first, first), step to whichever
  * of the next pairs (both advance, p advances, q advances) is closest, as
  * long as it stays within lim.  Reaching (last, last) proves the distance
  * is at most lim: on each step both walkers move linearly, so the leash is
  * convex in time and largest at the step's ends.  The greedy walks of
- * Bringmann, Künnemann & Nusser (SoCG 2019) are of this kind.
+ * Bringmann, Künnemann & Nusser (SoCG 2019) are of this kind, and so are
+ * its adaptive steps: where the leash r leaves room, a run of many steps
+ * (coupling_run) is taken at the cost of one distance a step, using half
+ * the room, (lim + r) / 2, so that the walk keeps some for what follows.
+ * Runs are tried while the leash is under lim / 2 and they go two or more
+ * steps; densely sampled tracks take long runs, sparse ones take unit
+ * steps as before.  The runs' sums are of a few terms, so the slack in
+ * lim covers their rounding.
  */
 static bool
 greedy_coupling(const fr_curve *p, const fr_curve *q, double lim)
 {
 	size_t		i = 0,
 				j = 0;
+	double		r = vertex_dist(p, 0, q, 0);
 
-	if (vertex_dist(p, 0, q, 0) > lim)
+	if (r > lim)
 		return false;
 	while (i + 1 < p->n || j + 1 < q->n)
 	{
@@ -459,6 +517,12 @@ greedy_coupling(const fr_curve *p, const fr_curve *q, double lim)
 					d;
 		size_t		ni = i,
 					nj = j;
+
+		if (r < lim / 2 && coupling_run(p, q, &i, &j, r, (lim + r) / 2) >= 2)
+		{
+			r = vertex_dist(p, i, q, j);
+			continue;
+		}
 
 		if (i + 1 < p->n && j + 1 < q->n)
 		{
@@ -482,6 +546,7 @@ greedy_coupling(const fr_curve *p, const fr_curve *q, double lim)
 			return false;
 		i = ni;
 		j = nj;
+		r = best;
 	}
 	return true;
 }

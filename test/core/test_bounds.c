@@ -253,6 +253,42 @@ cheap_verdicts_agree_with_the_plain_decider(void **state)
 	assert_true(settled * 4 > asked);
 }
 
+/*
+ * The greedy coupling's adaptive runs (steps taken on a bound of the
+ * leash, bounds.c): densely sampled parallel tracks (0.01 between samples,
+ * runs of dozens of steps) 0.2 apart are settled near at
+ * eps = 1, and a single spike in one of them, between dense samples, is
+ * never run over: at the same eps the verdict is no longer near.  The
+ * spike points back along the track, so it stays within the other track's
+ * box and near it, and only the greedy walks could (wrongly) settle it.
+ * The plain decider agrees with both answers.
+ */
+static void
+greedy_runs_do_not_skip_a_spike(void **state)
+{
+	const size_t n = 3000;
+	double	   *a = malloc(2 * n * sizeof(double)),
+			   *b = malloc(2 * n * sizeof(double));
+	fr_curve	p = {a, n, 2},
+				q = {b, n, 2};
+
+	(void) state;
+	for (size_t i = 0; i < n; i++)
+	{
+		a[2 * i] = 0.01 * (double) i;
+		a[2 * i + 1] = 0.0;
+		b[2 * i] = 0.01 * (double) i + 0.001 * sin((double) i);
+		b[2 * i + 1] = 0.2 + 0.001 * cos((double) i);
+	}
+	assert_int_equal(fr_cheap_decide(&p, &q, 1.0), FR_NEAR);
+	assert_true(plain_decides(&p, &q, 1.0));
+	a[2 * (n / 2)] -= 10.0;
+	assert_int_not_equal(fr_cheap_decide(&p, &q, 1.0), FR_NEAR);
+	assert_false(plain_decides(&p, &q, 1.0));
+	free(a);
+	free(b);
+}
+
 /* The filters do fire where they should: a far shift, a close noisy copy, a reversal. */
 static void
 cheap_verdicts_fire_on_clear_cases(void **state)
@@ -367,6 +403,7 @@ main(void)
 		cmocka_unit_test(node_bound_is_below_its_entries),
 		cmocka_unit_test(cheap_verdicts_agree_with_the_plain_decider),
 		cmocka_unit_test(cheap_verdicts_fire_on_clear_cases),
+		cmocka_unit_test(greedy_runs_do_not_skip_a_spike),
 		cmocka_unit_test(hull_keeps_the_farthest_vertex),
 		cmocka_unit_test(everything_key_covers_all),
 	};
