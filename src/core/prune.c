@@ -884,7 +884,8 @@ fr_decide_pruned(const fr_env *env, const fr_prep *p, const fr_prep *q, double e
 	if (cands == NULL)
 	{
 		fr_coupling_sweep sweep;
-		size_t		wall;
+		size_t		wall,
+					from = 0;	/* the row the couplings (re)started from */
 		fr_sweep_event ev;
 
 		fr_coupling_begin(&sweep, p, q, eps, s.c.flags, coupling_budget(&s), &poll);
@@ -896,18 +897,31 @@ fr_decide_pruned(const fr_env *env, const fr_prep *p, const fr_prep *q, double e
 			*result = true;
 			return FR_OK;
 		}
+		/*
+		 * A wall only PROBE_BEFORE rows or fewer after the couplings
+		 * (re)started is taken for a trace of sparse sampling (a vertex of
+		 * q far from every vertex of p, as with a planned route of few
+		 * points against a track), not of a blocked free space: it is
+		 * passed over, and only a few of those are looked at.
+		 */
 		s.limit = n + m;
-		for (int k = 0; k < PROBES && ev == FR_SWEEP_WALL && !s.over; k++)
+		for (int k = 0, seen = 0;
+			 k < PROBES && seen < 4 * PROBES && ev == FR_SWEEP_WALL && !s.over; seen++)
 		{
-			if (probe_wall(&s, wall))
+			if (wall >= from + PROBE_BEFORE)
 			{
-				if (stats)
-					stats->walls++;
-				*result = false;
-				return FR_OK;
+				k++;
+				if (probe_wall(&s, wall))
+				{
+					if (stats)
+						stats->walls++;
+					*result = false;
+					return FR_OK;
+				}
+				if (s.stop)
+					return FR_EINTR;
 			}
-			if (s.stop)
-				return FR_EINTR;
+			from = wall + 1;
 			ev = fr_coupling_next(&sweep, &wall);
 			if (ev == FR_SWEEP_STOP)
 				return FR_EINTR;
