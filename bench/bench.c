@@ -58,10 +58,11 @@
 typedef enum pair_kind
 {
 	KIND_GPS,
+	KIND_ROUTE,
 	KIND_ZIGZAG
 } pair_kind;
 
-static const char *const kind_names[] = {"gps", "adversarial"};
+static const char *const kind_names[] = {"gps", "route", "adversarial"};
 
 typedef enum method
 {
@@ -361,6 +362,16 @@ make_gps_pair(bench_rng *rng, size_t size, point_buf *p, point_buf *q)
 	buf_free(&route);
 }
 
+/* A track of about size points against the planned route it was driven on (the route's own vertices). */
+static void
+make_route_pair(bench_rng *rng, size_t size, point_buf *p, point_buf *q)
+{
+	double		mean_gap = 0.5 * (SAMPLE_GAP_MIN + SAMPLE_GAP_MAX);
+
+	*q = make_route(rng, (double) (size - 1) * mean_gap);
+	*p = drive_route(rng, q, rng_uniform(rng, NOISE_STD_MIN, NOISE_STD_MAX));
+}
+
 /* Crossed zig-zags of amplitude A, n vertices each, with spikes near the end in opposite orders. */
 static void
 make_zigzag_pair(size_t n, point_buf *p, point_buf *q)
@@ -441,6 +452,8 @@ make_pair(pair_data *pd, pair_kind kind, size_t size, uint64_t seed)
 	pd->kind = kind;
 	if (kind == KIND_GPS)
 		make_gps_pair(&rng, size, &pd->pbuf, &pd->qbuf);
+	else if (kind == KIND_ROUTE)
+		make_route_pair(&rng, size, &pd->pbuf, &pd->qbuf);
 	else
 		make_zigzag_pair(size, &pd->pbuf, &pd->qbuf);
 	pd->p = (fr_curve) {pd->pbuf.xy, pd->pbuf.n, 2};
@@ -1026,7 +1039,7 @@ run_benchmark(void *arg)
 	row_result *rows;
 	size_t		nrows = 0;
 
-	rows = calloc(2 * opts->nsizes, sizeof(*rows));
+	rows = calloc((KIND_ZIGZAG + 1) * opts->nsizes, sizeof(*rows));
 	if (rows == NULL)
 		die("out of memory");
 
