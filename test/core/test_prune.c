@@ -224,28 +224,47 @@ street_pair(size_t n, double turn, size_t back, double **a, double **b)
 	*b = test_jitter(c, n, 2, 6);
 }
 
+/* A 2-D curve lifted into space over hills (z from x and y), with noise up to jitter in z. */
+static double *
+lift(const double *c, size_t n, double jitter)
+{
+	double	   *d = malloc(3 * n * sizeof(double));
+
+	for (size_t i = 0; i < n; i++)
+	{
+		d[3 * i] = c[2 * i];
+		d[3 * i + 1] = c[2 * i + 1];
+		d[3 * i + 2] = 15 * sin(c[2 * i] / 200) * cos(c[2 * i + 1] / 300) +
+			test_uniform(-jitter, jitter);
+	}
+	return d;
+}
+
 /*
  * The wall probes of the pruning decider (prune.c) answer "no" from a few
  * rows of the free space, starting from every free point of a line.  On
  * long pairs of recordings of one street, some of which turn round and
  * come back along themselves (free points far from the band on the probe's
- * line), at eps below the distance, at it and one double either side: the
- * answers must be the plain decider's, and the probes must have settled
- * many of the "no"s, or this test would check nothing.
+ * line), and some of which climb hills (curves in space, as geography
+ * becomes), at eps below the distance, at it and one double either side:
+ * the answers must be the plain decider's, and the probes must have
+ * settled many of the "no"s, or this test would check nothing.
  */
 static void
 wall_probes_agree_with_plain(void **state)
 {
 	long		decisions = 0,
 				no = 0,
-				before = walls_settled;
+				before = walls_settled,
+				in_space = 0;
 
 	(void) state;
 	test_rng_state = 4242;
-	for (int t = 0; t < 24; t++)
+	for (int t = 0; t < 32; t++)
 	{
 		size_t		n = 200 + test_rand64() % 600,
 					back = t % 3 == 2 ? n / 3 : 0;
+		int			dim = t % 4 == 1 ? 3 : 2;
 		double	   *ca,
 				   *cb,
 					d;
@@ -256,23 +275,40 @@ wall_probes_agree_with_plain(void **state)
 		const double f[] = {0.6, 0.8, 0.9, 0.95, 0.99, 1.0, 1.05};
 
 		street_pair(n, t % 2 ? 0.5 : 0.1, back, &ca, &cb);
-		a = (fr_curve) {ca, n, 2};
-		b = (fr_curve) {cb, n, 2};
-		assert_int_equal(fr_distance(&e, &a, &b, &d, NULL), FR_OK);
-		for (size_t k = 0; k < sizeof(f) / sizeof(f[0]); k++)
+		if (dim == 3)
 		{
-			agree(&a, &b, d * f[k], &decisions);
-			no += f[k] < 1.0;
+			double	   *la = lift(ca, n, 0),
+					   *lb = lift(cb, n, 4);
+
+			free(ca);
+			free(cb);
+			ca = la;
+			cb = lb;
 		}
-		agree(&a, &b, nextafter(d, 0), &decisions);
-		agree(&a, &b, nextafter(d, INFINITY), &decisions);
-		no++;
+		a = (fr_curve) {ca, n, dim};
+		b = (fr_curve) {cb, n, dim};
+		assert_int_equal(fr_distance(&e, &a, &b, &d, NULL), FR_OK);
+		{
+			long		settled = walls_settled;
+
+			for (size_t k = 0; k < sizeof(f) / sizeof(f[0]); k++)
+			{
+				agree(&a, &b, d * f[k], &decisions);
+				no += f[k] < 1.0;
+			}
+			agree(&a, &b, nextafter(d, 0), &decisions);
+			agree(&a, &b, nextafter(d, INFINITY), &decisions);
+			no++;
+			if (dim == 3)
+				in_space += walls_settled - settled;
+		}
 		free(ca);
 		free(cb);
 	}
-	print_message("%ld decisions compared, %ld settled by wall probes of %ld below the distance\n",
-				  decisions, walls_settled - before, no);
+	print_message("%ld decisions compared, %ld settled by wall probes (%ld in space) of %ld below the distance\n",
+				  decisions, walls_settled - before, in_space, no);
 	assert_true(walls_settled - before >= no / 2);
+	assert_true(in_space >= no / 16);
 }
 
 /*
