@@ -383,7 +383,10 @@ vertex_to_segment_point(const fr_curve *c, size_t i, const fr_curve *d, size_t j
  * Smallest t >= low in [0, 1] where segment j of d comes within lim of
  * vertex i of c, or -1.  The quadratic is solved approximately; the answer
  * is then checked by measuring the distance at t directly, so rounding can
- * only lose an exit, never admit one farther than lim.
+ * only lose an exit, never admit one farther than lim.  The smallest root
+ * lies on the circle of radius lim, where rounding puts the measured
+ * distance above lim about as often as not; then t moves a hair towards
+ * the foot (the distance falls that way) and is measured again.
  */
 static double
 first_free_param(const fr_curve *c, size_t i, const fr_curve *d, size_t j, double low, double lim)
@@ -423,6 +426,8 @@ first_free_param(const fr_curve *c, size_t i, const fr_curve *d, size_t j, doubl
 		t = max2(low, foot - half);
 		if (t > 1.0)
 			return -1.0;
+		if (!(vertex_to_segment_point(c, i, d, j, t) <= lim) && t < foot)
+			t = fmin(t + (foot - t) * 0x1p-20, 1.0);
 	}
 	return vertex_to_segment_point(c, i, d, j, t) <= lim ? t : -1.0;
 }

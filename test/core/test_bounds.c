@@ -289,6 +289,47 @@ greedy_runs_do_not_skip_a_spike(void **state)
 	free(b);
 }
 
+/*
+ * The greedy walk through the free space (bounds.c) proves near a track
+ * that follows a planned route of few vertices, 100 m segments sampled
+ * every 2 m with up to 3 m of sideways noise, at eps = 10 m: only the walk
+ * can (a track point between two route vertices is far from both, so no
+ * vertex coupling works).  Its entries lie on circles of radius eps, where
+ * rounding puts the measured distance above eps about every other time; a
+ * walk that gave up there would stop within the first segments.  The plain
+ * decider agrees.
+ */
+static void
+greedy_walk_follows_a_planned_route(void **state)
+{
+	const size_t m = 11,
+				n = 501;
+	double		route[2 * 11],
+			   *track = malloc(2 * n * sizeof(double));
+	fr_curve	p = {track, n, 2},
+				q = {route, m, 2};
+
+	(void) state;
+	for (size_t j = 0; j < m; j++)
+	{
+		route[2 * j] = 100.0 * (double) j;
+		route[2 * j + 1] = 30.0 * (double) (j % 2);
+	}
+	for (size_t i = 0; i < n; i++)
+	{
+		double		u = (double) i / 50.0;	/* route parameter: segment floor(u) */
+		size_t		j = i + 1 < n ? (size_t) u : m - 2;
+		double		f = u - (double) j;
+
+		track[2 * i] = route[2 * j] + f * (route[2 * j + 2] - route[2 * j]);
+		track[2 * i + 1] = route[2 * j + 1] + f * (route[2 * j + 3] - route[2 * j + 1]) +
+			(i == 0 || i + 1 == n ? 0.0 : test_uniform(-3, 3));
+	}
+	assert_int_equal(fr_cheap_decide(&p, &q, 10.0), FR_NEAR);
+	assert_true(plain_decides(&p, &q, 10.0));
+	free(track);
+}
+
 /* The filters do fire where they should: a far shift, a close noisy copy, a reversal. */
 static void
 cheap_verdicts_fire_on_clear_cases(void **state)
@@ -404,6 +445,7 @@ main(void)
 		cmocka_unit_test(cheap_verdicts_agree_with_the_plain_decider),
 		cmocka_unit_test(cheap_verdicts_fire_on_clear_cases),
 		cmocka_unit_test(greedy_runs_do_not_skip_a_spike),
+		cmocka_unit_test(greedy_walk_follows_a_planned_route),
 		cmocka_unit_test(hull_keeps_the_farthest_vertex),
 		cmocka_unit_test(everything_key_covers_all),
 	};
