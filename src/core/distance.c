@@ -341,6 +341,7 @@ fast_probe(fast *f, double eps, bool collect, bool *yes)
 {
 	fr_status	st = FR_OK;
 
+	f->cands.collected = false;
 	if (eps >= f->greedy)
 		*yes = true;			/* the greedy walk is a matching within eps */
 	else if (fr_pt_dist(&f->p->v[0], &f->q->v[0]) > eps ||
@@ -550,10 +551,13 @@ fast_search(fast *f, bool confirm_first, double *result, bool *rejected)
 	}
 
 	/*
-	 * Every probe of a round collects openings too: a rejected probe's
-	 * openings are those of the next round (it sets lo), so no round but
-	 * the first needs a probe of its own at lo.  A round whose probes are
-	 * all accepted leaves no opening of its list inside, so it ends the
+	 * Every probe of a round collects openings too, if it sweeps: a
+	 * rejected probe's openings are those of the next round (it sets lo),
+	 * so a round needs a probe of its own at lo only when the last
+	 * rejection came cheaply, from a wall probe (prune.c), without them.
+	 * Probes inside a round try the cheap ways first (optional openings):
+	 * most are settled without a sweep.  A round whose probes are all
+	 * accepted leaves no opening of its list inside, so it ends the
 	 * search.
 	 */
 	for (int round = 0; round < 64; round++)
@@ -566,6 +570,7 @@ fast_search(fast *f, bool confirm_first, double *result, bool *rejected)
 
 		if (!pending)
 		{
+			f->cands.optional = false;
 			st = fast_probe(f, f->lo, true, &yes);
 			if (st != FR_OK)
 				return st;
@@ -599,6 +604,7 @@ fast_search(fast *f, bool confirm_first, double *result, bool *rejected)
 					b = mid;
 				continue;
 			}
+			f->cands.optional = true;
 			st = fast_probe(f, v, true, &yes);
 			if (st != FR_OK)
 				return st;
@@ -608,8 +614,8 @@ fast_search(fast *f, bool confirm_first, double *result, bool *rejected)
 			{
 				a = mid + 1;
 				rejected_one = true;
-				/* this probe's openings, if complete, are the next round's */
-				pending = !f->cands.overflow;
+				/* this probe's openings, if it swept and they are complete, are the next round's */
+				pending = f->cands.collected && !f->cands.overflow;
 				f->next.count = f->cands.count;
 				memcpy(f->next.v, f->cands.v, f->cands.count * sizeof(double));
 			}

@@ -446,6 +446,8 @@ typedef struct fr_cands
 	double		lo;
 	double		hi;
 	bool		overflow;
+	bool		optional;		/* in: settle cheaply if possible; collect only if the whole sweep runs */
+	bool		collected;		/* out: the openings are those of a whole sweep */
 } fr_cands;
 
 /* The pruning decider (prune.c); curves of two or more vertices, ends within eps. */

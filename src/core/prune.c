@@ -860,7 +860,6 @@ fr_decide_pruned(const fr_env *env, const fr_prep *p, const fr_prep *q, double e
 	s.q = q;
 	s.eps = eps;
 	s.pair = carve(work, n, m, &s.c, &s.H, &s.V, &s.Hs, &s.Vs);
-	s.cands = cands;
 	s.stats = stats;
 	fr_poll_init(&poll, env);
 	s.poll = &poll;
@@ -869,8 +868,9 @@ fr_decide_pruned(const fr_env *env, const fr_prep *p, const fr_prep *q, double e
 	/*
 	 * A vertex coupling within eps settles the answer (positive filter),
 	 * and where the couplings stop, a few rows of the free space may
-	 * settle it the other way (probe_wall).  Not when openings are wanted:
-	 * they come from the whole sweep.  The coupling sweep costs one vertex
+	 * settle it the other way (probe_wall).  Not when openings are
+	 * required: they come from the whole sweep (optional openings are
+	 * collected only if it runs).  The coupling sweep costs one vertex
 	 * distance a pair against two free intervals a cell below, and the
 	 * pairs it reaches are corners of cells the sweep below reaches too (a
 	 * coupling is a path through the free space), so where it fails it
@@ -881,7 +881,9 @@ fr_decide_pruned(const fr_env *env, const fr_prep *p, const fr_prep *q, double e
 	 * is free throughout (the boxes' case: a vehicle parked in both
 	 * recordings) cannot take it far.
 	 */
-	if (cands == NULL)
+	if (cands)
+		cands->collected = false;
+	if (cands == NULL || cands->optional)
 	{
 		fr_coupling_sweep sweep;
 		size_t		wall,
@@ -929,6 +931,9 @@ fr_decide_pruned(const fr_env *env, const fr_prep *p, const fr_prep *q, double e
 		s.limit = SIZE_MAX;
 	}
 
+	s.cands = cands;
+	if (cands)
+		cands->collected = true;
 	fr_bottom_edge(p, q, eps, s.H);
 	for (size_t i = 0; i + 1 < n; i++)
 		s.Hs[i] = 0;

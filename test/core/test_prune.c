@@ -312,6 +312,61 @@ wall_probes_agree_with_plain(void **state)
 }
 
 /*
+ * The distance search lets probes inside a round be settled by couplings
+ * or wall probes, which give no openings; a round then starts from a sweep
+ * of its own.  On long street pairs (the family where that happens, some
+ * in space) the result must still be exactly the reference search's, and
+ * wall probes must have been used.
+ */
+static void
+distance_with_wall_probes_equals_reference(void **state)
+{
+	uint64_t	walls = 0;
+
+	(void) state;
+	test_rng_state = 777;
+	for (int t = 0; t < 12; t++)
+	{
+		size_t		n = 300 + test_rand64() % 500;
+		int			dim = t % 3 == 2 ? 3 : 2;
+		double	   *ca,
+				   *cb,
+					fast,
+					ref;
+		fr_curve	a,
+					b;
+		test_heap	h;
+		fr_env		e = test_env(&h);
+		fr_stats	st = {0};
+
+		street_pair(n, t % 2 ? 0.5 : 0.1, t % 4 == 3 ? n / 3 : 0, &ca, &cb);
+		if (dim == 3)
+		{
+			double	   *la = lift(ca, n, 0),
+					   *lb = lift(cb, n, 4);
+
+			free(ca);
+			free(cb);
+			ca = la;
+			cb = lb;
+		}
+		a = (fr_curve) {ca, n, dim};
+		b = (fr_curve) {cb, n, dim};
+		assert_int_equal(fr_distance(&e, &a, &b, &fast, &st), FR_OK);
+		assert_int_equal(fr_distance_plain(&e, &a, &b, &ref, NULL), FR_OK);
+		assert_int_equal(h.live, 0);
+		if (fast != ref)
+			fail_msg("pair %d (n=%zu, dim %d): fast %.17g, reference %.17g", t, n, dim, fast, ref);
+		walls += st.walls;
+		free(ca);
+		free(cb);
+	}
+	print_message("distances on street pairs: %llu decisions settled by wall probes\n",
+				  (unsigned long long) walls);
+	assert_true(walls > 0);
+}
+
+/*
  * The fast distance search returns exactly what the reference search
  * returns (both find the smallest double the deciders accept, and the
  * deciders agree), on 600 pairs of every family.
@@ -603,6 +658,7 @@ main(void)
 		cmocka_unit_test(pruned_agrees_with_plain),
 		cmocka_unit_test(wall_probes_agree_with_plain),
 		cmocka_unit_test(fast_distance_equals_reference),
+		cmocka_unit_test(distance_with_wall_probes_equals_reference),
 		cmocka_unit_test(simplified_bounds_keep_the_result),
 	};
 
