@@ -50,6 +50,13 @@
 #define NOISE_STD_MIN 5.0
 #define NOISE_STD_MAX 15.0
 
+/* Dense generator parameters, in metres: a 10 Hz receiver at walking pace. */
+#define DENSE_GAP_MIN 0.1
+#define DENSE_GAP_MAX 0.3
+#define DENSE_DRIFT_STD 2.0		/* the receiver's slowly wandering error */
+#define DENSE_DRIFT_KEEP 0.995	/* its correlation from one sample to the next */
+#define DENSE_JITTER_STD 0.05
+
 /* Zig-zag generator parameters: amplitude A, total drift, spike height S. */
 #define ZIGZAG_AMP 100.0
 #define ZIGZAG_DRIFT (0.1 * ZIGZAG_AMP)
@@ -59,10 +66,11 @@ typedef enum pair_kind
 {
 	KIND_GPS,
 	KIND_ROUTE,
+	KIND_DENSE,
 	KIND_ZIGZAG
 } pair_kind;
 
-static const char *const kind_names[] = {"gps", "route", "adversarial"};
+static const char *const kind_names[] = {"gps", "route", "dense", "adversarial"};
 
 typedef enum method
 {
@@ -362,6 +370,60 @@ make_gps_pair(bench_rng *rng, size_t size, point_buf *p, point_buf *q)
 	buf_free(&route);
 }
 
+/*
+ * A densely sampled track of a route: a sample every DENSE_GAP_MIN to
+ * DENSE_GAP_MAX metres, off the route by an error that wanders slowly
+ * (first-order autoregressive, standard deviation DENSE_DRIFT_STD; receiver
+ * errors are correlated in time, common practice in GNSS modelling) plus
+ * a little jitter.
+ */
+static point_buf
+walk_route(bench_rng *rng, const point_buf *route)
+{
+	point_buf	track = {0};
+	size_t		seg = 0;
+	double		along = 0.0,
+				gap = 0.0,
+				ox = 0.0,
+				oy = 0.0,
+				step = DENSE_DRIFT_STD * sqrt(1.0 - DENSE_DRIFT_KEEP * DENSE_DRIFT_KEEP);
+
+	while (seg + 1 < route->n)
+	{
+		const double *a = &route->xy[2 * seg];
+		const double *b = &route->xy[2 * seg + 2];
+		double		len = hypot(b[0] - a[0], b[1] - a[1]);
+
+		if (along + gap > len)
+		{
+			gap -= len - along;
+			along = 0.0;
+			seg++;
+			continue;
+		}
+		along += gap;
+		ox = DENSE_DRIFT_KEEP * ox + step * rng_gauss(rng);
+		oy = DENSE_DRIFT_KEEP * oy + step * rng_gauss(rng);
+		buf_push(&track,
+				 a[0] + (b[0] - a[0]) * along / len + ox + DENSE_JITTER_STD * rng_gauss(rng),
+				 a[1] + (b[1] - a[1]) * along / len + oy + DENSE_JITTER_STD * rng_gauss(rng));
+		gap = rng_uniform(rng, DENSE_GAP_MIN, DENSE_GAP_MAX);
+	}
+	buf_push(&track, route->xy[2 * seg] + ox, route->xy[2 * seg + 1] + oy);
+	return track;
+}
+
+/* A route walked twice with a dense receiver, each track with about size points. */
+static void
+make_dense_pair(bench_rng *rng, size_t size, point_buf *p, point_buf *q)
+{
+	point_buf	route = make_route(rng, (double) (size - 1) * 0.5 * (DENSE_GAP_MIN + DENSE_GAP_MAX));
+
+	*p = walk_route(rng, &route);
+	*q = walk_route(rng, &route);
+	buf_free(&route);
+}
+
 /* A track of about size points against the planned route it was driven on (the route's own vertices). */
 static void
 make_route_pair(bench_rng *rng, size_t size, point_buf *p, point_buf *q)
@@ -454,6 +516,8 @@ make_pair(pair_data *pd, pair_kind kind, size_t size, uint64_t seed)
 		make_gps_pair(&rng, size, &pd->pbuf, &pd->qbuf);
 	else if (kind == KIND_ROUTE)
 		make_route_pair(&rng, size, &pd->pbuf, &pd->qbuf);
+	else if (kind == KIND_DENSE)
+		make_dense_pair(&rng, size, &pd->pbuf, &pd->qbuf);
 	else
 		make_zigzag_pair(size, &pd->pbuf, &pd->qbuf);
 	pd->p = (fr_curve) {pd->pbuf.xy, pd->pbuf.n, 2};
