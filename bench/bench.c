@@ -325,14 +325,32 @@ make_route(bench_rng *rng, double length)
 	return route;
 }
 
-/* One drive along the route: samples 5-30 m apart plus gaussian noise of std sigma. */
+/*
+ * How a receiver samples a route: a sample every gap_min to gap_max metres,
+ * white noise of std sigma on each coordinate, and, when drift_std > 0, an
+ * error that wanders slowly (first-order autoregressive, std drift_std,
+ * correlation drift_keep from one sample to the next).
+ */
+typedef struct receiver
+{
+	double		gap_min;
+	double		gap_max;
+	double		sigma;
+	double		drift_std;
+	double		drift_keep;
+} receiver;
+
+/* One trip along the route as the receiver records it. */
 static point_buf
-drive_route(bench_rng *rng, const point_buf *route, double sigma)
+sample_route(bench_rng *rng, const point_buf *route, const receiver *rx)
 {
 	point_buf	track = {0};
 	size_t		seg = 0;
-	double		along = 0.0;
-	double		gap = 0.0;
+	double		along = 0.0,
+				gap = 0.0,
+				ox = 0.0,
+				oy = 0.0,
+				step = rx->drift_std * sqrt(1.0 - rx->drift_keep * rx->drift_keep);
 
 	while (seg + 1 < route->n)
 	{
@@ -348,14 +366,31 @@ drive_route(bench_rng *rng, const point_buf *route, double sigma)
 			continue;
 		}
 		along += gap;
+		if (rx->drift_std > 0)
+		{
+			ox = rx->drift_keep * ox + step * rng_gauss(rng);
+			oy = rx->drift_keep * oy + step * rng_gauss(rng);
+		}
 		buf_push(&track,
-				 a[0] + (b[0] - a[0]) * along / len + sigma * rng_gauss(rng),
-				 a[1] + (b[1] - a[1]) * along / len + sigma * rng_gauss(rng));
-		gap = rng_uniform(rng, SAMPLE_GAP_MIN, SAMPLE_GAP_MAX);
+				 a[0] + (b[0] - a[0]) * along / len + ox + rx->sigma * rng_gauss(rng),
+				 a[1] + (b[1] - a[1]) * along / len + oy + rx->sigma * rng_gauss(rng));
+		gap = rng_uniform(rng, rx->gap_min, rx->gap_max);
 	}
-	buf_push(&track, route->xy[2 * seg] + sigma * rng_gauss(rng),
-			 route->xy[2 * seg + 1] + sigma * rng_gauss(rng));
+	if (rx->drift_std > 0)
+		buf_push(&track, route->xy[2 * seg] + ox, route->xy[2 * seg + 1] + oy);
+	else
+		buf_push(&track, route->xy[2 * seg] + rx->sigma * rng_gauss(rng),
+				 route->xy[2 * seg + 1] + rx->sigma * rng_gauss(rng));
 	return track;
+}
+
+/* One drive along the route: samples 5-30 m apart plus gaussian noise of std sigma. */
+static point_buf
+drive_route(bench_rng *rng, const point_buf *route, double sigma)
+{
+	const receiver rx = {SAMPLE_GAP_MIN, SAMPLE_GAP_MAX, sigma, 0.0, 0.0};
+
+	return sample_route(rng, route, &rx);
 }
 
 /* A route driven twice, each track with about size points and its own noise level. */
@@ -373,44 +408,16 @@ make_gps_pair(bench_rng *rng, size_t size, point_buf *p, point_buf *q)
 /*
  * A densely sampled track of a route: a sample every DENSE_GAP_MIN to
  * DENSE_GAP_MAX metres, off the route by an error that wanders slowly
- * (first-order autoregressive, standard deviation DENSE_DRIFT_STD; receiver
- * errors are correlated in time, common practice in GNSS modelling) plus
- * a little jitter.
+ * (std DENSE_DRIFT_STD; receiver errors are correlated in time, common
+ * practice in GNSS modelling) plus a little jitter.
  */
 static point_buf
 walk_route(bench_rng *rng, const point_buf *route)
 {
-	point_buf	track = {0};
-	size_t		seg = 0;
-	double		along = 0.0,
-				gap = 0.0,
-				ox = 0.0,
-				oy = 0.0,
-				step = DENSE_DRIFT_STD * sqrt(1.0 - DENSE_DRIFT_KEEP * DENSE_DRIFT_KEEP);
+	const receiver rx = {DENSE_GAP_MIN, DENSE_GAP_MAX, DENSE_JITTER_STD,
+	DENSE_DRIFT_STD, DENSE_DRIFT_KEEP};
 
-	while (seg + 1 < route->n)
-	{
-		const double *a = &route->xy[2 * seg];
-		const double *b = &route->xy[2 * seg + 2];
-		double		len = hypot(b[0] - a[0], b[1] - a[1]);
-
-		if (along + gap > len)
-		{
-			gap -= len - along;
-			along = 0.0;
-			seg++;
-			continue;
-		}
-		along += gap;
-		ox = DENSE_DRIFT_KEEP * ox + step * rng_gauss(rng);
-		oy = DENSE_DRIFT_KEEP * oy + step * rng_gauss(rng);
-		buf_push(&track,
-				 a[0] + (b[0] - a[0]) * along / len + ox + DENSE_JITTER_STD * rng_gauss(rng),
-				 a[1] + (b[1] - a[1]) * along / len + oy + DENSE_JITTER_STD * rng_gauss(rng));
-		gap = rng_uniform(rng, DENSE_GAP_MIN, DENSE_GAP_MAX);
-	}
-	buf_push(&track, route->xy[2 * seg] + ox, route->xy[2 * seg + 1] + oy);
-	return track;
+	return sample_route(rng, route, &rx);
 }
 
 /* A route walked twice with a dense receiver, each track with about size points. */

@@ -240,6 +240,23 @@ lift(const double *c, size_t n, double jitter)
 	return d;
 }
 
+/* street_pair in the plane (dim 2) or lifted into space over hills (dim 3, noise up to 4 in z). */
+static void
+street_pair_in(int dim, size_t n, double turn, size_t back, double **a, double **b)
+{
+	street_pair(n, turn, back, a, b);
+	if (dim == 3)
+	{
+		double	   *la = lift(*a, n, 0),
+				   *lb = lift(*b, n, 4);
+
+		free(*a);
+		free(*b);
+		*a = la;
+		*b = lb;
+	}
+}
+
 /*
  * The wall probes of the pruning decider (prune.c) answer "no" from a few
  * rows of the free space, starting from every free point of a line.  On
@@ -274,17 +291,7 @@ wall_probes_agree_with_plain(void **state)
 		fr_env		e = test_env(&h);
 		const double f[] = {0.6, 0.8, 0.9, 0.95, 0.99, 1.0, 1.05};
 
-		street_pair(n, t % 2 ? 0.5 : 0.1, back, &ca, &cb);
-		if (dim == 3)
-		{
-			double	   *la = lift(ca, n, 0),
-					   *lb = lift(cb, n, 4);
-
-			free(ca);
-			free(cb);
-			ca = la;
-			cb = lb;
-		}
+		street_pair_in(dim, n, t % 2 ? 0.5 : 0.1, back, &ca, &cb);
 		a = (fr_curve) {ca, n, dim};
 		b = (fr_curve) {cb, n, dim};
 		assert_int_equal(fr_distance(&e, &a, &b, &d, NULL), FR_OK);
@@ -339,17 +346,7 @@ distance_with_wall_probes_equals_reference(void **state)
 		fr_env		e = test_env(&h);
 		fr_stats	st = {0};
 
-		street_pair(n, t % 2 ? 0.5 : 0.1, t % 4 == 3 ? n / 3 : 0, &ca, &cb);
-		if (dim == 3)
-		{
-			double	   *la = lift(ca, n, 0),
-					   *lb = lift(cb, n, 4);
-
-			free(ca);
-			free(cb);
-			ca = la;
-			cb = lb;
-		}
+		street_pair_in(dim, n, t % 2 ? 0.5 : 0.1, t % 4 == 3 ? n / 3 : 0, &ca, &cb);
 		a = (fr_curve) {ca, n, dim};
 		b = (fr_curve) {cb, n, dim};
 		assert_int_equal(fr_distance(&e, &a, &b, &fast, &st), FR_OK);
