@@ -22,6 +22,11 @@
  * & Godau 1995, section 3): the distance search in distance.c tests those
  * instead of bisecting blindly.  For that each reachable lower end carries
  * the vertex whose free interval it came from.
+ *
+ * Before any of this, two certificates that need no sweep of the band: a
+ * monotone vertex coupling within eps proves "yes" (discrete.c), and
+ * where such couplings stop, a few rows swept from every free point of
+ * one line may prove "no" (probe_wall below).
  */
 #include <math.h>
 #include <string.h>
