@@ -426,8 +426,11 @@ first_free_param(const fr_curve *c, size_t i, const fr_curve *d, size_t j, doubl
 		t = max2(low, foot - half);
 		if (t > 1.0)
 			return -1.0;
-		if (!(vertex_to_segment_point(c, i, d, j, t) <= lim) && t < foot)
-			t = fmin(t + (foot - t) * 0x1p-20, 1.0);
+		if (vertex_to_segment_point(c, i, d, j, t) <= lim)
+			return t;
+		if (!(t < foot))
+			return -1.0;
+		t = fmin(t + (foot - t) * 0x1p-20, 1.0);
 	}
 	return vertex_to_segment_point(c, i, d, j, t) <= lim ? t : -1.0;
 }

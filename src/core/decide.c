@@ -92,24 +92,10 @@ fr_row_step(const fr_prep *p, const fr_prep *q, size_t j, double eps,
 
 		/* right boundary: vertex p[i+1] against segment q[j]q[j+1] */
 		fr_free_interval(&pv[i + 1], qa, qs, qb, eps, &a, &b);
-		if (br != FR_EMPTY)
-			nlr = a <= b ? a : FR_EMPTY;
-		else
-		{
-			nlr = a > lr ? a : lr;
-			if (nlr > b)
-				nlr = FR_EMPTY;
-		}
+		nlr = fr_reach_out(a, b, br, lr);
 		/* top boundary: vertex q[j+1] against segment p[i]p[i+1] */
 		fr_free_interval(qb, &pv[i], &p->s[i], &pv[i + 1], eps, &c, &d);
-		if (lr != FR_EMPTY)
-			nbr = c <= d ? c : FR_EMPTY;
-		else
-		{
-			nbr = c > br ? c : br;
-			if (nbr > d)
-				nbr = FR_EMPTY;
-		}
+		nbr = fr_reach_out(c, d, lr, br);
 		row[i] = nbr;
 		lr = nlr;
 		any |= nbr != FR_EMPTY;

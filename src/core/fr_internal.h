@@ -382,6 +382,25 @@ fr_interval_core(const fr_pt *p, const fr_pt *a, const fr_seg *s, double eps,
 void		fr_free_interval(const fr_pt *p, const fr_pt *a, const fr_seg *s,
 							 const fr_pt *b, double eps, double *lo, double *hi);
 
+/*
+ * One propagation step (Alt & Godau 1995): the reachable lower end on an
+ * outgoing boundary of a cell whose free interval is [lo, hi].  If the
+ * cell is entered across (through the incoming boundary facing the other
+ * outgoing one), all of the free interval is reachable; otherwise only
+ * from where reachability on the parallel incoming boundary (along)
+ * begins.  FR_EMPTY where nothing is.
+ */
+static inline double
+fr_reach_out(double lo, double hi, double across, double along)
+{
+	double		x;
+
+	if (across != FR_EMPTY)
+		return lo <= hi ? lo : FR_EMPTY;
+	x = lo > along ? lo : along;
+	return x > hi ? FR_EMPTY : x;
+}
+
 /* Row-by-row reachability pieces shared by the deciders and witnesses (decide.c). */
 void		fr_bottom_edge(const fr_prep *p, const fr_prep *q, double eps, double *row);
 double		fr_left_edge(const fr_prep *p, const fr_prep *q, size_t j, double eps, bool *full);

@@ -54,14 +54,7 @@ fr_one_row_decide(const fr_prep *piece, const fr_prep *seg, double eps, double *
 		if (br == FR_EMPTY && lr == FR_EMPTY)
 			return false;		/* the bottom's reachable part is a prefix: nothing enters later */
 		fr_free_interval(&pv[i + 1], qa, qs, qb, eps, &a, &b);
-		if (br != FR_EMPTY)
-			nlr = a <= b ? a : FR_EMPTY;
-		else
-		{
-			nlr = a > lr ? a : lr;
-			if (nlr > b)
-				nlr = FR_EMPTY;
-		}
+		nlr = fr_reach_out(a, b, br, lr);
 		if (i + 2 == n)
 		{
 			double		c,
@@ -69,14 +62,7 @@ fr_one_row_decide(const fr_prep *piece, const fr_prep *seg, double eps, double *
 
 			/* the last cell's top: vertex q[1] against segment p[i] */
 			fr_free_interval(qb, &pv[i], &piece->s[i], &pv[i + 1], eps, &c, &d);
-			if (lr != FR_EMPTY)
-				top = c <= d ? c : FR_EMPTY;
-			else
-			{
-				top = c > br ? c : br;
-				if (top > d)
-					top = FR_EMPTY;
-			}
+			top = fr_reach_out(c, d, lr, br);
 		}
 		lr = nlr;
 	}

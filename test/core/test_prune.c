@@ -120,6 +120,22 @@ make_curve(int kind, size_t n, const double *other, size_t on)
 }
 
 /*
+ * A pair of one family of make_curve: kind 1 a walk and a noisy copy of
+ * it, kind 3 a street and a second recording of it (both curves of one
+ * length), kinds 0 and 2 two curves of their own; lengths 2 to max_n + 1
+ * and 2 to max_m + 1.
+ */
+static void
+family_pair(int kind, size_t max_n, size_t max_m, size_t *n, size_t *m, double **a, double **b)
+{
+	*n = 2 + test_rand64() % max_n;
+	*m = kind == 1 || kind == 3 ? *n : 2 + test_rand64() % max_m;
+	*a = make_curve(kind == 1 ? 0 : kind, *n, NULL, 0);
+	*b = kind == 1 ? make_curve(1, *n, *a, *n) : kind == 3 ? test_jitter(*a, *n, 2, 6) :
+		make_curve(kind, *m, NULL, 0);
+}
+
+/*
  * 100,000+ decisions: random eps, the distance and its neighbouring
  * doubles, and vertex-to-segment critical values (type b) and theirs.
  */
@@ -374,16 +390,20 @@ fast_distance_equals_reference(void **state)
 	for (int t = 0; t < 600; t++)
 	{
 		int			kind = t % 4;
-		size_t		n = 2 + test_rand64() % (t % 10 == 0 ? 120 : 40),
-					m = kind == 1 || kind == 3 ? n : 2 + test_rand64() % 40;
-		double	   *ca = make_curve(kind == 1 ? 0 : kind, n, NULL, 0),
-				   *cb = kind == 1 ? make_curve(1, n, ca, n) : kind == 3 ? test_jitter(ca, n, 2, 6) : make_curve(kind, m, NULL, 0);
-		fr_curve	a = {ca, n, 2},
-					b = {cb, m, 2};
+		size_t		n,
+					m;
+		double	   *ca,
+				   *cb;
 		test_heap	h;
 		fr_env		e = test_env(&h);
 		double		fast,
 					ref;
+		fr_curve	a,
+					b;
+
+		family_pair(kind, t % 10 == 0 ? 120 : 40, 40, &n, &m, &ca, &cb);
+		a = (fr_curve) {ca, n, 2};
+		b = (fr_curve) {cb, m, 2};
 
 		if (kind == 2)
 			for (size_t i = 0; i < m; i++)
@@ -554,19 +574,24 @@ coupling_filter_is_the_discrete_decision(void **state)
 	for (int t = 0; t < 3000; t++)
 	{
 		int			kind = t % 4;
-		size_t		n = 2 + test_rand64() % 40,
-					m = kind == 1 || kind == 3 ? n : 2 + test_rand64() % 40;
-		double	   *ca = make_curve(kind == 1 ? 0 : kind, n, NULL, 0),
-				   *cb = kind == 1 ? make_curve(1, n, ca, n) : kind == 3 ? test_jitter(ca, n, 2, 6) : make_curve(kind, m, NULL, 0);
-		fr_curve	a = {ca, n, 2},
-					b = {cb, m, 2};
+		size_t		n,
+					m;
+		double	   *ca,
+				   *cb;
+		fr_curve	a,
+					b;
 		test_heap	h;
 		fr_env		e = test_env(&h);
 		fr_prep		pp,
 					pq;
 		double		dd,
 					eps[3];
-		unsigned char *row = malloc(n);
+		unsigned char *row;
+
+		family_pair(kind, 40, 40, &n, &m, &ca, &cb);
+		a = (fr_curve) {ca, n, 2};
+		b = (fr_curve) {cb, m, 2};
+		row = malloc(n);
 
 		assert_int_equal(fr_discrete_distance(&e, &a, &b, &dd), FR_OK);
 		assert_int_equal(fr_prepare_pair(&e, &a, &b, &pp, &pq), FR_OK);
