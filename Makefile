@@ -4,7 +4,7 @@
 
 EXTENSION = frechet_ext
 MODULE_big = frechet_ext
-EXTVERSION = 0.1
+EXTVERSION = 0.2
 
 CORE_OBJS = src/core/freespace.o src/core/decide.o src/core/distance.o \
 	src/core/discrete.o src/core/matching.o src/core/partial.o \

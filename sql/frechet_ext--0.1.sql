@@ -1,0 +1,340 @@
+-- frechet_ext install script: Fréchet distances on point[].
+\echo Use "CREATE EXTENSION frechet_ext" to load this file. \quit
+
+CREATE FUNCTION @extschema@.frechet_distance(a pg_catalog.point[], b pg_catalog.point[])
+RETURNS pg_catalog.float8
+AS 'MODULE_PATHNAME', 'frechet_distance_point_array'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 50000;
+
+COMMENT ON FUNCTION @extschema@.frechet_distance(pg_catalog.point[], pg_catalog.point[]) IS
+'continuous Fréchet distance between two polylines, exact to double precision, in coordinate units';
+
+CREATE FUNCTION @extschema@.frechet_at_most(a pg_catalog.point[], b pg_catalog.point[], epsilon pg_catalog.float8)
+RETURNS pg_catalog.bool
+AS 'MODULE_PATHNAME', 'frechet_at_most_point_array'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 5000;
+
+COMMENT ON FUNCTION @extschema@.frechet_at_most(pg_catalog.point[], pg_catalog.point[], pg_catalog.float8) IS
+'true when the continuous Fréchet distance between two polylines is at most epsilon; cheaper than computing the distance';
+
+CREATE FUNCTION @extschema@.discrete_frechet_distance(a pg_catalog.point[], b pg_catalog.point[])
+RETURNS pg_catalog.float8
+AS 'MODULE_PATHNAME', 'discrete_frechet_distance_point_array'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 10000;
+
+COMMENT ON FUNCTION @extschema@.discrete_frechet_distance(pg_catalog.point[], pg_catalog.point[]) IS
+'discrete Fréchet distance (vertex-to-vertex couplings only) between two polylines, in coordinate units';
+
+CREATE OPERATOR @extschema@.<-> (
+	LEFTARG = pg_catalog.point[],
+	RIGHTARG = pg_catalog.point[],
+	FUNCTION = @extschema@.frechet_distance,
+	COMMUTATOR = OPERATOR(@extschema@.<->)
+);
+
+COMMENT ON OPERATOR @extschema@.<-> (pg_catalog.point[], pg_catalog.point[]) IS
+'continuous Fréchet distance, the same as frechet_distance';
+
+CREATE FUNCTION @extschema@.frechet_simplify(track pg_catalog.point[], tolerance pg_catalog.float8)
+RETURNS pg_catalog.point[]
+AS 'MODULE_PATHNAME', 'frechet_simplify_point_array'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 5000;
+
+COMMENT ON FUNCTION @extschema@.frechet_simplify(pg_catalog.point[], pg_catalog.float8) IS
+'a subset of the track''s vertices, first and last kept, whose polyline is within Fréchet distance tolerance of the track';
+
+-- Witness and diagnosis: the matching, its bottleneck, partial matches.
+
+CREATE FUNCTION @extschema@.frechet_matching(a pg_catalog.point[], b pg_catalog.point[],
+	epsilon pg_catalog.float8 DEFAULT NULL)
+RETURNS TABLE (step pg_catalog.int4, a_pos pg_catalog.float8, b_pos pg_catalog.float8,
+	a_point pg_catalog.point, b_point pg_catalog.point, leash pg_catalog.float8)
+AS 'MODULE_PATHNAME', 'frechet_matching_point_array'
+LANGUAGE C IMMUTABLE CALLED ON NULL INPUT PARALLEL SAFE COST 100000 ROWS 200;
+
+COMMENT ON FUNCTION @extschema@.frechet_matching(pg_catalog.point[], pg_catalog.point[], pg_catalog.float8) IS
+'breakpoints of a monotone matching of two polylines (positions k + t, 1-based); optimal when epsilon is NULL, else any within epsilon, or no rows';
+
+CREATE FUNCTION @extschema@.frechet_bottleneck(a pg_catalog.point[], b pg_catalog.point[])
+RETURNS TABLE (a_pos pg_catalog.float8, b_pos pg_catalog.float8,
+	a_point pg_catalog.point, b_point pg_catalog.point, leash pg_catalog.float8)
+AS 'MODULE_PATHNAME', 'frechet_bottleneck_point_array'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 100000 ROWS 1;
+
+COMMENT ON FUNCTION @extschema@.frechet_bottleneck(pg_catalog.point[], pg_catalog.point[]) IS
+'where the longest leash of an optimal matching is: positions (k + t, 1-based), points and the leash, which equals the Fréchet distance';
+
+CREATE FUNCTION @extschema@.frechet_partial_distance(trip pg_catalog.point[], route pg_catalog.point[])
+RETURNS pg_catalog.float8
+AS 'MODULE_PATHNAME', 'frechet_partial_distance_point_array'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 50000;
+
+COMMENT ON FUNCTION @extschema@.frechet_partial_distance(pg_catalog.point[], pg_catalog.point[]) IS
+'smallest Fréchet distance between the trip and any part of the route, exact to double precision';
+
+CREATE FUNCTION @extschema@.frechet_partial_match(trip pg_catalog.point[], route pg_catalog.point[],
+	epsilon pg_catalog.float8)
+RETURNS TABLE (route_from pg_catalog.float8, route_to pg_catalog.float8, distance pg_catalog.float8)
+AS 'MODULE_PATHNAME', 'frechet_partial_match_point_array'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 20000 ROWS 1;
+
+COMMENT ON FUNCTION @extschema@.frechet_partial_match(pg_catalog.point[], pg_catalog.point[], pg_catalog.float8) IS
+'the part of the route (positions k + t, 1-based) that the trip follows within epsilon, with the distance to it; no row if none';
+
+CREATE FUNCTION @extschema@.frechet_excursions(trip pg_catalog.point[], route pg_catalog.point[],
+	epsilon pg_catalog.float8)
+RETURNS TABLE (trip_from pg_catalog.float8, trip_to pg_catalog.float8,
+	route_from pg_catalog.float8, route_to pg_catalog.float8,
+	max_leash pg_catalog.float8, trip_length pg_catalog.float8)
+AS 'MODULE_PATHNAME', 'frechet_excursions_point_array'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 100000 ROWS 2;
+
+COMMENT ON FUNCTION @extschema@.frechet_excursions(pg_catalog.point[], pg_catalog.point[], pg_catalog.float8) IS
+'stretches of the trip (vertex numbers) that an order-preserving matching cannot keep within epsilon of the route, with where on the route it left and rejoined; no rows exactly when frechet_at_most is true';
+-- Index support: a GiST operator class on point[] for range queries
+-- (frechet_at_most, through its planner support function) and k-nearest
+-- queries (ORDER BY track <-> route).  See src/gist.c and src/support.c.
+
+CREATE TYPE @extschema@.frechet_key;
+
+CREATE FUNCTION @extschema@.frechet_key_in(pg_catalog.cstring)
+RETURNS @extschema@.frechet_key
+AS 'MODULE_PATHNAME', 'frechet_key_in'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+
+CREATE FUNCTION @extschema@.frechet_key_out(@extschema@.frechet_key)
+RETURNS pg_catalog.cstring
+AS 'MODULE_PATHNAME', 'frechet_key_out'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+
+CREATE TYPE @extschema@.frechet_key (
+	INPUT = @extschema@.frechet_key_in,
+	OUTPUT = @extschema@.frechet_key_out,
+	INTERNALLENGTH = 136,
+	ALIGNMENT = double,
+	STORAGE = plain
+);
+
+COMMENT ON TYPE @extschema@.frechet_key IS
+'summary of tracks for the GiST index: ranges of the first vertex, the last vertex and the bounding-box corners; a range query''s reach';
+
+COMMENT ON FUNCTION @extschema@.frechet_key_in(pg_catalog.cstring) IS
+'text input of frechet_key';
+
+COMMENT ON FUNCTION @extschema@.frechet_key_out(@extschema@.frechet_key) IS
+'text output of frechet_key';
+
+CREATE FUNCTION @extschema@.frechet_track_key(track pg_catalog.point[])
+RETURNS @extschema@.frechet_key
+AS 'MODULE_PATHNAME', 'frechet_track_key_point_array'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 10;
+
+COMMENT ON FUNCTION @extschema@.frechet_track_key(pg_catalog.point[]) IS
+'the summary the GiST index keeps for a track: first vertex, last vertex, bounding box';
+
+CREATE FUNCTION @extschema@.frechet_reach(route pg_catalog.point[], epsilon pg_catalog.float8)
+RETURNS @extschema@.frechet_key
+AS 'MODULE_PATHNAME', 'frechet_reach_point_array'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 10;
+
+COMMENT ON FUNCTION @extschema@.frechet_reach(pg_catalog.point[], pg_catalog.float8) IS
+'the route''s summary with epsilon as its reach: the right operand of &~ in range queries';
+
+CREATE FUNCTION @extschema@.frechet_within_reach(track pg_catalog.point[], reach @extschema@.frechet_key)
+RETURNS pg_catalog.bool
+AS 'MODULE_PATHNAME', 'frechet_within_reach_point_array'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 10;
+
+COMMENT ON FUNCTION @extschema@.frechet_within_reach(pg_catalog.point[], @extschema@.frechet_key) IS
+'false only when the track cannot be within the reach''s epsilon of its route (first vertex, last vertex or a box side too far); a necessary condition for frechet_at_most';
+
+CREATE FUNCTION @extschema@.frechet_within_reach(reach @extschema@.frechet_key, track pg_catalog.point[])
+RETURNS pg_catalog.bool
+AS 'MODULE_PATHNAME', 'frechet_reach_within_point_array'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 10;
+
+COMMENT ON FUNCTION @extschema@.frechet_within_reach(@extschema@.frechet_key, pg_catalog.point[]) IS
+'frechet_within_reach with its operands swapped';
+
+CREATE OPERATOR @extschema@.&~ (
+	LEFTARG = pg_catalog.point[],
+	RIGHTARG = @extschema@.frechet_key,
+	FUNCTION = @extschema@.frechet_within_reach,
+	COMMUTATOR = OPERATOR(@extschema@.&~),
+	RESTRICT = pg_catalog.contsel,
+	JOIN = pg_catalog.contjoinsel
+);
+
+CREATE OPERATOR @extschema@.&~ (
+	LEFTARG = @extschema@.frechet_key,
+	RIGHTARG = pg_catalog.point[],
+	FUNCTION = @extschema@.frechet_within_reach,
+	COMMUTATOR = OPERATOR(@extschema@.&~),
+	RESTRICT = pg_catalog.contsel,
+	JOIN = pg_catalog.contjoinsel
+);
+
+COMMENT ON OPERATOR @extschema@.&~ (pg_catalog.point[], @extschema@.frechet_key) IS
+'the track may lie within the reach''s epsilon of its route: the lossy index condition of frechet_at_most';
+
+COMMENT ON OPERATOR @extschema@.&~ (@extschema@.frechet_key, pg_catalog.point[]) IS
+'the track may lie within the reach''s epsilon of its route (operands swapped)';
+
+CREATE FUNCTION @extschema@.frechet_gist_consistent(internal, pg_catalog.point[], pg_catalog.int2, pg_catalog.oid, internal)
+RETURNS pg_catalog.bool
+AS 'MODULE_PATHNAME', 'frechet_gist_consistent'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+
+CREATE FUNCTION @extschema@.frechet_gist_union(internal, internal)
+RETURNS @extschema@.frechet_key
+AS 'MODULE_PATHNAME', 'frechet_gist_union'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+
+CREATE FUNCTION @extschema@.frechet_gist_compress(internal)
+RETURNS internal
+AS 'MODULE_PATHNAME', 'frechet_gist_compress'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+
+CREATE FUNCTION @extschema@.frechet_gist_penalty(internal, internal, internal)
+RETURNS internal
+AS 'MODULE_PATHNAME', 'frechet_gist_penalty'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+
+CREATE FUNCTION @extschema@.frechet_gist_picksplit(internal, internal)
+RETURNS internal
+AS 'MODULE_PATHNAME', 'frechet_gist_picksplit'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+
+CREATE FUNCTION @extschema@.frechet_gist_same(@extschema@.frechet_key, @extschema@.frechet_key, internal)
+RETURNS internal
+AS 'MODULE_PATHNAME', 'frechet_gist_same'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+
+CREATE FUNCTION @extschema@.frechet_gist_distance(internal, pg_catalog.point[], pg_catalog.int2, pg_catalog.oid, internal)
+RETURNS pg_catalog.float8
+AS 'MODULE_PATHNAME', 'frechet_gist_distance'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+
+COMMENT ON FUNCTION @extschema@.frechet_gist_consistent(internal, pg_catalog.point[], pg_catalog.int2, pg_catalog.oid, internal) IS
+'GiST support: may an entry hold a track within the query''s reach';
+COMMENT ON FUNCTION @extschema@.frechet_gist_union(internal, internal) IS
+'GiST support: the key covering a set of entries';
+COMMENT ON FUNCTION @extschema@.frechet_gist_compress(internal) IS
+'GiST support: the summary of a track';
+COMMENT ON FUNCTION @extschema@.frechet_gist_penalty(internal, internal, internal) IS
+'GiST support: growth of a node''s key when it takes an entry';
+COMMENT ON FUNCTION @extschema@.frechet_gist_picksplit(internal, internal) IS
+'GiST support: split of a full page';
+COMMENT ON FUNCTION @extschema@.frechet_gist_same(@extschema@.frechet_key, @extschema@.frechet_key, internal) IS
+'GiST support: equality of keys';
+COMMENT ON FUNCTION @extschema@.frechet_gist_distance(internal, pg_catalog.point[], pg_catalog.int2, pg_catalog.oid, internal) IS
+'GiST support: a lower bound of the Fréchet distance from the query route to the tracks under an entry';
+
+CREATE OPERATOR CLASS @extschema@.frechet_track_ops
+DEFAULT FOR TYPE pg_catalog.point[] USING gist AS
+	OPERATOR 1 @extschema@.&~ (pg_catalog.point[], @extschema@.frechet_key),
+	OPERATOR 15 @extschema@.<-> (pg_catalog.point[], pg_catalog.point[]) FOR ORDER BY pg_catalog.float_ops,
+	FUNCTION 1 @extschema@.frechet_gist_consistent(internal, pg_catalog.point[], pg_catalog.int2, pg_catalog.oid, internal),
+	FUNCTION 2 @extschema@.frechet_gist_union(internal, internal),
+	FUNCTION 3 @extschema@.frechet_gist_compress(internal),
+	FUNCTION 5 @extschema@.frechet_gist_penalty(internal, internal, internal),
+	FUNCTION 6 @extschema@.frechet_gist_picksplit(internal, internal),
+	FUNCTION 7 @extschema@.frechet_gist_same(@extschema@.frechet_key, @extschema@.frechet_key, internal),
+	FUNCTION 8 @extschema@.frechet_gist_distance(internal, pg_catalog.point[], pg_catalog.int2, pg_catalog.oid, internal),
+	STORAGE @extschema@.frechet_key;
+
+CREATE FUNCTION @extschema@.frechet_at_most_support(internal)
+RETURNS internal
+AS 'MODULE_PATHNAME', 'frechet_at_most_support'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+
+COMMENT ON FUNCTION @extschema@.frechet_at_most_support(internal) IS
+'planner support for frechet_at_most: derives the lossy index condition track &~ frechet_reach(route, epsilon)';
+
+ALTER FUNCTION @extschema@.frechet_at_most(pg_catalog.point[], pg_catalog.point[], pg_catalog.float8)
+	SUPPORT @extschema@.frechet_at_most_support;
+
+-- Maps and dashboards: pieces of tracks, and a pair's matching as GeoJSON
+-- (RFC 7946).  The SQL functions have standard SQL bodies: they are parsed
+-- when the script runs, so they work under any search_path, including a
+-- postgres_fdw remote session's search_path = pg_catalog.
+
+CREATE FUNCTION @extschema@.frechet_track_piece(track pg_catalog.point[], pos_from pg_catalog.float8,
+	pos_to pg_catalog.float8)
+RETURNS pg_catalog.point[]
+AS 'MODULE_PATHNAME', 'frechet_track_piece_point_array'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 10;
+
+COMMENT ON FUNCTION @extschema@.frechet_track_piece(pg_catalog.point[], pg_catalog.float8, pg_catalog.float8) IS
+'the part of a track between two positions (k + t, 1-based): the point at pos_from, the vertices between, the point at pos_to';
+
+CREATE FUNCTION @extschema@.frechet_track_geojson(track pg_catalog.point[])
+RETURNS pg_catalog.jsonb
+LANGUAGE sql IMMUTABLE STRICT PARALLEL SAFE COST 20
+RETURN (
+	SELECT CASE WHEN pg_catalog.count(*) = 1
+		THEN pg_catalog.jsonb_build_object('type', 'Point',
+			'coordinates', (pg_catalog.array_agg(pg_catalog.jsonb_build_array(u.p[0], u.p[1])))[1])
+		ELSE pg_catalog.jsonb_build_object('type', 'LineString',
+			'coordinates', pg_catalog.jsonb_agg(pg_catalog.jsonb_build_array(u.p[0], u.p[1]) ORDER BY u.i))
+		END
+	FROM pg_catalog.unnest(@extschema@.frechet_track_piece(track, 1, pg_catalog.cardinality(track)))
+		WITH ORDINALITY AS u(p, i));
+
+COMMENT ON FUNCTION @extschema@.frechet_track_geojson(pg_catalog.point[]) IS
+'a track as a GeoJSON geometry: a LineString, or a Point for a one-point track; coordinates as stored';
+
+CREATE FUNCTION @extschema@.frechet_geojson(a pg_catalog.point[], b pg_catalog.point[],
+	epsilon pg_catalog.float8 DEFAULT NULL)
+RETURNS pg_catalog.jsonb
+LANGUAGE sql IMMUTABLE PARALLEL SAFE COST 300000
+BEGIN ATOMIC
+	SELECT pg_catalog.jsonb_build_object(
+		'type', 'FeatureCollection',
+		'frechet', pg_catalog.jsonb_build_object(
+			'distance', dd.d,
+			'epsilon', epsilon,
+			'within_epsilon', @extschema@.frechet_at_most(a, b, epsilon),
+			'excursions', pg_catalog.jsonb_array_length(ex.features)),
+		'features', pg_catalog.jsonb_build_array(
+			pg_catalog.jsonb_build_object('type', 'Feature',
+				'properties', pg_catalog.jsonb_build_object('role', 'a', 'vertices', pg_catalog.cardinality(a),
+					'distance', dd.d, 'epsilon', epsilon),
+				'geometry', @extschema@.frechet_track_geojson(a)),
+			pg_catalog.jsonb_build_object('type', 'Feature',
+				'properties', pg_catalog.jsonb_build_object('role', 'b', 'vertices', pg_catalog.cardinality(b),
+					'distance', dd.d, 'epsilon', epsilon),
+				'geometry', @extschema@.frechet_track_geojson(b)),
+			pg_catalog.jsonb_build_object('type', 'Feature',
+				'properties', pg_catalog.jsonb_build_object('role', 'leashes', 'count', ls.n),
+				'geometry', pg_catalog.jsonb_build_object('type', 'MultiLineString',
+					'coordinates', ls.lines)),
+			pg_catalog.jsonb_build_object('type', 'Feature',
+				'properties', pg_catalog.jsonb_build_object('role', 'bottleneck', 'leash', bn.leash,
+					'a_pos', bn.a_pos, 'b_pos', bn.b_pos),
+				'geometry', pg_catalog.jsonb_build_object('type', 'LineString',
+					'coordinates', pg_catalog.jsonb_build_array(
+						pg_catalog.jsonb_build_array(bn.a_point[0], bn.a_point[1]),
+						pg_catalog.jsonb_build_array(bn.b_point[0], bn.b_point[1])))))
+			OPERATOR(pg_catalog.||) ex.features)
+	FROM (SELECT @extschema@.frechet_distance(a, b) AS d) AS dd,
+		@extschema@.frechet_bottleneck(a, b) AS bn,
+		LATERAL (SELECT pg_catalog.count(*) AS n,
+				pg_catalog.jsonb_agg(pg_catalog.jsonb_build_array(
+					pg_catalog.jsonb_build_array(m.a_point[0], m.a_point[1]),
+					pg_catalog.jsonb_build_array(m.b_point[0], m.b_point[1])) ORDER BY m.step) AS lines
+			FROM @extschema@.frechet_matching(a, b) AS m) AS ls,
+		LATERAL (SELECT COALESCE(pg_catalog.jsonb_agg(pg_catalog.jsonb_build_object('type', 'Feature',
+					'properties', pg_catalog.jsonb_build_object('role', 'excursion', 'number', x.n,
+						'trip_from', x.trip_from, 'trip_to', x.trip_to,
+						'route_from', x.route_from, 'route_to', x.route_to,
+						'max_leash', x.max_leash, 'trip_length', x.trip_length),
+					'geometry', @extschema@.frechet_track_geojson(
+						@extschema@.frechet_track_piece(a, x.trip_from, x.trip_to))) ORDER BY x.n),
+				'[]'::pg_catalog.jsonb) AS features
+			FROM @extschema@.frechet_excursions(a, b, epsilon) WITH ORDINALITY AS x(trip_from, trip_to,
+				route_from, route_to, max_leash, trip_length, n)) AS ex;
+END;
+
+COMMENT ON FUNCTION @extschema@.frechet_geojson(pg_catalog.point[], pg_catalog.point[], pg_catalog.float8) IS
+'a GeoJSON FeatureCollection of a pair for a map: both tracks (roles a, b), the leashes of an optimal matching, the bottleneck leash and, with epsilon, the excursions of a from b; a foreign member frechet with distance and epsilon (a FeatureCollection may not have properties); coordinates as stored';

@@ -1,0 +1,595 @@
+-- frechet_ext_postgis install script: Fréchet distances on PostGIS geometry
+-- and geography.  The C functions live in the frechet_ext library, which
+-- neither includes PostGIS headers nor links PostGIS: it asks PostGIS for
+-- ST_AsEWKB of each argument and decodes the EWKB itself.
+\echo Use "CREATE EXTENSION frechet_ext_postgis" to load this file. \quit
+
+-- PostgreSQL 15 has no @extschema:postgis@ (nor @extschema:frechet_ext@);
+-- while this script runs, the schemas of the required extensions are on
+-- search_path after ours.  Make sure the type names below resolve to
+-- PostGIS's own types; frechet_key is frechet_ext's.
+-- lint_sql: allow geometry geography frechet_key
+DO $$
+DECLARE
+	pg_nsp oid := (SELECT extnamespace FROM pg_catalog.pg_extension WHERE extname = 'postgis');
+BEGIN
+	IF (SELECT typnamespace FROM pg_catalog.pg_type WHERE oid = 'geometry'::pg_catalog.regtype) <> pg_nsp
+	   OR (SELECT typnamespace FROM pg_catalog.pg_type WHERE oid = 'geography'::pg_catalog.regtype) <> pg_nsp THEN
+		RAISE EXCEPTION 'geometry or geography does not resolve to the types of postgis'
+			USING DETAIL = 'Another type of that name is in the target schema.',
+			      HINT = 'Install frechet_ext_postgis in the schema of postgis or in a schema without such types.';
+	END IF;
+END $$;
+
+-- EWKB entry points: usable without PostGIS values, e.g. on EWKB from elsewhere.
+CREATE FUNCTION @extschema@.frechet_distance_ewkb(a pg_catalog.bytea, b pg_catalog.bytea, geodetic pg_catalog.bool DEFAULT false)
+RETURNS pg_catalog.float8
+AS 'MODULE_PATHNAME', 'frechet_distance_ewkb'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 50000;
+
+COMMENT ON FUNCTION @extschema@.frechet_distance_ewkb(pg_catalog.bytea, pg_catalog.bytea, pg_catalog.bool) IS
+'continuous Fréchet distance between two EWKB/WKB LineStrings or Points; geodetic: lon/lat degrees, result in metres on WGS84';
+
+CREATE FUNCTION @extschema@.frechet_at_most_ewkb(a pg_catalog.bytea, b pg_catalog.bytea, epsilon pg_catalog.float8, geodetic pg_catalog.bool DEFAULT false)
+RETURNS pg_catalog.bool
+AS 'MODULE_PATHNAME', 'frechet_at_most_ewkb'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 5000;
+
+COMMENT ON FUNCTION @extschema@.frechet_at_most_ewkb(pg_catalog.bytea, pg_catalog.bytea, pg_catalog.float8, pg_catalog.bool) IS
+'true when the continuous Fréchet distance between two EWKB/WKB curves is at most epsilon (metres on WGS84 when geodetic)';
+
+CREATE FUNCTION @extschema@.discrete_frechet_distance_ewkb(a pg_catalog.bytea, b pg_catalog.bytea, geodetic pg_catalog.bool DEFAULT false)
+RETURNS pg_catalog.float8
+AS 'MODULE_PATHNAME', 'discrete_frechet_distance_ewkb'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 10000;
+
+COMMENT ON FUNCTION @extschema@.discrete_frechet_distance_ewkb(pg_catalog.bytea, pg_catalog.bytea, pg_catalog.bool) IS
+'discrete Fréchet distance between two EWKB/WKB curves; geodetic: lon/lat degrees, result in metres on WGS84';
+
+-- Used by the index condition that the planner support function builds.
+CREATE FUNCTION @extschema@.frechet_index_expansion(epsilon pg_catalog.float8, geodetic pg_catalog.bool)
+RETURNS pg_catalog.float8
+AS 'MODULE_PATHNAME', 'frechet_index_expansion'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+
+COMMENT ON FUNCTION @extschema@.frechet_index_expansion(pg_catalog.float8, pg_catalog.bool) IS
+'how far a bounding box is expanded for the index filter of frechet_at_most (internal; validates epsilon)';
+
+CREATE FUNCTION @extschema@.frechet_geo_at_most_support(internal)
+RETURNS internal
+AS 'MODULE_PATHNAME', 'frechet_geo_at_most_support'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+
+COMMENT ON FUNCTION @extschema@.frechet_geo_at_most_support(internal) IS
+'planner support for frechet_at_most on geometry and geography: a lossy bounding-box index condition expanded by epsilon';
+
+-- geometry: planar, in the units of the SRID; 3-D when both curves have Z.
+CREATE FUNCTION @extschema@.frechet_distance(a geometry, b geometry)
+RETURNS pg_catalog.float8
+AS 'MODULE_PATHNAME', 'frechet_distance_geometry'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 50000;
+
+COMMENT ON FUNCTION @extschema@.frechet_distance(geometry, geometry) IS
+'continuous Fréchet distance between two LineStrings (or Points), in the units of their SRID; 3-D when both have Z';
+
+CREATE FUNCTION @extschema@.frechet_at_most(a geometry, b geometry, epsilon pg_catalog.float8)
+RETURNS pg_catalog.bool
+AS 'MODULE_PATHNAME', 'frechet_at_most_geometry'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 5000
+SUPPORT @extschema@.frechet_geo_at_most_support;
+
+COMMENT ON FUNCTION @extschema@.frechet_at_most(geometry, geometry, pg_catalog.float8) IS
+'true when the continuous Fréchet distance is at most epsilon (units of the SRID); uses a PostGIS index on either argument';
+
+CREATE FUNCTION @extschema@.discrete_frechet_distance(a geometry, b geometry)
+RETURNS pg_catalog.float8
+AS 'MODULE_PATHNAME', 'discrete_frechet_distance_geometry'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 10000;
+
+COMMENT ON FUNCTION @extschema@.discrete_frechet_distance(geometry, geometry) IS
+'discrete Fréchet distance (vertex couplings only) between two LineStrings, in the units of their SRID';
+
+-- geography: metres on the WGS84 ellipsoid (Earth-centred chord metric).
+CREATE FUNCTION @extschema@.frechet_distance(a geography, b geography)
+RETURNS pg_catalog.float8
+AS 'MODULE_PATHNAME', 'frechet_distance_geography'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 50000;
+
+COMMENT ON FUNCTION @extschema@.frechet_distance(geography, geography) IS
+'continuous Fréchet distance between two lon/lat LineStrings, in metres on WGS84';
+
+CREATE FUNCTION @extschema@.frechet_at_most(a geography, b geography, epsilon pg_catalog.float8)
+RETURNS pg_catalog.bool
+AS 'MODULE_PATHNAME', 'frechet_at_most_geography'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 5000
+SUPPORT @extschema@.frechet_geo_at_most_support;
+
+COMMENT ON FUNCTION @extschema@.frechet_at_most(geography, geography, pg_catalog.float8) IS
+'true when the continuous Fréchet distance is at most epsilon metres on WGS84; uses a PostGIS geography index on either argument';
+
+CREATE FUNCTION @extschema@.discrete_frechet_distance(a geography, b geography)
+RETURNS pg_catalog.float8
+AS 'MODULE_PATHNAME', 'discrete_frechet_distance_geography'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 10000;
+
+COMMENT ON FUNCTION @extschema@.discrete_frechet_distance(geography, geography) IS
+'discrete Fréchet distance between two lon/lat LineStrings, in metres on WGS84';
+
+-- PostGIS already owns <-> on geometry and geography (box and centroid
+-- distance for nearest-neighbour searches), so the Fréchet distance
+-- operator of these types is spelled <~>.
+CREATE OPERATOR @extschema@.<~> (
+	LEFTARG = geometry,
+	RIGHTARG = geometry,
+	FUNCTION = @extschema@.frechet_distance,
+	COMMUTATOR = OPERATOR(@extschema@.<~>)
+);
+
+COMMENT ON OPERATOR @extschema@.<~> (geometry, geometry) IS
+'continuous Fréchet distance, the same as frechet_distance(geometry, geometry)';
+
+CREATE OPERATOR @extschema@.<~> (
+	LEFTARG = geography,
+	RIGHTARG = geography,
+	FUNCTION = @extschema@.frechet_distance,
+	COMMUTATOR = OPERATOR(@extschema@.<~>)
+);
+
+COMMENT ON OPERATOR @extschema@.<~> (geography, geography) IS
+'continuous Fréchet distance in metres, the same as frechet_distance(geography, geography)';
+
+-- Witnesses on geometry (units of the SRID); results for maps keep the inputs' SRID.
+CREATE FUNCTION @extschema@.frechet_matching(a geometry, b geometry, epsilon pg_catalog.float8 DEFAULT NULL)
+RETURNS TABLE (step pg_catalog.int4, a_pos pg_catalog.float8, b_pos pg_catalog.float8,
+	a_point geometry, b_point geometry, leash pg_catalog.float8)
+AS 'MODULE_PATHNAME', 'frechet_matching_geometry'
+LANGUAGE C IMMUTABLE CALLED ON NULL INPUT PARALLEL SAFE COST 100000 ROWS 200;
+
+COMMENT ON FUNCTION @extschema@.frechet_matching(geometry, geometry, pg_catalog.float8) IS
+'breakpoints of a monotone matching (positions k + t, 1-based) with their points; leash in units of the SRID; optimal when epsilon is NULL, else any within epsilon, or no rows';
+
+CREATE FUNCTION @extschema@.frechet_matching_leashes(a geometry, b geometry, epsilon pg_catalog.float8 DEFAULT NULL)
+RETURNS geometry
+AS 'MODULE_PATHNAME', 'frechet_matching_leashes_geometry'
+LANGUAGE C IMMUTABLE CALLED ON NULL INPUT PARALLEL SAFE COST 100000;
+
+COMMENT ON FUNCTION @extschema@.frechet_matching_leashes(geometry, geometry, pg_catalog.float8) IS
+'the matching of frechet_matching as a MultiLineString of leash segments (one per breakpoint), for a map; NULL when no matching within epsilon exists';
+
+CREATE FUNCTION @extschema@.frechet_bottleneck(a geometry, b geometry)
+RETURNS TABLE (a_pos pg_catalog.float8, b_pos pg_catalog.float8,
+	a_point geometry, b_point geometry, leash pg_catalog.float8)
+AS 'MODULE_PATHNAME', 'frechet_bottleneck_geometry'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 100000 ROWS 1;
+
+COMMENT ON FUNCTION @extschema@.frechet_bottleneck(geometry, geometry) IS
+'where the longest leash of an optimal matching is: positions, points and the leash (units of the SRID), which equals the Fréchet distance';
+
+CREATE FUNCTION @extschema@.frechet_partial_distance(trip geometry, route geometry)
+RETURNS pg_catalog.float8
+AS 'MODULE_PATHNAME', 'frechet_partial_distance_geometry'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 50000;
+
+COMMENT ON FUNCTION @extschema@.frechet_partial_distance(geometry, geometry) IS
+'smallest Fréchet distance between the trip and any part of the route, in units of the SRID';
+
+CREATE FUNCTION @extschema@.frechet_partial_match(trip geometry, route geometry, epsilon pg_catalog.float8)
+RETURNS TABLE (route_from pg_catalog.float8, route_to pg_catalog.float8, distance pg_catalog.float8,
+	route_part geometry)
+AS 'MODULE_PATHNAME', 'frechet_partial_match_geometry'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 20000 ROWS 1;
+
+COMMENT ON FUNCTION @extschema@.frechet_partial_match(geometry, geometry, pg_catalog.float8) IS
+'the part of the route the trip follows within epsilon (units of the SRID): positions, distance and the route sub-line; no row if none';
+
+CREATE FUNCTION @extschema@.frechet_excursions(trip geometry, route geometry, epsilon pg_catalog.float8)
+RETURNS TABLE (trip_from pg_catalog.float8, trip_to pg_catalog.float8,
+	route_from pg_catalog.float8, route_to pg_catalog.float8,
+	max_leash pg_catalog.float8, trip_length pg_catalog.float8, trip_piece geometry)
+AS 'MODULE_PATHNAME', 'frechet_excursions_geometry'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 100000 ROWS 2;
+
+COMMENT ON FUNCTION @extschema@.frechet_excursions(geometry, geometry, pg_catalog.float8) IS
+'stretches of the trip that no order-preserving matching keeps within epsilon (units of the SRID) of the route, with the trip piece as a LineString; no rows exactly when frechet_at_most is true';
+
+-- Witnesses on geography (metres on WGS84); results for maps keep the inputs' SRID.
+CREATE FUNCTION @extschema@.frechet_matching(a geography, b geography, epsilon pg_catalog.float8 DEFAULT NULL)
+RETURNS TABLE (step pg_catalog.int4, a_pos pg_catalog.float8, b_pos pg_catalog.float8,
+	a_point geography, b_point geography, leash pg_catalog.float8)
+AS 'MODULE_PATHNAME', 'frechet_matching_geography'
+LANGUAGE C IMMUTABLE CALLED ON NULL INPUT PARALLEL SAFE COST 100000 ROWS 200;
+
+COMMENT ON FUNCTION @extschema@.frechet_matching(geography, geography, pg_catalog.float8) IS
+'breakpoints of a monotone matching (positions k + t, 1-based) with their points; leash in metres on WGS84; optimal when epsilon is NULL, else any within epsilon, or no rows';
+
+CREATE FUNCTION @extschema@.frechet_matching_leashes(a geography, b geography, epsilon pg_catalog.float8 DEFAULT NULL)
+RETURNS geography
+AS 'MODULE_PATHNAME', 'frechet_matching_leashes_geography'
+LANGUAGE C IMMUTABLE CALLED ON NULL INPUT PARALLEL SAFE COST 100000;
+
+COMMENT ON FUNCTION @extschema@.frechet_matching_leashes(geography, geography, pg_catalog.float8) IS
+'the matching of frechet_matching as a MultiLineString of leash segments (one per breakpoint), for a map; NULL when no matching within epsilon exists';
+
+CREATE FUNCTION @extschema@.frechet_bottleneck(a geography, b geography)
+RETURNS TABLE (a_pos pg_catalog.float8, b_pos pg_catalog.float8,
+	a_point geography, b_point geography, leash pg_catalog.float8)
+AS 'MODULE_PATHNAME', 'frechet_bottleneck_geography'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 100000 ROWS 1;
+
+COMMENT ON FUNCTION @extschema@.frechet_bottleneck(geography, geography) IS
+'where the longest leash of an optimal matching is: positions, points and the leash (metres on WGS84), which equals the Fréchet distance';
+
+CREATE FUNCTION @extschema@.frechet_partial_distance(trip geography, route geography)
+RETURNS pg_catalog.float8
+AS 'MODULE_PATHNAME', 'frechet_partial_distance_geography'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 50000;
+
+COMMENT ON FUNCTION @extschema@.frechet_partial_distance(geography, geography) IS
+'smallest Fréchet distance between the trip and any part of the route, in metres on WGS84';
+
+CREATE FUNCTION @extschema@.frechet_partial_match(trip geography, route geography, epsilon pg_catalog.float8)
+RETURNS TABLE (route_from pg_catalog.float8, route_to pg_catalog.float8, distance pg_catalog.float8,
+	route_part geography)
+AS 'MODULE_PATHNAME', 'frechet_partial_match_geography'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 20000 ROWS 1;
+
+COMMENT ON FUNCTION @extschema@.frechet_partial_match(geography, geography, pg_catalog.float8) IS
+'the part of the route the trip follows within epsilon (metres on WGS84): positions, distance and the route sub-line; no row if none';
+
+CREATE FUNCTION @extschema@.frechet_excursions(trip geography, route geography, epsilon pg_catalog.float8)
+RETURNS TABLE (trip_from pg_catalog.float8, trip_to pg_catalog.float8,
+	route_from pg_catalog.float8, route_to pg_catalog.float8,
+	max_leash pg_catalog.float8, trip_length pg_catalog.float8, trip_piece geography)
+AS 'MODULE_PATHNAME', 'frechet_excursions_geography'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 100000 ROWS 2;
+
+COMMENT ON FUNCTION @extschema@.frechet_excursions(geography, geography, pg_catalog.float8) IS
+'stretches of the trip that no order-preserving matching keeps within epsilon (metres on WGS84) of the route, with the trip piece as a LineString; no rows exactly when frechet_at_most is true';
+
+-- Simplification within a Fréchet tolerance, keeping the SRID.
+CREATE FUNCTION @extschema@.frechet_simplify(track geometry, tolerance pg_catalog.float8)
+RETURNS geometry
+AS 'MODULE_PATHNAME', 'frechet_simplify_geometry'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 5000;
+
+COMMENT ON FUNCTION @extschema@.frechet_simplify(geometry, pg_catalog.float8) IS
+'a LineString through a subset of the track''s vertices, ends kept, within Fréchet distance tolerance (units of the SRID) of the track';
+
+CREATE FUNCTION @extschema@.frechet_simplify(track geography, tolerance pg_catalog.float8)
+RETURNS geography
+AS 'MODULE_PATHNAME', 'frechet_simplify_geography'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 5000;
+
+COMMENT ON FUNCTION @extschema@.frechet_simplify(geography, pg_catalog.float8) IS
+'a LineString through a subset of the track''s vertices, ends kept, within Fréchet distance tolerance (metres on WGS84) of the track';
+-- Index: our own GiST operator classes on geometry and geography, for
+-- k-nearest (ORDER BY track <~> route LIMIT k) and range queries
+-- (frechet_at_most, through its planner support function).  Not the
+-- default classes: PostGIS's stay the default, and a column may carry
+-- both indexes.  The key type, frechet_key, and the GiST support functions
+-- that need no decoding are those of frechet_ext (same C library).
+-- While this script runs, the schema of frechet_ext (a required extension)
+-- is on search_path; make sure frechet_key resolves to its type.
+DO $$
+DECLARE
+	fx_nsp oid := (SELECT extnamespace FROM pg_catalog.pg_extension WHERE extname = 'frechet_ext');
+BEGIN
+	IF (SELECT typnamespace FROM pg_catalog.pg_type WHERE oid = 'frechet_key'::pg_catalog.regtype) <> fx_nsp THEN
+		RAISE EXCEPTION 'frechet_key does not resolve to the type of frechet_ext'
+			USING DETAIL = 'Another type of that name is in the target schema or on search_path.',
+			      HINT = 'Install frechet_ext_postgis in the schema of frechet_ext or in a schema without such a type.';
+	END IF;
+END $$;
+
+CREATE FUNCTION @extschema@.frechet_track_key(track geometry)
+RETURNS frechet_key
+AS 'MODULE_PATHNAME', 'frechet_track_key_geometry'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 10;
+
+COMMENT ON FUNCTION @extschema@.frechet_track_key(geometry) IS
+'the summary frechet_geometry_ops keeps for a curve: first vertex, last vertex, bounding box (x and y)';
+
+CREATE FUNCTION @extschema@.frechet_track_key(track geography)
+RETURNS frechet_key
+AS 'MODULE_PATHNAME', 'frechet_track_key_geography'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 10;
+
+COMMENT ON FUNCTION @extschema@.frechet_track_key(geography) IS
+'the summary frechet_geography_ops keeps for a curve, in Earth-centred metres (x and y)';
+
+CREATE FUNCTION @extschema@.frechet_reach(route geometry, epsilon pg_catalog.float8)
+RETURNS frechet_key
+AS 'MODULE_PATHNAME', 'frechet_reach_geometry'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 10;
+
+COMMENT ON FUNCTION @extschema@.frechet_reach(geometry, pg_catalog.float8) IS
+'the route''s summary with epsilon (units of the SRID) as its reach: the right operand of &~ in range queries';
+
+CREATE FUNCTION @extschema@.frechet_reach(route geography, epsilon pg_catalog.float8)
+RETURNS frechet_key
+AS 'MODULE_PATHNAME', 'frechet_reach_geography'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 10;
+
+COMMENT ON FUNCTION @extschema@.frechet_reach(geography, pg_catalog.float8) IS
+'the route''s summary with epsilon (metres, kept as the largest chord within them) as its reach: the right operand of &~';
+
+CREATE FUNCTION @extschema@.frechet_within_reach(track geometry, reach frechet_key)
+RETURNS pg_catalog.bool
+AS 'MODULE_PATHNAME', 'frechet_within_reach_geometry'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 10;
+
+COMMENT ON FUNCTION @extschema@.frechet_within_reach(geometry, frechet_key) IS
+'false only when the curve cannot be within the reach''s epsilon of its route; a necessary condition for frechet_at_most';
+
+CREATE FUNCTION @extschema@.frechet_within_reach(reach frechet_key, track geometry)
+RETURNS pg_catalog.bool
+AS 'MODULE_PATHNAME', 'frechet_reach_within_geometry'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 10;
+
+COMMENT ON FUNCTION @extschema@.frechet_within_reach(frechet_key, geometry) IS
+'frechet_within_reach with its operands swapped';
+
+CREATE FUNCTION @extschema@.frechet_within_reach(track geography, reach frechet_key)
+RETURNS pg_catalog.bool
+AS 'MODULE_PATHNAME', 'frechet_within_reach_geography'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 10;
+
+COMMENT ON FUNCTION @extschema@.frechet_within_reach(geography, frechet_key) IS
+'false only when the curve cannot be within the reach''s epsilon (metres) of its route; a necessary condition for frechet_at_most';
+
+CREATE FUNCTION @extschema@.frechet_within_reach(reach frechet_key, track geography)
+RETURNS pg_catalog.bool
+AS 'MODULE_PATHNAME', 'frechet_reach_within_geography'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 10;
+
+COMMENT ON FUNCTION @extschema@.frechet_within_reach(frechet_key, geography) IS
+'frechet_within_reach with its operands swapped';
+
+CREATE OPERATOR @extschema@.&~ (
+	LEFTARG = geometry,
+	RIGHTARG = frechet_key,
+	FUNCTION = @extschema@.frechet_within_reach,
+	COMMUTATOR = OPERATOR(@extschema@.&~),
+	RESTRICT = pg_catalog.contsel,
+	JOIN = pg_catalog.contjoinsel
+);
+
+CREATE OPERATOR @extschema@.&~ (
+	LEFTARG = frechet_key,
+	RIGHTARG = geometry,
+	FUNCTION = @extschema@.frechet_within_reach,
+	COMMUTATOR = OPERATOR(@extschema@.&~),
+	RESTRICT = pg_catalog.contsel,
+	JOIN = pg_catalog.contjoinsel
+);
+
+CREATE OPERATOR @extschema@.&~ (
+	LEFTARG = geography,
+	RIGHTARG = frechet_key,
+	FUNCTION = @extschema@.frechet_within_reach,
+	COMMUTATOR = OPERATOR(@extschema@.&~),
+	RESTRICT = pg_catalog.contsel,
+	JOIN = pg_catalog.contjoinsel
+);
+
+CREATE OPERATOR @extschema@.&~ (
+	LEFTARG = frechet_key,
+	RIGHTARG = geography,
+	FUNCTION = @extschema@.frechet_within_reach,
+	COMMUTATOR = OPERATOR(@extschema@.&~),
+	RESTRICT = pg_catalog.contsel,
+	JOIN = pg_catalog.contjoinsel
+);
+
+COMMENT ON OPERATOR @extschema@.&~ (geometry, frechet_key) IS
+'the curve may lie within the reach''s epsilon of its route: the lossy index condition of frechet_at_most';
+COMMENT ON OPERATOR @extschema@.&~ (frechet_key, geometry) IS
+'the curve may lie within the reach''s epsilon of its route (operands swapped)';
+COMMENT ON OPERATOR @extschema@.&~ (geography, frechet_key) IS
+'the curve may lie within the reach''s epsilon of its route: the lossy index condition of frechet_at_most';
+COMMENT ON OPERATOR @extschema@.&~ (frechet_key, geography) IS
+'the curve may lie within the reach''s epsilon of its route (operands swapped)';
+
+-- GiST support.  consistent, union, penalty, picksplit and same are the C
+-- functions of frechet_track_ops; compress and distance decode PostGIS values.
+CREATE FUNCTION @extschema@.frechet_geometry_gist_consistent(internal, geometry, pg_catalog.int2, pg_catalog.oid, internal)
+RETURNS pg_catalog.bool
+AS 'MODULE_PATHNAME', 'frechet_gist_consistent'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+
+CREATE FUNCTION @extschema@.frechet_geography_gist_consistent(internal, geography, pg_catalog.int2, pg_catalog.oid, internal)
+RETURNS pg_catalog.bool
+AS 'MODULE_PATHNAME', 'frechet_gist_consistent'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+
+CREATE FUNCTION @extschema@.frechet_geo_gist_union(internal, internal)
+RETURNS frechet_key
+AS 'MODULE_PATHNAME', 'frechet_gist_union'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+
+CREATE FUNCTION @extschema@.frechet_geometry_gist_compress(internal)
+RETURNS internal
+AS 'MODULE_PATHNAME', 'frechet_gist_compress_geometry'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+
+CREATE FUNCTION @extschema@.frechet_geography_gist_compress(internal)
+RETURNS internal
+AS 'MODULE_PATHNAME', 'frechet_gist_compress_geography'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+
+CREATE FUNCTION @extschema@.frechet_geo_gist_penalty(internal, internal, internal)
+RETURNS internal
+AS 'MODULE_PATHNAME', 'frechet_gist_penalty'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+
+CREATE FUNCTION @extschema@.frechet_geo_gist_picksplit(internal, internal)
+RETURNS internal
+AS 'MODULE_PATHNAME', 'frechet_gist_picksplit'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+
+CREATE FUNCTION @extschema@.frechet_geo_gist_same(frechet_key, frechet_key, internal)
+RETURNS internal
+AS 'MODULE_PATHNAME', 'frechet_gist_same'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+
+CREATE FUNCTION @extschema@.frechet_geometry_gist_distance(internal, geometry, pg_catalog.int2, pg_catalog.oid, internal)
+RETURNS pg_catalog.float8
+AS 'MODULE_PATHNAME', 'frechet_gist_distance_geometry'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+
+CREATE FUNCTION @extschema@.frechet_geography_gist_distance(internal, geography, pg_catalog.int2, pg_catalog.oid, internal)
+RETURNS pg_catalog.float8
+AS 'MODULE_PATHNAME', 'frechet_gist_distance_geography'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+
+COMMENT ON FUNCTION @extschema@.frechet_geometry_gist_consistent(internal, geometry, pg_catalog.int2, pg_catalog.oid, internal) IS
+'GiST support: may an entry hold a curve within the query''s reach';
+COMMENT ON FUNCTION @extschema@.frechet_geography_gist_consistent(internal, geography, pg_catalog.int2, pg_catalog.oid, internal) IS
+'GiST support: may an entry hold a curve within the query''s reach';
+COMMENT ON FUNCTION @extschema@.frechet_geo_gist_union(internal, internal) IS
+'GiST support: the key covering a set of entries';
+COMMENT ON FUNCTION @extschema@.frechet_geometry_gist_compress(internal) IS
+'GiST support: the summary of a geometry curve (through ST_AsEWKB)';
+COMMENT ON FUNCTION @extschema@.frechet_geography_gist_compress(internal) IS
+'GiST support: the summary of a geography curve in Earth-centred metres';
+COMMENT ON FUNCTION @extschema@.frechet_geo_gist_penalty(internal, internal, internal) IS
+'GiST support: growth of a node''s key when it takes an entry';
+COMMENT ON FUNCTION @extschema@.frechet_geo_gist_picksplit(internal, internal) IS
+'GiST support: split of a full page';
+COMMENT ON FUNCTION @extschema@.frechet_geo_gist_same(frechet_key, frechet_key, internal) IS
+'GiST support: equality of keys';
+COMMENT ON FUNCTION @extschema@.frechet_geometry_gist_distance(internal, geometry, pg_catalog.int2, pg_catalog.oid, internal) IS
+'GiST support: a lower bound of the Fréchet distance from the query route to the curves under an entry';
+COMMENT ON FUNCTION @extschema@.frechet_geography_gist_distance(internal, geography, pg_catalog.int2, pg_catalog.oid, internal) IS
+'GiST support: a lower bound in metres of the Fréchet distance from the query route to the curves under an entry';
+
+CREATE OPERATOR CLASS @extschema@.frechet_geometry_ops
+FOR TYPE geometry USING gist AS
+	OPERATOR 1 @extschema@.&~ (geometry, frechet_key),
+	OPERATOR 15 @extschema@.<~> (geometry, geometry) FOR ORDER BY pg_catalog.float_ops,
+	FUNCTION 1 @extschema@.frechet_geometry_gist_consistent(internal, geometry, pg_catalog.int2, pg_catalog.oid, internal),
+	FUNCTION 2 @extschema@.frechet_geo_gist_union(internal, internal),
+	FUNCTION 3 @extschema@.frechet_geometry_gist_compress(internal),
+	FUNCTION 5 @extschema@.frechet_geo_gist_penalty(internal, internal, internal),
+	FUNCTION 6 @extschema@.frechet_geo_gist_picksplit(internal, internal),
+	FUNCTION 7 @extschema@.frechet_geo_gist_same(frechet_key, frechet_key, internal),
+	FUNCTION 8 @extschema@.frechet_geometry_gist_distance(internal, geometry, pg_catalog.int2, pg_catalog.oid, internal),
+	STORAGE frechet_key;
+
+CREATE OPERATOR CLASS @extschema@.frechet_geography_ops
+FOR TYPE geography USING gist AS
+	OPERATOR 1 @extschema@.&~ (geography, frechet_key),
+	OPERATOR 15 @extschema@.<~> (geography, geography) FOR ORDER BY pg_catalog.float_ops,
+	FUNCTION 1 @extschema@.frechet_geography_gist_consistent(internal, geography, pg_catalog.int2, pg_catalog.oid, internal),
+	FUNCTION 2 @extschema@.frechet_geo_gist_union(internal, internal),
+	FUNCTION 3 @extschema@.frechet_geography_gist_compress(internal),
+	FUNCTION 5 @extschema@.frechet_geo_gist_penalty(internal, internal, internal),
+	FUNCTION 6 @extschema@.frechet_geo_gist_picksplit(internal, internal),
+	FUNCTION 7 @extschema@.frechet_geo_gist_same(frechet_key, frechet_key, internal),
+	FUNCTION 8 @extschema@.frechet_geography_gist_distance(internal, geography, pg_catalog.int2, pg_catalog.oid, internal),
+	STORAGE frechet_key;
+-- Maps and dashboards: a pair's matching as GeoJSON (RFC 7946).  The bodies
+-- are standard SQL bodies, parsed while this script runs: PostGIS's
+-- functions (named unqualified, as PostgreSQL 15 has no
+-- @extschema:postgis@) are bound then, so the functions work under any
+-- search_path, including a postgres_fdw remote session's pg_catalog.
+
+CREATE FUNCTION @extschema@.frechet_geometry_geojson(g geometry)
+RETURNS pg_catalog.jsonb
+LANGUAGE sql IMMUTABLE STRICT PARALLEL SAFE COST 100
+RETURN ST_AsGeoJSON(CASE WHEN ST_SRID(g) IN (0, 4326) THEN g ELSE ST_Transform(g, 4326) END, 9, 0)::pg_catalog.jsonb;
+
+COMMENT ON FUNCTION @extschema@.frechet_geometry_geojson(geometry) IS
+'a geometry as an RFC 7946 GeoJSON geometry: transformed to WGS84 lon/lat when its SRID is neither 0 nor 4326, no crs member';
+
+CREATE FUNCTION @extschema@.frechet_geojson(a geometry, b geometry, epsilon pg_catalog.float8 DEFAULT NULL)
+RETURNS pg_catalog.jsonb
+LANGUAGE sql IMMUTABLE PARALLEL SAFE COST 300000
+BEGIN ATOMIC
+	SELECT pg_catalog.jsonb_build_object(
+		'type', 'FeatureCollection',
+		'frechet', pg_catalog.jsonb_build_object(
+			'distance', dd.d,
+			'epsilon', epsilon,
+			'within_epsilon', @extschema@.frechet_at_most(a, b, epsilon),
+			'excursions', pg_catalog.jsonb_array_length(ex.features),
+			'srid', ST_SRID(a)),
+		'features', pg_catalog.jsonb_build_array(
+			pg_catalog.jsonb_build_object('type', 'Feature',
+				'properties', pg_catalog.jsonb_build_object('role', 'a', 'vertices', ST_NPoints(a),
+					'distance', dd.d, 'epsilon', epsilon),
+				'geometry', @extschema@.frechet_geometry_geojson(a)),
+			pg_catalog.jsonb_build_object('type', 'Feature',
+				'properties', pg_catalog.jsonb_build_object('role', 'b', 'vertices', ST_NPoints(b),
+					'distance', dd.d, 'epsilon', epsilon),
+				'geometry', @extschema@.frechet_geometry_geojson(b)),
+			pg_catalog.jsonb_build_object('type', 'Feature',
+				'properties', pg_catalog.jsonb_build_object('role', 'leashes', 'count', ST_NumGeometries(ls.g)),
+				'geometry', @extschema@.frechet_geometry_geojson(ls.g)),
+			pg_catalog.jsonb_build_object('type', 'Feature',
+				'properties', pg_catalog.jsonb_build_object('role', 'bottleneck', 'leash', bn.leash,
+					'a_pos', bn.a_pos, 'b_pos', bn.b_pos),
+				'geometry', @extschema@.frechet_geometry_geojson(ST_MakeLine(bn.a_point, bn.b_point))))
+			OPERATOR(pg_catalog.||) ex.features)
+	FROM (SELECT @extschema@.frechet_distance(a, b) AS d) AS dd,
+		@extschema@.frechet_bottleneck(a, b) AS bn,
+		LATERAL (SELECT @extschema@.frechet_matching_leashes(a, b) AS g) AS ls,
+		LATERAL (SELECT COALESCE(pg_catalog.jsonb_agg(pg_catalog.jsonb_build_object('type', 'Feature',
+					'properties', pg_catalog.jsonb_build_object('role', 'excursion', 'number', x.n,
+						'trip_from', x.trip_from, 'trip_to', x.trip_to,
+						'route_from', x.route_from, 'route_to', x.route_to,
+						'max_leash', x.max_leash, 'trip_length', x.trip_length),
+					'geometry', @extschema@.frechet_geometry_geojson(x.trip_piece)) ORDER BY x.n),
+				'[]'::pg_catalog.jsonb) AS features
+			FROM @extschema@.frechet_excursions(a, b, epsilon) WITH ORDINALITY AS x(trip_from, trip_to,
+				route_from, route_to, max_leash, trip_length, trip_piece, n)) AS ex;
+END;
+
+COMMENT ON FUNCTION @extschema@.frechet_geojson(geometry, geometry, pg_catalog.float8) IS
+'a GeoJSON FeatureCollection of a pair for a map: both curves (roles a, b), the leashes of an optimal matching, the bottleneck and, with epsilon, the excursions of a from b; distances in units of the SRID, coordinates in WGS84 lon/lat (transformed when the SRID is another known system; as stored when it is 0)';
+
+CREATE FUNCTION @extschema@.frechet_geojson(a geography, b geography, epsilon pg_catalog.float8 DEFAULT NULL)
+RETURNS pg_catalog.jsonb
+LANGUAGE sql IMMUTABLE PARALLEL SAFE COST 300000
+BEGIN ATOMIC
+	SELECT pg_catalog.jsonb_build_object(
+		'type', 'FeatureCollection',
+		'frechet', pg_catalog.jsonb_build_object(
+			'distance', dd.d,
+			'epsilon', epsilon,
+			'within_epsilon', @extschema@.frechet_at_most(a, b, epsilon),
+			'excursions', pg_catalog.jsonb_array_length(ex.features),
+			'units', 'metres'),
+		'features', pg_catalog.jsonb_build_array(
+			pg_catalog.jsonb_build_object('type', 'Feature',
+				'properties', pg_catalog.jsonb_build_object('role', 'a', 'vertices', ST_NPoints(a::geometry),
+					'distance', dd.d, 'epsilon', epsilon),
+				'geometry', ST_AsGeoJSON(a, 9, 0)::pg_catalog.jsonb),
+			pg_catalog.jsonb_build_object('type', 'Feature',
+				'properties', pg_catalog.jsonb_build_object('role', 'b', 'vertices', ST_NPoints(b::geometry),
+					'distance', dd.d, 'epsilon', epsilon),
+				'geometry', ST_AsGeoJSON(b, 9, 0)::pg_catalog.jsonb),
+			pg_catalog.jsonb_build_object('type', 'Feature',
+				'properties', pg_catalog.jsonb_build_object('role', 'leashes', 'count', ST_NumGeometries(ls.g::geometry)),
+				'geometry', ST_AsGeoJSON(ls.g, 9, 0)::pg_catalog.jsonb),
+			pg_catalog.jsonb_build_object('type', 'Feature',
+				'properties', pg_catalog.jsonb_build_object('role', 'bottleneck', 'leash', bn.leash,
+					'a_pos', bn.a_pos, 'b_pos', bn.b_pos),
+				'geometry', ST_AsGeoJSON(ST_MakeLine(bn.a_point::geometry, bn.b_point::geometry), 9, 0)::pg_catalog.jsonb))
+			OPERATOR(pg_catalog.||) ex.features)
+	FROM (SELECT @extschema@.frechet_distance(a, b) AS d) AS dd,
+		@extschema@.frechet_bottleneck(a, b) AS bn,
+		LATERAL (SELECT @extschema@.frechet_matching_leashes(a, b) AS g) AS ls,
+		LATERAL (SELECT COALESCE(pg_catalog.jsonb_agg(pg_catalog.jsonb_build_object('type', 'Feature',
+					'properties', pg_catalog.jsonb_build_object('role', 'excursion', 'number', x.n,
+						'trip_from', x.trip_from, 'trip_to', x.trip_to,
+						'route_from', x.route_from, 'route_to', x.route_to,
+						'max_leash', x.max_leash, 'trip_length', x.trip_length),
+					'geometry', ST_AsGeoJSON(x.trip_piece, 9, 0)::pg_catalog.jsonb) ORDER BY x.n),
+				'[]'::pg_catalog.jsonb) AS features
+			FROM @extschema@.frechet_excursions(a, b, epsilon) WITH ORDINALITY AS x(trip_from, trip_to,
+				route_from, route_to, max_leash, trip_length, trip_piece, n)) AS ex;
+END;
+
+COMMENT ON FUNCTION @extschema@.frechet_geojson(geography, geography, pg_catalog.float8) IS
+'a GeoJSON FeatureCollection of a pair for a map: both curves (roles a, b), the leashes of an optimal matching, the bottleneck and, with epsilon, the excursions of a from b; distances in metres on WGS84, coordinates lon/lat';
