@@ -220,6 +220,8 @@ fr_decide_exact(const fr_env *env, const fr_curve *p, const fr_curve *q,
 	st = fr_prepare_pair_extra(env, p, q, &pp, &pq, fr_prune_work_bytes(p->n, q->n), &work);
 	if (st != FR_OK)
 		return st;
+	fr_prep_drop_repeats(&pp);
+	fr_prep_drop_repeats(&pq);
 	eps = fr_to_local(&pp, eps);
 	if (isinf(eps) || pp.n == 1 || pq.n == 1)
 	{

@@ -217,7 +217,11 @@ search_threshold(search *s, double *result)
 		return st;
 	}
 
-	/* (b): narrow to an interval holding no type (b) value */
+	/*
+	 * (b): narrow to an interval holding no type (b) value.  Bounded: the
+	 * values are finitely many (one a vertex-segment pair) and each round
+	 * moves an end onto a sampled value strictly inside, so fewer remain.
+	 */
 	for (;;)
 	{
 		size_t		kept,
@@ -254,14 +258,23 @@ search_threshold(search *s, double *result)
 		/* the greedy bound is a matching; should rounding disagree, step up */
 		double		up = s->hi;
 
+		int			tries = 0;
+
 		st = probe(s, up);
 		for (double step = 4 * DBL_EPSILON; st == FR_OK && !s->hi_checked; step *= 2)
+		{
+			if (++tries > FR_STEP_UP_TRIES)
+				return FR_ERANGE;
 			st = probe(s, up * (1 + step));
+		}
 		if (st != FR_OK)
 			return st;
 	}
 
-	/* (c): only passage values remain inside; bisect to adjacent doubles */
+	/*
+	 * (c): only passage values remain inside; bisect to adjacent doubles
+	 * (bounded: the bit-pattern gap halves each step, at most 64 steps).
+	 */
 	for (;;)
 	{
 		uint64_t	lb = double_bits(s->lo),
@@ -372,7 +385,10 @@ fast_probe(fast *f, double eps, bool collect, bool *yes)
 	return st;
 }
 
-/* Bisection on the bit patterns of non-negative doubles, to adjacent doubles. */
+/*
+ * Bisection on the bit patterns of non-negative doubles, to adjacent
+ * doubles (bounded: the gap halves each step, at most 64 steps).
+ */
 static fr_status
 fast_bisect(fast *f)
 {
@@ -526,9 +542,15 @@ fast_search(fast *f, bool confirm_first, double *result, bool *rejected)
 	f->greedy = INFINITY;
 	if (confirm_first)
 	{
+		int			tries = 0;
+
 		st = fast_probe(f, f->hi, false, &yes);
 		for (double step = 4 * DBL_EPSILON; st == FR_OK && !yes; step *= 2)
+		{
+			if (++tries > FR_STEP_UP_TRIES)
+				return FR_ERANGE;
 			st = fast_probe(f, f->hi = f->hi * (1 + step), false, &yes);
+		}
 		if (st != FR_OK)
 			return st;
 	}
@@ -545,6 +567,17 @@ fast_search(fast *f, bool confirm_first, double *result, bool *rejected)
 
 		if (f->hi > 4 * f->lo)
 			mid = f->lo * 64 < f->hi ? f->hi / 8 : sqrt(f->lo) * sqrt(f->hi);
+
+		/*
+		 * Bounded: every probe strictly inside (lo, hi) moves one end to
+		 * it, shrinking the bracket by a factor of at least 8/7 in value
+		 * or halving its logarithmic width, so it narrows to 1e-3 within
+		 * a few thousand probes over the whole double range.  A mid that
+		 * rounding puts on an end (subnormal brackets) would not move it:
+		 * leave to the bisection on bit patterns below.
+		 */
+		if (!(mid > f->lo && mid < f->hi))
+			break;
 		st = fast_probe(f, mid, false, &yes);
 		if (st != FR_OK)
 			return st;
@@ -645,7 +678,12 @@ fast_search(fast *f, bool confirm_first, double *result, bool *rejected)
 				return st;
 			if (!yes)
 				break;
-			step = step == 0 ? 4 * DBL_EPSILON * f->hi : 4 * step;
+			/*
+			 * Bounded: the step grows fourfold from at least one ulp of
+			 * hi (4 ulps of a subnormal hi may round to 0), so below
+			 * passes lo within about 540 steps.
+			 */
+			step = step == 0 ? fmax(4 * DBL_EPSILON * f->hi, f->hi - nextafter(f->hi, 0)) : 4 * step;
 		}
 		st = fast_bisect(f);
 		if (st != FR_OK)
@@ -727,6 +765,8 @@ fr_distance(const fr_env *env, const fr_curve *p, const fr_curve *q,
 	st = fr_prepare_pair(env, p, q, &pp, &pq);
 	if (st != FR_OK)
 		return st;
+	fr_prep_drop_repeats(&pp);
+	fr_prep_drop_repeats(&pq);
 	st = fr_distance_prepared(env, &pp, &pq, result, stats);
 	if (st == FR_OK)
 		*result = fr_from_local(&pp, *result);

@@ -142,6 +142,9 @@ void		fr_release_pair(const fr_env *env, fr_prep *pp, fr_prep *pq);
 fr_status	fr_prepare_pair_extra(const fr_env *env, const fr_curve *p, const fr_curve *q,
 								  fr_prep *pp, fr_prep *pq, size_t extra, void **extra_out);
 
+/* Drops repeated consecutive vertices of a prepared curve (freespace.c). */
+void		fr_prep_drop_repeats(fr_prep *c);
+
 /* Segments of a prepared curve from its vertices (freespace.c). */
 fr_status	fr_prep_segments(const fr_env *env, fr_prep *out);
 
@@ -244,6 +247,18 @@ double		fr_point_segment_opening(const fr_pt *p, const fr_pt *a, const fr_seg *s
  * the disk touches the line.
  */
 #define FR_TANGENT_SLACK (4 * DBL_EPSILON)
+
+/* Cap on the single-ulp steps that place a tangency opening (freespace.c). */
+#define FR_OPENING_STEPS 64
+
+/*
+ * Cap on the growing steps that push an upper bound (a matching's leash,
+ * rounded) up to where the decider accepts it (distance.c): 4 ulps doubled
+ * 64 times is a factor of about 7,000, far beyond any rounding; a bound
+ * still rejected then means the pair is beyond what the arithmetic can
+ * settle, and the search reports FR_ERANGE instead of a number.
+ */
+#define FR_STEP_UP_TRIES 64
 
 /*
  * The free interval {t in [0,1] : |a + t(b-a) - p| <= eps} of point p

@@ -22,6 +22,16 @@
 /* Largest absolute coordinate accepted: squares of differences stay finite. */
 #define FR_MAX_ABS_COORD 1e150
 
+/*
+ * Smallest nonzero coordinate, relative to the largest, in the frame where
+ * the engine works (both curves shifted to a common origin, tiny pairs
+ * scaled up).  Above it, a nonzero difference of two coordinates is at
+ * least 2^-352 of the extent, so its square and the products the deciders
+ * form stay normal numbers; below it they would underflow and distances
+ * collapse.  Pairs with such a coordinate get FR_ERANGE, never a number.
+ */
+#define FR_MIN_REL_COORD 0x1p-300
+
 typedef struct fr_env
 {
 	/* Returns memory or NULL; the engine frees with release(). */
@@ -52,7 +62,10 @@ typedef enum fr_status
 	FR_OK = 0,
 	FR_ENOMEM,					/* the allocator returned NULL */
 	FR_EINTR,					/* the interrupt callback asked to stop */
-	FR_EINVAL					/* structurally invalid input */
+	FR_EINVAL,					/* structurally invalid input */
+	FR_ERANGE					/* a nonzero coordinate too small beside the pair's extent
+								 * for squared distances to keep their precision
+								 * (FR_MIN_REL_COORD) */
 } fr_status;
 
 /* Counters a caller may ask for; any pointer argument of this type may be NULL. */

@@ -38,6 +38,8 @@ fr_status_text(fr_status st)
 			return "interrupted";
 		case FR_EINVAL:
 			return "invalid input";
+		case FR_ERANGE:
+			return "coordinates span too many orders of magnitude";
 	}
 	return "unknown status";
 }
@@ -99,6 +101,33 @@ segments_into(fr_prep *out)
 {
 	for (size_t i = 0; i + 1 < out->n; i++)
 		out->s[i] = fr_seg_between(&out->v[i], &out->v[i + 1]);
+}
+
+/*
+ * Drops every vertex equal to the one before it, in the local frame, and
+ * recomputes the segments in place.  A zero-length segment adds nothing to
+ * the free space that its vertex does not (its free interval is all or
+ * nothing, by the same vertex distance), so deciders and distances are
+ * unchanged, bit for bit; curves that park for a long time (a million
+ * repeated points) shrink to what moves.  Only for callers that report no
+ * positions on the curve: vertex numbers change.
+ */
+void
+fr_prep_drop_repeats(fr_prep *c)
+{
+	size_t		k = 1;
+
+	for (size_t i = 1; i < c->n; i++)
+		if (c->v[i].x != c->v[k - 1].x || c->v[i].y != c->v[k - 1].y ||
+			c->v[i].z != c->v[k - 1].z)
+			c->v[k++] = c->v[i];
+	if (k == c->n)
+		return;
+	c->n = k;
+	if (k < 2)
+		c->s = NULL;
+	else
+		segments_into(c);
 }
 
 /* Computes the segments of a prepared curve from its vertices (allocating them). */
@@ -231,6 +260,24 @@ fr_release_prep(const fr_env *env, fr_prep *c)
 	c->s = NULL;
 }
 
+/* Whether every local coordinate of c is 0 or at least FR_MIN_REL_COORD of extent. */
+static bool
+coords_in_range(const fr_prep *c, double extent)
+{
+	double		floor = extent * FR_MIN_REL_COORD;
+	bool		ok = true;
+
+	for (size_t i = 0; i < c->n; i++)
+	{
+		const fr_pt *v = &c->v[i];
+
+		ok &= (v->x == 0.0 || fabs(v->x) >= floor) &&
+			(v->y == 0.0 || fabs(v->y) >= floor) &&
+			(v->z == 0.0 || fabs(v->z) >= floor);
+	}
+	return ok;
+}
+
 /* Bytes from off rounded up to a multiple of 16, so carved arrays stay aligned. */
 static size_t
 align16(size_t off)
@@ -301,6 +348,14 @@ fr_prepare_pair_extra(const fr_env *env, const fr_curve *p, const fr_curve *q,
 	prepare_one(p, origin, scale, (fr_pt *) (block + off_pv), (fr_seg *) (block + off_ps), pp);
 	prepare_one(q, origin, scale, (fr_pt *) (block + off_qv), (fr_seg *) (block + off_qs), pq);
 	pp->block = block;
+	if (!coords_in_range(pp, extent * scale) || !coords_in_range(pq, extent * scale))
+	{
+		fr_free(env, block);
+		memset(pp, 0, sizeof(*pp));
+		memset(pq, 0, sizeof(*pq));
+		pp->scale = pq->scale = 1;
+		return FR_ERANGE;
+	}
 	if (extra_out && extra > 0)
 		*extra_out = block + off_extra;
 	return FR_OK;
@@ -399,11 +454,20 @@ fr_point_segment_opening(const fr_pt *p, const fr_pt *a, const fr_seg *s, const 
 		return h;				/* an end is nearest: its distance, exactly */
 	sh = FR_TANGENT_SLACK * h;
 	e = h - sh;
-	if (!(e >= h / 2))
-		return h;				/* not a normal tangency (h tiny or not finite) */
-	while (h - e > sh)
+	if (!(h > 0.0 && sh > 0.0 && e >= h / 2))
+		return h;				/* on the line, or not a normal tangency (h tiny or not finite) */
+
+	/*
+	 * Bounded: e = h - sh rounded lies within one ulp of h of the exact
+	 * value, and every step moves h - e (exact) by one ulp of e, at most one
+	 * ulp of h and at least half of one, so each loop takes at most a few
+	 * steps; FR_OPENING_STEPS only guards against a rounding mode that the
+	 * build does not use.  With sh > 0 the second loop ends once h - e
+	 * exceeds sh, at the latest when e reaches 0.
+	 */
+	for (int i = 0; i < FR_OPENING_STEPS && h - e > sh; i++)
 		e = nextafter(e, INFINITY);
-	while (h - nextafter(e, 0) <= sh)
+	for (int i = 0; i < FR_OPENING_STEPS && h - nextafter(e, 0) <= sh; i++)
 		e = nextafter(e, 0);
 	return e;
 }
