@@ -42,20 +42,47 @@ typedef enum start_rule
 } start_rule;
 
 /*
+ * A place on a route edge: segment row, parameter t in [0, 1].  Sweeps keep
+ * the two apart: row + t as one double loses t's low bits on long routes,
+ * and a start or end one rounding away from a tangency point is not free.
+ */
+typedef struct edge_pos
+{
+	size_t		row;
+	double		t;
+} edge_pos;
+
+/* The position row + t of an edge place, as reported to callers. */
+static double
+edge_pos_value(edge_pos e)
+{
+	return (double) e.row + e.t;
+}
+
+/* The same place on the route reversed (m vertices). */
+static edge_pos
+edge_pos_reversed(edge_pos e, size_t m)
+{
+	edge_pos	r = {m - 2 - e.row, 1.0 - e.t};
+
+	return r;
+}
+
+/*
  * Reachability sweep for partial matching, trip p along x, route q along y.
- * Paths start as the rule says (START_AT: at position start_at of q, on the
- * left edge).  *found: some point of the right edge is reachable.  If best
- * is not NULL it receives the reachable right-edge position nearest to p's
- * last vertex (lowest on ties); otherwise the sweep stops at the first
- * reachable right-edge point.
+ * Paths start as the rule says (START_AT: at *start, on the left edge).
+ * *found: some point of the right edge is reachable, or, when target is
+ * not NULL, the right-edge point at *target is.  If best is not NULL it
+ * receives the reachable right-edge place nearest to p's last vertex
+ * (lowest on ties); otherwise the sweep stops as soon as it knows the
+ * answer.
  */
 static fr_status
 partial_sweep(const fr_env *env, const fr_prep *p, const fr_prep *q, double eps,
-			  start_rule rule, double start_at, double *row, bool *found,
-			  double *best, fr_stats *stats)
+			  start_rule rule, const edge_pos *start, const edge_pos *target,
+			  double *row, bool *found, edge_pos *best, fr_stats *stats)
 {
-	const size_t n = p->n,
-				m = q->n;
+	const size_t n = p->n;
 	const fr_pt *end = &p->v[n - 1];
 	double		best_leash = INFINITY;
 	bool		open = true;
@@ -68,8 +95,13 @@ partial_sweep(const fr_env *env, const fr_prep *p, const fr_prep *q, double eps,
 		stats->decisions++;
 	if (rule == START_AT)
 	{
-		start_row = start_at >= (double) (m - 1) ? m - 2 : (size_t) start_at;
-		start_t = start_at - (double) start_row;
+		start_row = start->row;
+		start_t = start->t;
+		if (start_t == 1.0 && start_row + 2 < q->n)
+		{
+			start_row++;		/* the top of a row is the bottom of the next */
+			start_t = 0;
+		}
 		if (start_t != 0)
 			open = false;		/* (0,0) is no start */
 	}
@@ -80,7 +112,7 @@ partial_sweep(const fr_env *env, const fr_prep *p, const fr_prep *q, double eps,
 	if (rule == START_AT && !(start_row == 0 && start_t == 0))
 		for (size_t i = 0; i + 1 < n; i++)
 			row[i] = FR_EMPTY;	/* the bottom edge is reachable only from (0,0) */
-	for (size_t j = 0; j + 1 < m; j++)
+	for (size_t j = 0; j + 1 < q->n; j++)
 	{
 		double		lr = FR_EMPTY,
 					right;
@@ -115,6 +147,24 @@ partial_sweep(const fr_env *env, const fr_prep *p, const fr_prep *q, double eps,
 			stats->cells += n - 1;
 		if (right == FR_EMPTY)
 			continue;
+		if (target != NULL)
+		{
+			/* the target on this row, or at its top when it is the next row's bottom */
+			double		t = j == target->row ? target->t :
+				(j + 1 == target->row && target->t == 0.0) ? 1.0 : -1.0,
+						lo,
+						hi;
+
+			if (t < 0)
+				continue;
+			fr_free_interval(end, &q->v[j], &q->s[j], &q->v[j + 1], eps, &lo, &hi);
+			if (right <= t && t <= hi)
+			{
+				*found = true;
+				return FR_OK;
+			}
+			continue;
+		}
 		*found = true;
 		if (best == NULL)
 			return FR_OK;
@@ -132,7 +182,8 @@ partial_sweep(const fr_env *env, const fr_prep *p, const fr_prep *q, double eps,
 			if (d < best_leash)
 			{
 				best_leash = d;
-				*best = (double) j + t;
+				best->row = j;
+				best->t = t;
 			}
 		}
 	}
@@ -149,7 +200,7 @@ partial_decide(const fr_env *env, const fr_prep *p, const fr_prep *q, double eps
 		*result = true;
 		return FR_OK;
 	}
-	return partial_sweep(env, p, q, eps, START_ANYWHERE, 0, row, result, NULL, stats);
+	return partial_sweep(env, p, q, eps, START_ANYWHERE, NULL, NULL, row, result, NULL, stats);
 }
 
 /* Partial distance and match where the trip or the route is a single point. */
@@ -210,6 +261,67 @@ fr_partial_distance(const fr_env *env, const fr_curve *trip, const fr_curve *rou
 }
 
 /*
+ * A start for the part ending at route position end, found in the forward
+ * sweep's own arithmetic, for when the reversed sweep disagrees with it by
+ * rounding (long route edges beside a short trip; coordinates absorbed
+ * by larger ones).  A path may start anywhere on a free run of the left
+ * edge, and from a run's lowest point it can climb the run, so the lowest
+ * points of the runs are the only starts to try; the forward sweep found
+ * end reachable from one of them.  They are tried from the latest, so the
+ * part is the shortest such run start allows.
+ */
+static fr_status
+forward_start(const fr_env *env, const fr_prep *p, const fr_prep *q, double eps,
+			  edge_pos end, double *row, edge_pos *start, fr_stats *stats)
+{
+	start->row = 0;
+	start->t = 0;
+	for (size_t j = end.row + 1; j-- > 0;)
+	{
+		double		lo,
+					hi,
+					plo,
+					phi;
+		bool		reached = false;
+		fr_status	st;
+
+		edge_pos	at = {j, 0};
+
+		fr_free_interval(&p->v[0], &q->v[j], &q->s[j], &q->v[j + 1], eps, &lo, &hi);
+		if (lo > hi || (j == end.row && lo > end.t))
+			continue;
+		/* the lowest point of a run: the run does not come up from the row below */
+		if (j > 0 && lo == 0.0)
+		{
+			fr_free_interval(&p->v[0], &q->v[j - 1], &q->s[j - 1], &q->v[j], eps, &plo, &phi);
+			if (plo <= phi && phi == 1.0)
+				continue;
+		}
+		at.t = lo;
+		st = partial_sweep(env, p, q, eps, START_AT, &at, &end, row, &reached, NULL, stats);
+		if (st != FR_OK)
+			return st;
+		if (reached)
+		{
+			*start = at;
+			return FR_OK;
+		}
+	}
+	return FR_OK;
+}
+
+/* Largest local coordinate magnitude of a prepared curve. */
+static double
+prep_magnitude(const fr_prep *c)
+{
+	double		m = 0;
+
+	for (size_t i = 0; i < c->n; i++)
+		m = fmax(m, fmax(fabs(c->v[i].x), fmax(fabs(c->v[i].y), fabs(c->v[i].z))));
+	return m;
+}
+
+/*
  * The part of the route that the trip follows within eps: it ends at the
  * reachable point of the right edge nearest to the trip's last vertex, and
  * starts at the point nearest to the trip's first vertex among those from
@@ -230,8 +342,10 @@ fr_partial_match(const fr_env *env, const fr_curve *trip, const fr_curve *route,
 			   *rp_pos = NULL,
 			   *rq_pos = NULL,
 			   *sub_pos = NULL;
-	double		end = 0,
-				start = 0;
+	edge_pos	end = {0, 0},
+				start = {0, 0};
+	double		from,
+				to;
 	fr_status	st;
 
 	*found = false;
@@ -253,7 +367,7 @@ fr_partial_match(const fr_env *env, const fr_curve *trip, const fr_curve *route,
 		st = FR_ENOMEM;
 		goto done;
 	}
-	st = partial_sweep(env, &p, &q, eps, START_ANYWHERE, 0, row, found, &end, stats);
+	st = partial_sweep(env, &p, &q, eps, START_ANYWHERE, NULL, NULL, row, found, &end, stats);
 	if (st != FR_OK || !*found)
 		goto done;
 
@@ -278,27 +392,52 @@ fr_partial_match(const fr_env *env, const fr_curve *trip, const fr_curve *route,
 		 */
 		for (int tries = 0; tries < 12 && !back; tries++, slack = slack == 0 ? 4 * DBL_EPSILON : slack * 8)
 		{
-			double		rpos = 0;
+			edge_pos	rstart = edge_pos_reversed(end, q.n),
+						rbest = {0, 0};
 
 			st = partial_sweep(env, &rp, &rq, eps * (1 + slack) + slack * fr_pt_dist(&p.v[0], &q.v[0]),
-							   START_AT, (double) (q.n - 1) - end, row, &back, &rpos, stats);
+							   START_AT, &rstart, NULL, row, &back, &rbest, stats);
 			if (st != FR_OK)
 				goto done;
 			if (back)
-				start = (double) (q.n - 1) - rpos;
+				start = edge_pos_reversed(rbest, q.n);
 		}
 		if (!back)
-			start = 0;			/* rounding beyond any slack: the whole prefix */
+		{
+			/* rounding beyond any slack: find the start going forward */
+			st = forward_start(env, &p, &q, eps, end, row, &start, stats);
+			if (st != FR_OK)
+				goto done;
+		}
 	}
-	if (start > end)
-		start = end;
-	*route_from = start;
-	*route_to = end;
+	to = edge_pos_value(end);
+	from = fmin(edge_pos_value(start), to);
 
 	/* the distance between the trip and that part of the route */
-	st = fr_prep_subcurve(env, &q, start, end, false, &sub, &sub_pos);
+	st = fr_prep_subcurve(env, &q, from, to, false, &sub, &sub_pos);
 	if (st == FR_OK)
 		st = fr_distance_prepared(env, &p, &sub, distance, stats);
+
+	/*
+	 * A start that the reversed sweep found in its own rounding must still
+	 * give a part within eps; where it does not by more than rounding
+	 * (1e-9 of eps, 1e-12 of the coordinates), the forward start is used.
+	 */
+	if (st == FR_OK &&
+		*distance > eps + 1e-9 * eps + 1e-12 * fmax(prep_magnitude(&p), prep_magnitude(&q)))
+	{
+		fr_release_prep(env, &sub);
+		fr_free(env, sub_pos);
+		sub_pos = NULL;
+		st = forward_start(env, &p, &q, eps, end, row, &start, stats);
+		from = fmin(edge_pos_value(start), to);
+		if (st == FR_OK)
+			st = fr_prep_subcurve(env, &q, from, to, false, &sub, &sub_pos);
+		if (st == FR_OK)
+			st = fr_distance_prepared(env, &p, &sub, distance, stats);
+	}
+	*route_from = from;
+	*route_to = to;
 
 done:
 	fr_release_prep(env, &rp);

@@ -270,6 +270,101 @@ repeated_vertices_keep_every_answer(void **state)
 	}
 }
 
+/* Largest coordinate magnitude of two raw 2-D curves. */
+static double
+magnitude(const double *a, size_t na, const double *b, size_t nb)
+{
+	double		m = 0;
+
+	for (size_t i = 0; i < 2 * na; i++)
+		m = fmax(m, fabs(a[i]));
+	for (size_t i = 0; i < 2 * nb; i++)
+		m = fmax(m, fabs(b[i]));
+	return m;
+}
+
+/*
+ * The part a partial match returns is within eps of the trip, up to the
+ * rounding of positions on the route (1e-9 of eps, 1e-12 of the
+ * coordinates); a match exists at the partial distance; and the partial
+ * distance is at most the distance to the whole route (the whole route is
+ * one of its parts).
+ */
+static void
+assert_partial_sound(const double *a, size_t na, const double *b, size_t nb, double eps)
+{
+	test_heap	h;
+	fr_env		e = test_env(&h);
+	fr_curve	p = {a, na, 2},
+				q = {b, nb, 2};
+	bool		found = false;
+	double		from,
+				to,
+				d,
+				pd,
+				whole;
+
+	assert_int_equal(fr_partial_match(&e, &p, &q, eps, &found, &from, &to, &d, NULL), FR_OK);
+	if (found)
+	{
+		size_t		k;
+		double	   *part = test_part_of(&q, from, to, &k);
+		fr_curve	pc = {part, k, 2};
+
+		assert_true(from <= to);
+		assert_true(d <= eps + 1e-9 * eps + 1e-12 * magnitude(a, na, b, nb));
+		assert_true(test_close(test_distance(&p, &pc), d, 1e-12) ||
+					fabs(test_distance(&p, &pc) - d) <= 1e-12 * magnitude(a, na, b, nb));
+		free(part);
+	}
+	assert_int_equal(fr_partial_distance(&e, &p, &q, &pd, NULL), FR_OK);
+	assert_int_equal(fr_distance(&e, &p, &q, &whole, NULL), FR_OK);
+	assert_true(pd <= whole);
+	assert_int_equal(fr_partial_match(&e, &p, &q, pd, &found, &from, &to, &d, NULL), FR_OK);
+	assert_true(found);
+	assert_int_equal(h.live, 0);
+}
+
+/*
+ * Issue 20, item 4: a route edge far longer than eps (1e11 against 1), or
+ * a trip below the route's rounding (1e-17 beside 100), made the reversed
+ * sweep that finds the part's start disagree with the forward one, and the
+ * fallback returned the whole route (distance 1.98 at eps 1; 141 at eps 0).
+ */
+static void
+partial_match_part_is_within_eps(void **state)
+{
+	const double a1[] = {0, 0.0671, 1.436, 1.436};
+	const double b1[] = {1.436, 1.436, -1e11, -1e11};
+	const double a2[] = {1e-17, 0, 0, 0};
+	const double b2[] = {0, 0, 1e-17, 0, -100, -100, 0, 0};
+
+	assert_partial_sound(a1, 2, b1, 2, 1.0);
+	assert_partial_sound(a2, 2, b2, 4, 0.0);
+
+	/* short trips against routes with very long edges, at several eps */
+	for (int trial = 0; trial < 300; trial++)
+	{
+		size_t		n = 2 + test_rand64() % 4,
+					m = 2 + test_rand64() % 4;
+		double	   *a = test_walk(n, 0, 0, 2),
+				   *b = test_walk(m, test_uniform(-2, 2), test_uniform(-2, 2), 2);
+		double		eps = test_uniform(0, 3);
+
+		/* one route vertex far away: an edge of 1e3 to 1e11 */
+		{
+			size_t		j = test_rand64() % m;
+			double		far = pow(10, test_uniform(3, 11));
+
+			b[2 * j] = test_uniform(-1, 1) * far;
+			b[2 * j + 1] = test_uniform(-1, 1) * far;
+		}
+		assert_partial_sound(a, n, b, m, eps);
+		free(a);
+		free(b);
+	}
+}
+
 int
 main(void)
 {
@@ -278,6 +373,7 @@ main(void)
 		cmocka_unit_test(pairs_beyond_the_scale_range_are_refused),
 		cmocka_unit_test(parked_vehicles_decide_at_once),
 		cmocka_unit_test(repeated_vertices_keep_every_answer),
+		cmocka_unit_test(partial_match_part_is_within_eps),
 	};
 
 	return cmocka_run_group_tests_name("extremes", tests, NULL, NULL);
