@@ -106,8 +106,8 @@ glue_check_status(fr_status st, const char *what)
 		ereport(ERROR,
 				(errcode(ERRCODE_NUMERIC_VALUE_OUT_OF_RANGE),
 				 errmsg("coordinates of %s span too many orders of magnitude to compute exactly", what),
-				 errdetail("A nonzero coordinate, measured from the curves' common centre, is below 2^-300 of their extent, where squared distances lose their precision."),
-				 errhint("Round the coordinates to a sensible resolution (for example 1e-9 of the curves' extent), or move and rescale the curves.")));
+				 errdetail("A nonzero coordinate, measured from the curves' common centre (and scaled up when the curves are tiny as a whole), is below 2^-450 (about 3.5e-136), where squared distances underflow."),
+				 errhint("Round the coordinates to a sensible resolution, for example 1e-9 of the curves' extent.")));
 	elog(ERROR, "%s failed in the engine: %s", what, fr_status_text(st));
 }
 

@@ -727,6 +727,9 @@ fr_cheap_decide(const fr_curve *p, const fr_curve *q, double eps)
 				lim;
 	size_t		budget;
 
+	/* pairs the exact deciders refuse (FR_ERANGE) get no verdict here either */
+	if (!fr_pair_in_range(p, q))
+		return FR_UNDECIDED;
 	if (isinf(eps))
 		return FR_NEAR;
 	fr_key_of_curve(p, &kp);

@@ -23,14 +23,15 @@
 #define FR_MAX_ABS_COORD 1e150
 
 /*
- * Smallest nonzero coordinate, relative to the largest, in the frame where
- * the engine works (both curves shifted to a common origin, tiny pairs
- * scaled up).  Above it, a nonzero difference of two coordinates is at
- * least 2^-352 of the extent, so its square and the products the deciders
- * form stay normal numbers; below it they would underflow and distances
- * collapse.  Pairs with such a coordinate get FR_ERANGE, never a number.
+ * Smallest nonzero coordinate magnitude in the frame where the engine works
+ * (both curves shifted to a common origin; pairs tiny as a whole scaled up
+ * by a power of two to an extent near 1).  From it up, two coordinates
+ * that differ do so by at least 2^-502, so squared differences stay normal
+ * numbers; below it squares underflow, and lengths and distances collapse
+ * (a distance of 1e-200 beside an extent of 10 came back as 0).  Pairs with
+ * such a coordinate get FR_ERANGE, never a number.
  */
-#define FR_MIN_REL_COORD 0x1p-300
+#define FR_MIN_LOCAL_COORD 0x1p-450
 
 typedef struct fr_env
 {
@@ -63,9 +64,9 @@ typedef enum fr_status
 	FR_ENOMEM,					/* the allocator returned NULL */
 	FR_EINTR,					/* the interrupt callback asked to stop */
 	FR_EINVAL,					/* structurally invalid input */
-	FR_ERANGE					/* a nonzero coordinate too small beside the pair's extent
+	FR_ERANGE					/* a nonzero coordinate too small, in the pair's frame,
 								 * for squared distances to keep their precision
-								 * (FR_MIN_REL_COORD) */
+								 * (FR_MIN_LOCAL_COORD) */
 } fr_status;
 
 /* Counters a caller may ask for; any pointer argument of this type may be NULL. */
@@ -79,6 +80,13 @@ typedef struct fr_stats
 
 /* Human-readable name of a status, for error messages. */
 const char *fr_status_text(fr_status st);
+
+/*
+ * Whether every exact entry point can compute on the pair: false when a
+ * nonzero coordinate is below FR_MIN_LOCAL_COORD in the pair's frame (they
+ * return FR_ERANGE).  Linear, allocates nothing.
+ */
+bool		fr_pair_in_range(const fr_curve *p, const fr_curve *q);
 
 /*
  * Bytes of scratch memory the engine may request for a distance or decision

@@ -260,21 +260,69 @@ fr_release_prep(const fr_env *env, fr_prep *c)
 	c->s = NULL;
 }
 
-/* Whether every local coordinate of c is 0 or at least FR_MIN_REL_COORD of extent. */
-static bool
-coords_in_range(const fr_prep *c, double extent)
+/*
+ * The local frame of a pair: origin[3] (exact per axis) and the returned
+ * scale, a power of two (1 unless the pair is tiny as a whole).
+ */
+static double
+pair_frame(const fr_curve *p, const fr_curve *q, double *origin)
 {
-	double		floor = extent * FR_MIN_REL_COORD;
+	double		lo[3] = {INFINITY, INFINITY, INFINITY},
+				hi[3] = {-INFINITY, -INFINITY, -INFINITY},
+				extent = 0;
+
+	axis_ranges(p, lo, hi);
+	axis_ranges(q, lo, hi);
+	for (int axis = 0; axis < 3; axis++)
+	{
+		origin[axis] = exact_origin(lo[axis], hi[axis]);
+		/* the largest local coordinate: the origin may be 0 */
+		extent = fmax(extent, fmax(fabs(hi[axis] - origin[axis]), fabs(lo[axis] - origin[axis])));
+	}
+	if (extent > 0 && extent < 0x1p-20)
+	{
+		/* at most 2^1000: a subnormal extent must not overflow the scale */
+		int			e = -ilogb(extent);
+
+		return ldexp(1.0, e < 1000 ? e : 1000);
+	}
+	return 1.0;
+}
+
+/* Whether a local coordinate is 0 or at least FR_MIN_LOCAL_COORD in magnitude. */
+static inline bool
+local_in_range(double c)
+{
+	return c == 0.0 || fabs(c) >= FR_MIN_LOCAL_COORD;
+}
+
+/* Whether the pair's coordinates all pass local_in_range in its frame (no allocation). */
+bool
+fr_pair_in_range(const fr_curve *p, const fr_curve *q)
+{
+	double		origin[3],
+				scale = pair_frame(p, q, origin);
+	bool		ok = true;
+
+	for (int k = 0; k < 2; k++)
+	{
+		const fr_curve *c = k == 0 ? p : q;
+
+		for (size_t i = 0; i < c->n; i++)
+			for (int axis = 0; axis < c->dim; axis++)
+				ok &= local_in_range((c->coords[i * c->dim + axis] - origin[axis]) * scale);
+	}
+	return ok;
+}
+
+/* Whether every local coordinate of c is 0 or at least FR_MIN_LOCAL_COORD in magnitude. */
+static bool
+coords_in_range(const fr_prep *c)
+{
 	bool		ok = true;
 
 	for (size_t i = 0; i < c->n; i++)
-	{
-		const fr_pt *v = &c->v[i];
-
-		ok &= (v->x == 0.0 || fabs(v->x) >= floor) &&
-			(v->y == 0.0 || fabs(v->y) >= floor) &&
-			(v->z == 0.0 || fabs(v->z) >= floor);
-	}
+		ok &= local_in_range(c->v[i].x) && local_in_range(c->v[i].y) && local_in_range(c->v[i].z);
 	return ok;
 }
 
@@ -302,10 +350,7 @@ fr_prepare_pair_extra(const fr_env *env, const fr_curve *p, const fr_curve *q,
 					  fr_prep *pp, fr_prep *pq, size_t extra, void **extra_out)
 {
 	double		origin[3],
-				lo[3] = {INFINITY, INFINITY, INFINITY},
-				hi[3] = {-INFINITY, -INFINITY, -INFINITY},
-				extent = 0,
-				scale = 1;
+				scale;
 	size_t		off_pv,
 				off_ps,
 				off_qv,
@@ -321,21 +366,7 @@ fr_prepare_pair_extra(const fr_env *env, const fr_curve *p, const fr_curve *q,
 		*extra_out = NULL;
 	if (!fr_pair_valid(p, q))
 		return FR_EINVAL;
-	axis_ranges(p, lo, hi);
-	axis_ranges(q, lo, hi);
-	for (int axis = 0; axis < 3; axis++)
-	{
-		origin[axis] = exact_origin(lo[axis], hi[axis]);
-		/* the largest local coordinate: the origin may be 0 */
-		extent = fmax(extent, fmax(fabs(hi[axis] - origin[axis]), fabs(lo[axis] - origin[axis])));
-	}
-	if (extent > 0 && extent < 0x1p-20)
-	{
-		/* at most 2^1000: a subnormal extent must not overflow the scale */
-		int			e = -ilogb(extent);
-
-		scale = ldexp(1.0, e < 1000 ? e : 1000);
-	}
+	scale = pair_frame(p, q, origin);
 	off_pv = 0;
 	off_ps = align16(off_pv + p->n * sizeof(fr_pt));
 	off_qv = align16(off_ps + p->n * sizeof(fr_seg));
@@ -348,7 +379,7 @@ fr_prepare_pair_extra(const fr_env *env, const fr_curve *p, const fr_curve *q,
 	prepare_one(p, origin, scale, (fr_pt *) (block + off_pv), (fr_seg *) (block + off_ps), pp);
 	prepare_one(q, origin, scale, (fr_pt *) (block + off_qv), (fr_seg *) (block + off_qs), pq);
 	pp->block = block;
-	if (!coords_in_range(pp, extent * scale) || !coords_in_range(pq, extent * scale))
+	if (!coords_in_range(pp) || !coords_in_range(pq))
 	{
 		fr_free(env, block);
 		memset(pp, 0, sizeof(*pp));

@@ -122,9 +122,10 @@ vertex_on_the_line_returns(void **state)
 
 /*
  * Issue 20, item 3: squares of coordinate differences below about 1e-154
- * lose precision and below about 1e-162 vanish.  Such pairs are refused by
- * every exact entry point with FR_ERANGE; pairs within range keep their
- * exact answer.  Reference values: the distance of two segments that share
+ * lose precision and below about 1e-162 vanish.  Pairs with a nonzero
+ * coordinate below FR_MIN_LOCAL_COORD in their frame are refused by every
+ * exact entry point with FR_ERANGE; pairs within range keep their exact
+ * answer.  Reference values: the distance of two segments that share
  * an end point and start delta apart is delta (both walkers move at
  * proportional speed; the start points already are delta apart).
  */
@@ -133,8 +134,8 @@ pairs_beyond_the_scale_range_are_refused(void **state)
 {
 	const double tiny_seg[] = {-1.6e-162, 0, 0, 0};
 	const double spike[] = {0, 0, 0, 1, 0, 0};
-	const double offsets[] = {1e-80, 1e-60, 1e-30, 1e-89};
-	const double refused[] = {1e-91, 1e-100, 1e-160, 1e-200, 4.9e-324};
+	const double offsets[] = {1e-80, 1e-60, 1e-30, 1e-89, 1e-130};
+	const double refused[] = {1e-137, 1e-140, 1e-160, 1e-200, 4.9e-324};
 	double		d;
 
 	assert_int_equal(guarded_distance(tiny_seg, 2, spike, 3, 2, &d), FR_ERANGE);
@@ -166,6 +167,9 @@ pairs_beyond_the_scale_range_are_refused(void **state)
 		assert_int_equal(guarded_distance(a, 2, b, 2, 2, &d), FR_ERANGE);
 		assert_int_equal(fr_decide_plain(&e, &p, &q, 0.0, &yes, NULL), FR_ERANGE);
 		assert_int_equal(fr_decide_exact(&e, &p, &q, 0.0, &yes, NULL), FR_ERANGE);
+		assert_int_equal(fr_decide(&e, &p, &q, 1.0, &yes, NULL), FR_ERANGE);
+		assert_int_equal(fr_decide(&e, &p, &q, INFINITY, &yes, NULL), FR_ERANGE);
+		assert_false(fr_pair_in_range(&p, &q));
 		assert_int_equal(fr_discrete_distance(&e, &p, &q, &d), FR_ERANGE);
 		assert_int_equal(fr_partial_distance(&e, &p, &q, &d, NULL), FR_ERANGE);
 		assert_int_equal(fr_partial_match(&e, &p, &q, 1.0, &found, &from, &to, &d, NULL), FR_ERANGE);
@@ -173,6 +177,14 @@ pairs_beyond_the_scale_range_are_refused(void **state)
 		assert_int_equal(h.live, 0);
 	}
 
+	/* coordinates from 1e-130 to 1e150 in one pair are fine: no square underflows */
+	{
+		const double a[] = {-1e150, 0, 1e150, 1e-130};
+		const double b[] = {-1e150, 1, 1e150, 1e-130};
+
+		assert_int_equal(guarded_distance(a, 2, b, 2, 2, &d), FR_OK);
+		assert_true(d == 1.0);
+	}
 	/* a whole pair that is tiny is scaled, not refused: the offset comes back */
 	{
 		const double a[] = {0, 0, 1e-200, 0};
