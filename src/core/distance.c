@@ -171,26 +171,6 @@ sample_type_b(search *s, fr_poll *poll, double *sample, size_t *kept, uint64_t *
 	return FR_OK;
 }
 
-/* Order-preserving bit pattern of a non-negative double. */
-static uint64_t
-double_bits(double x)
-{
-	uint64_t	u;
-
-	memcpy(&u, &x, sizeof(u));
-	return u;
-}
-
-/* The double with a given bit pattern. */
-static double
-bits_double(uint64_t u)
-{
-	double		x;
-
-	memcpy(&x, &u, sizeof(x));
-	return x;
-}
-
 /*
  * The search for the smallest eps the decider accepts, given a lower bound
  * s->lo and an upper bound s->hi that a valid matching attains.
@@ -277,12 +257,12 @@ search_threshold(search *s, double *result)
 	 */
 	for (;;)
 	{
-		uint64_t	lb = double_bits(s->lo),
-					hb = double_bits(s->hi);
+		uint64_t	lb = fr_double_bits(s->lo),
+					hb = fr_double_bits(s->hi);
 
 		if (hb - lb <= 1)
 			break;
-		st = probe(s, bits_double(lb + (hb - lb) / 2));
+		st = probe(s, fr_bits_double(lb + (hb - lb) / 2));
 		if (st != FR_OK)
 			return st;
 	}
@@ -396,13 +376,13 @@ fast_bisect(fast *f)
 
 	for (;;)
 	{
-		uint64_t	lb = double_bits(f->lo),
-					hb = double_bits(f->hi);
+		uint64_t	lb = fr_double_bits(f->lo),
+					hb = fr_double_bits(f->hi);
 		fr_status	st;
 
 		if (hb - lb <= 1)
 			return FR_OK;
-		st = fast_probe(f, bits_double(lb + (hb - lb) / 2), false, &yes);
+		st = fast_probe(f, fr_bits_double(lb + (hb - lb) / 2), false, &yes);
 		if (st != FR_OK)
 			return st;
 	}

@@ -8,6 +8,7 @@
 #include <float.h>
 #include <math.h>
 #include <stdbool.h>
+#include <string.h>
 
 #include "frechet.h"
 
@@ -121,6 +122,26 @@ fr_poll_init(fr_poll *poll, const fr_env *env)
 {
 	poll->env = env;
 	poll->budget = FR_INTERRUPT_CELLS;
+}
+
+/* Order-preserving bit pattern of a non-negative double. */
+static inline uint64_t
+fr_double_bits(double x)
+{
+	uint64_t	u;
+
+	memcpy(&u, &x, sizeof(u));
+	return u;
+}
+
+/* The double with a given bit pattern. */
+static inline double
+fr_bits_double(uint64_t u)
+{
+	double		x;
+
+	memcpy(&x, &u, sizeof(x));
+	return x;
 }
 
 /* Is the pair structurally valid: a vertex or more each, one dimension, 2 or 3? */

@@ -218,6 +218,26 @@ fr_status	fr_excursions(const fr_env *env, const fr_curve *trip, const fr_curve 
 /* Upper bound of the bytes fr_excursions may request. */
 size_t		fr_excursions_scratch_bytes(size_t n, size_t m);
 
+/*
+ * Sparse pings matched in order to a continuous route (pings.c): is there
+ * a non-decreasing route position for every ping, the first at the route's
+ * start and the last at its end, each ping within eps of its position, and
+ * (max_gap >= 0 and finite) consecutive positions at most max_gap apart
+ * along the route?  A single ping must be within eps of the whole route.
+ */
+fr_status	fr_pings_decide(const fr_env *env, const fr_curve *pings, const fr_curve *route,
+							double eps, double max_gap, bool *result);
+
+/*
+ * The smallest eps that fr_pings_decide accepts (+Infinity when max_gap
+ * allows no matching); *decisions (may be NULL) counts the decisions made.
+ */
+fr_status	fr_pings_distance(const fr_env *env, const fr_curve *pings, const fr_curve *route,
+							  double max_gap, double *result, uint64_t *decisions);
+
+/* Scratch bytes of a ping decision or distance. */
+size_t		fr_pings_scratch_bytes(size_t n, size_t m);
+
 /* The point at position pos (k + t, 0-based) of a curve, into out[dim]. */
 void		fr_curve_point(const fr_curve *c, double pos, double *out);
 
