@@ -41,6 +41,8 @@ EXTRA_CLEAN += sql/frechet_ext_postgis--$(EXTVERSION).sql
 OBJS += src/geo_gist.o
 # Maps and dashboards: track pieces and GeoJSON (SQL bodies in the install scripts).
 OBJS += src/track_piece.o
+# Sparse pings matched in order to a route, on every input type.
+OBJS += src/ping_glue.o
 
 # Debian installs several majors side by side; prefer 15, the supported one.
 PG_CONFIG ?= $(firstword $(wildcard /usr/lib/postgresql/15/bin/pg_config) pg_config)

@@ -1,2 +1,39 @@
 -- frechet_ext_postgis 0.1 -> 0.2.
 \echo Use "ALTER EXTENSION frechet_ext_postgis UPDATE TO '0.2'" to load this file. \quit
+-- PostGIS's types, which PostgreSQL 15 offers no placeholder to qualify:
+-- ALTER EXTENSION ... UPDATE finds them through the search_path it sets.
+-- lint_sql: allow geometry geography frechet_key
+
+-- Sparse pings matched in order to a route, on geometry (units of the SRID)
+-- and geography (metres).  Not STRICT: a NULL max_gap means no limit.
+CREATE FUNCTION @extschema@.frechet_pings_at_most(trip geometry, route geometry, epsilon pg_catalog.float8, max_gap pg_catalog.float8 DEFAULT NULL)
+RETURNS pg_catalog.bool
+AS 'MODULE_PATHNAME', 'frechet_pings_at_most_geometry'
+LANGUAGE C IMMUTABLE CALLED ON NULL INPUT PARALLEL SAFE COST 500;
+
+COMMENT ON FUNCTION @extschema@.frechet_pings_at_most(geometry, geometry, pg_catalog.float8, pg_catalog.float8) IS
+'true when every ping (vertex) of the trip lies within epsilon (units of the SRID) of the route at non-decreasing route positions from its start to its end; max_gap (NULL: no limit) caps the route length between consecutive positions';
+
+CREATE FUNCTION @extschema@.frechet_pings_distance(trip geometry, route geometry, max_gap pg_catalog.float8 DEFAULT NULL)
+RETURNS pg_catalog.float8
+AS 'MODULE_PATHNAME', 'frechet_pings_distance_geometry'
+LANGUAGE C IMMUTABLE CALLED ON NULL INPUT PARALLEL SAFE COST 2000;
+
+COMMENT ON FUNCTION @extschema@.frechet_pings_distance(geometry, geometry, pg_catalog.float8) IS
+'smallest epsilon (units of the SRID) for which frechet_pings_at_most is true; Infinity when max_gap allows no matching';
+
+CREATE FUNCTION @extschema@.frechet_pings_at_most(trip geography, route geography, epsilon pg_catalog.float8, max_gap pg_catalog.float8 DEFAULT NULL)
+RETURNS pg_catalog.bool
+AS 'MODULE_PATHNAME', 'frechet_pings_at_most_geography'
+LANGUAGE C IMMUTABLE CALLED ON NULL INPUT PARALLEL SAFE COST 500;
+
+COMMENT ON FUNCTION @extschema@.frechet_pings_at_most(geography, geography, pg_catalog.float8, pg_catalog.float8) IS
+'true when every ping of the trip lies within epsilon metres of the route at non-decreasing route positions from its start to its end; max_gap in metres (NULL: no limit)';
+
+CREATE FUNCTION @extschema@.frechet_pings_distance(trip geography, route geography, max_gap pg_catalog.float8 DEFAULT NULL)
+RETURNS pg_catalog.float8
+AS 'MODULE_PATHNAME', 'frechet_pings_distance_geography'
+LANGUAGE C IMMUTABLE CALLED ON NULL INPUT PARALLEL SAFE COST 2000;
+
+COMMENT ON FUNCTION @extschema@.frechet_pings_distance(geography, geography, pg_catalog.float8) IS
+'smallest epsilon in metres for which frechet_pings_at_most is true; Infinity when max_gap allows no matching';

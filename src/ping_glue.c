@@ -1,0 +1,161 @@
+/*
+ * ping_glue.c - the ping functions (sparse samples matched in order to a
+ * route; src/core/pings.c) on point[], geometry and geography.  One path
+ * for all three types: decode, validate, call the engine, convert units.
+ */
+#include "postgres.h"
+
+#include <math.h>
+
+#include "fmgr.h"
+
+#include "geo_glue.h"
+#include "geodesy.h"
+#include "glue.h"
+
+/* Which input type a call decodes. */
+typedef enum ping_input
+{
+	PING_POINTS,
+	PING_GEOMETRY,
+	PING_GEOGRAPHY
+} ping_input;
+
+/* A decoded ping call: trip and route as engine curves, units known. */
+typedef struct ping_args
+{
+	fr_curve	trip,
+				route;
+	bool		geodetic;
+	double		max_gap;		/* engine units; -1 for no limit */
+} ping_args;
+
+/*
+ * Decodes trip and route (arguments 0 and 1) and the optional max_gap
+ * (argument gap_argno; SQL NULL or absent: no limit).  Route length along
+ * a geography is measured along the chords between its vertices, which for
+ * edges under 100 km differs from the geodesic by less than 1e-5 relative.
+ */
+static void
+ping_decode(FunctionCallInfo fcinfo, ping_input input, int gap_argno, ping_args *pa)
+{
+	if (input == PING_POINTS)
+	{
+		point_array_curve(PG_GETARG_ARRAYTYPE_P(0), 1, &pa->trip);
+		point_array_curve(PG_GETARG_ARRAYTYPE_P(1), 2, &pa->route);
+		pa->geodetic = false;
+	}
+	else
+	{
+		geo_curves	gc;
+
+		geo_decode_args(fcinfo, input == PING_GEOGRAPHY, &gc);
+		pa->trip = gc.p;
+		pa->route = gc.q;
+		pa->geodetic = gc.geodetic;
+	}
+	pa->max_gap = -1;
+	if (gap_argno < PG_NARGS() && !PG_ARGISNULL(gap_argno))
+	{
+		double		gap = PG_GETARG_FLOAT8(gap_argno);
+
+		if (isnan(gap) || gap < 0)
+			ereport(ERROR,
+					(errcode(ERRCODE_INVALID_PARAMETER_VALUE),
+					 errmsg("max_gap must be a non-negative number or NULL"),
+					 errdetail("Argument %d is %s.", gap_argno + 1, isnan(gap) ? "NaN" : "negative"),
+					 errhint("Pass NULL for no limit on the route length between consecutive pings.")));
+		pa->max_gap = gap;
+	}
+}
+
+/* frechet_pings_at_most for every input type; NULL when trip, route or epsilon is NULL. */
+static Datum
+pings_at_most(FunctionCallInfo fcinfo, ping_input input)
+{
+	ping_args	pa;
+	glue_env	g;
+	double		eps;
+	bool		yes = false;
+	fr_status	st;
+
+	if (PG_ARGISNULL(0) || PG_ARGISNULL(1) || PG_ARGISNULL(2))
+		PG_RETURN_NULL();
+	ping_decode(fcinfo, input, 3, &pa);
+	eps = PG_GETARG_FLOAT8(2);
+	glue_check_epsilon(eps, 3);
+	if (pa.geodetic)
+		eps = fr_metres_to_chord(eps);
+	glue_env_begin(&g, fr_pings_scratch_bytes(pa.trip.n, pa.route.n), "frechet_pings_at_most");
+	st = fr_pings_decide(&g.env, &pa.trip, &pa.route, eps, pa.max_gap, &yes);
+	glue_env_end(&g);
+	glue_check_status(st, "frechet_pings_at_most");
+	PG_RETURN_BOOL(yes);
+}
+
+/* frechet_pings_distance for every input type; NULL when trip or route is NULL. */
+static Datum
+pings_distance(FunctionCallInfo fcinfo, ping_input input)
+{
+	ping_args	pa;
+	glue_env	g;
+	double		d = 0;
+	fr_status	st;
+
+	if (PG_ARGISNULL(0) || PG_ARGISNULL(1))
+		PG_RETURN_NULL();
+	ping_decode(fcinfo, input, 2, &pa);
+	glue_env_begin(&g, fr_pings_scratch_bytes(pa.trip.n, pa.route.n), "frechet_pings_distance");
+	st = fr_pings_distance(&g.env, &pa.trip, &pa.route, pa.max_gap, &d, NULL);
+	glue_env_end(&g);
+	glue_check_status(st, "frechet_pings_distance");
+	PG_RETURN_FLOAT8(pa.geodetic && !isinf(d) ? fr_chord_to_metres(d) : d);
+}
+
+PG_FUNCTION_INFO_V1(frechet_pings_at_most_point_array);
+/* frechet_pings_at_most(point[], point[], float8, max_gap float8): pings in order within epsilon? */
+Datum
+frechet_pings_at_most_point_array(PG_FUNCTION_ARGS)
+{
+	return pings_at_most(fcinfo, PING_POINTS);
+}
+
+PG_FUNCTION_INFO_V1(frechet_pings_distance_point_array);
+/* frechet_pings_distance(point[], point[], max_gap float8): smallest such epsilon. */
+Datum
+frechet_pings_distance_point_array(PG_FUNCTION_ARGS)
+{
+	return pings_distance(fcinfo, PING_POINTS);
+}
+
+PG_FUNCTION_INFO_V1(frechet_pings_at_most_geometry);
+/* frechet_pings_at_most(geometry, geometry, float8, max_gap float8): units of the SRID. */
+Datum
+frechet_pings_at_most_geometry(PG_FUNCTION_ARGS)
+{
+	return pings_at_most(fcinfo, PING_GEOMETRY);
+}
+
+PG_FUNCTION_INFO_V1(frechet_pings_distance_geometry);
+/* frechet_pings_distance(geometry, geometry, max_gap float8): units of the SRID. */
+Datum
+frechet_pings_distance_geometry(PG_FUNCTION_ARGS)
+{
+	return pings_distance(fcinfo, PING_GEOMETRY);
+}
+
+PG_FUNCTION_INFO_V1(frechet_pings_at_most_geography);
+/* frechet_pings_at_most(geography, geography, float8, max_gap float8): metres. */
+Datum
+frechet_pings_at_most_geography(PG_FUNCTION_ARGS)
+{
+	return pings_at_most(fcinfo, PING_GEOGRAPHY);
+}
+
+PG_FUNCTION_INFO_V1(frechet_pings_distance_geography);
+/* frechet_pings_distance(geography, geography, max_gap float8): metres. */
+Datum
+frechet_pings_distance_geography(PG_FUNCTION_ARGS)
+{
+	return pings_distance(fcinfo, PING_GEOGRAPHY);
+}
