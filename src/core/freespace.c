@@ -83,16 +83,35 @@ exact_origin(double lo, double hi)
 static void
 axis_ranges(const fr_curve *c, double *lo, double *hi)
 {
-	for (size_t i = 0; i < c->n; i++)
-		for (int axis = 0; axis < 3; axis++)
-		{
-			double		x = axis < c->dim ? c->coords[i * c->dim + axis] : 0.0;
+	const double *x = c->coords;
+	const size_t d = (size_t) c->dim;
+	double		l0 = lo[0],
+				l1 = lo[1],
+				h0 = hi[0],
+				h1 = hi[1];
 
-			if (x < lo[axis])
-				lo[axis] = x;
-			if (x > hi[axis])
-				hi[axis] = x;
-		}
+	/* branch-free selects, one pass per axis pair: the loop vectorises */
+	for (size_t i = 0; i < c->n; i++)
+	{
+		double		a = x[i * d],
+					b = x[i * d + 1];
+
+		l0 = a < l0 ? a : l0;
+		h0 = a > h0 ? a : h0;
+		l1 = b < l1 ? b : l1;
+		h1 = b > h1 ? b : h1;
+	}
+	lo[0] = l0;
+	lo[1] = l1;
+	hi[0] = h0;
+	hi[1] = h1;
+	for (size_t i = 0; i < c->n; i++)
+	{
+		double		z = d > 2 ? x[i * d + 2] : 0.0;
+
+		lo[2] = z < lo[2] ? z : lo[2];
+		hi[2] = z > hi[2] ? z : hi[2];
+	}
 }
 
 /* Fills the n - 1 segments of a prepared curve from its vertices. */

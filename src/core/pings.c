@@ -295,9 +295,58 @@ fr_pings_decide(const fr_env *env, const fr_curve *pings, const fr_curve *route,
 	return st;
 }
 
+/* Route segments a guess looks ahead for each ping's nearest place. */
+#define GUESS_WINDOW 16
+
+/*
+ * A guess at the ping distance: each ping in turn at its nearest place on
+ * the next GUESS_WINDOW route segments at or after the previous ping's
+ * place (a monotone matching, so without max_gap its largest leash bounds
+ * the distance from above), with leashes measured as the deciders open
+ * them (fr_point_segment_opening, a few ulps below the height at an
+ * interior foot).  On real tracks one ping's distance to the route is the
+ * ping distance, and this finds it: two decisions then confirm it.
+ */
+static double
+guess_distance(const ping_case *c)
+{
+	const fr_prep *p = c->p,
+			   *r = c->r;
+	route_at	at = {0, 0};
+	double		worst = fmax(fr_pt_dist(&p->v[0], &r->v[0]),
+							 fr_pt_dist(&p->v[p->n - 1], &r->v[r->n - 1]));
+
+	for (size_t i = 1; i + 1 < p->n; i++)
+	{
+		double		best = INFINITY;
+		route_at	best_at = at;
+
+		for (size_t k = at.k; k + 1 < r->n && k < at.k + GUESS_WINDOW; k++)
+		{
+			double		t = fr_nearest_param(&p->v[i], r, k, k == at.k ? at.t : 0.0, 1.0),
+						d;
+			fr_pt		pt = fr_prep_point(r, k, t);
+
+			d = t > 0.0 && t < 1.0 && !(k == at.k && t == at.t)
+				? fr_point_segment_opening(&p->v[i], &r->v[k], &r->s[k], &r->v[k + 1])
+				: fr_pt_dist(&p->v[i], &pt);
+			if (d < best)
+			{
+				best = d;
+				best_at.k = k;
+				best_at.t = t;
+			}
+		}
+		at = best_at;
+		worst = fmax(worst, best);
+	}
+	return worst;
+}
+
 /*
  * The ping distance: the smallest eps the decision accepts (+Infinity when
- * max_gap allows no matching at all).  Bounds: the decision rejects below
+ * max_gap allows no matching at all).  First the guess: accepted, and its
+ * double below rejected, it is the answer.  Otherwise bounds: the decision rejects below
  * the larger end distance, and without max_gap accepts where every ping
  * but the last is within eps of the route's start and the last of its end
  * (all at the start, the last at the end).  Between them, bisection on
@@ -330,8 +379,26 @@ fr_pings_distance(const fr_env *env, const fr_curve *pings, const fr_curve *rout
 		hi = fmax(hi, fr_pt_dist(&pp.v[i], &pr.v[0]));
 	if (!isinf(c.gap))
 		hi = INFINITY;			/* the gaps may need more, or no eps at all */
-	st = decide_case(&c, lo, &yes);
-	if (st == FR_OK && yes)
+	{
+		double		guess = guess_distance(&c);
+
+		if (guess > lo && guess < hi)
+		{
+			st = decide_case(&c, guess, &yes);
+			if (st == FR_OK && yes)
+			{
+				hi = guess;
+				st = decide_case(&c, nextafter(guess, 0), &yes);
+				if (st == FR_OK && !yes)
+					lo = nextafter(guess, 0);	/* the guess is the distance */
+			}
+			else if (st == FR_OK)
+				lo = guess;
+		}
+	}
+	if (st != FR_OK || fr_double_bits(hi) - fr_double_bits(lo) <= 1)
+		;						/* settled by the guess (or stopped) */
+	else if ((st = decide_case(&c, lo, &yes)) == FR_OK && yes)
 		hi = lo;
 	else if (st == FR_OK)
 	{
