@@ -100,3 +100,18 @@ SELECT t.trip_id, t.story, round(b.a_pos::numeric, 2) AS trip_pos,
        round(b.leash::numeric, 1) AS leash_m
 FROM trip t JOIN bus_line l USING (line_id), frechet_bottleneck(t.track, l.route) b
 WHERE t.trip_id = 104;
+
+\echo '== 8. The new 30-second trackers: pings in order, not the chords between them'
+\echo '   The straight line between two pings cuts the corners of the streets, so the'
+\echo '   continuous test flags ordinary trips; the ping test asks whether every ping lies'
+\echo '   within 60 m of the line, in order from its start to its end.  max_gap (the most a'
+\echo '   bus drives between two pings, here 600 m) also checks that no part of the line was'
+\echo '   skipped between two pings.'
+SELECT p.story, count(*) AS trips,
+       count(*) FILTER (WHERE NOT frechet_at_most(p.pings, l.route, :eps)) AS flagged_continuous,
+       count(*) FILTER (WHERE NOT frechet_pings_at_most(p.pings, l.route, :eps)) AS flagged_pings,
+       count(*) FILTER (WHERE NOT frechet_pings_at_most(p.pings, l.route, :eps, 600)) AS flagged_pings_gap_600,
+       round(avg(frechet_distance(p.pings, l.route))::numeric) AS avg_continuous_m,
+       round(avg(frechet_pings_distance(p.pings, l.route))::numeric) AS avg_pings_m
+FROM ping_trip p JOIN bus_line l USING (line_id)
+GROUP BY p.story ORDER BY p.story;

@@ -153,6 +153,50 @@ BEGIN
 	END LOOP;
 END $$;
 
+-- The new trackers of Wrenmere Valley Buses ping every 30 s: at 5-10 m/s a
+-- fix every 150-300 m, within a few metres of the road.  Simulation only.
+CREATE FUNCTION demo_ping(route point[], sd float8) RETURNS point[]
+LANGUAGE plpgsql AS $$
+DECLARE
+	track point[] := ARRAY[point((route[1])[0] + sd * demo_gauss(), (route[1])[1] + sd * demo_gauss())];
+	i int;
+	len float8;
+	pos float8 := 150 + 150 * random();
+	a point;
+	b point;
+	n int := array_length(route, 1);
+BEGIN
+	FOR i IN 1 .. n - 1 LOOP
+		a := route[i];
+		b := route[i + 1];
+		len := a <-> b;
+		WHILE pos < len LOOP
+			track := track || point(a[0] + (b[0] - a[0]) * pos / len + sd * demo_gauss(),
+			                        a[1] + (b[1] - a[1]) * pos / len + sd * demo_gauss());
+			pos := pos + 150 + 150 * random();
+		END LOOP;
+		pos := pos - len;
+	END LOOP;
+	RETURN track || point((route[n])[0] + sd * demo_gauss(), (route[n])[1] + sd * demo_gauss());
+END $$;
+
+-- 12 pinged trips a line: 10 ordinary, one that left the line on a detour,
+-- one that cut out the middle of its line (it rejoined further on).
+CREATE TABLE ping_trip (
+	trip_id   int PRIMARY KEY,
+	line_id   text NOT NULL REFERENCES bus_line,
+	story     text NOT NULL,
+	pings     point[] NOT NULL
+);
+INSERT INTO ping_trip
+SELECT 5000 + 12 * li + j, line_id,
+       CASE j WHEN 10 THEN 'detour of 400 m' WHEN 11 THEN 'cut out the middle' ELSE 'ordinary' END,
+       CASE j WHEN 10 THEN demo_ping(demo_detour(route, 2, 400), 5)
+              WHEN 11 THEN demo_ping(route[1:2] || route[array_length(route, 1) - 1:], 5)
+              ELSE demo_ping(route, 5) END
+FROM (SELECT line_id, route, row_number() OVER (ORDER BY length(line_id), line_id) - 1 AS li FROM bus_line) l,
+     generate_series(0, 11) j;
+
 ANALYZE trip;
 SELECT (SELECT count(*) FROM bus_line) AS lines, count(*) AS trips, count(*) FILTER (WHERE line_id IS NULL) AS unlabelled,
        sum(array_length(track, 1)) AS gps_fixes,
