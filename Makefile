@@ -6,7 +6,7 @@ EXTENSION = frechet_ext
 MODULE_big = frechet_ext
 EXTVERSION = 0.2
 
-CORE_OBJS = src/core/freespace.o src/core/decide.o src/core/distance.o \
+CORE_OBJS = src/core/freespace.o src/core/reach.o src/core/decide.o src/core/distance.o \
 	src/core/discrete.o src/core/matching.o src/core/partial.o \
 	src/core/excursions.o src/core/prune.o src/core/simplify.o src/core/pings.o
 OBJS = $(CORE_OBJS) src/frechet_ext.o src/point_array.o src/witness.o

@@ -1,116 +1,15 @@
 /*
  * decide.c - the decision "Fréchet distance <= eps" by reachability in the
  * free space (Alt & Godau 1995, section 3): reachable parts of cell
- * boundaries are propagated row by row; only one row is kept, O(n+m) memory.
- *
- * Layout used throughout the engine: curve p runs along the x axis of the
- * free space (cells i = 0..n-2), curve q along y (rows j = 0..m-2).  A
- * reachable set on a cell boundary is stored as the lower end of its
- * reachable part (FR_EMPTY if none); its upper end is always the free
- * interval's upper end, because reachability only ever cuts from below.
+ * boundaries are propagated row by row (reach.c); only one row is kept,
+ * O(n+m) memory.  The plain decider, the exact one (the pruning decider of
+ * prune.c where there is a diagram) and the one offered to callers (the
+ * cheap bounds of bounds.c first).
  */
 #include <math.h>
 
 #include "fr_internal.h"
 #include "bounds.h"
-
-/*
- * Bottom edge of the diagram (row 0's bottom boundaries), reachable from
- * (0,0) along y = 0 while fully free.  row gets n - 1 entries.
- */
-void
-fr_bottom_edge(const fr_prep *p, const fr_prep *q, double eps, double *row)
-{
-	bool		open = true;
-
-	for (size_t i = 0; i + 1 < p->n; i++)
-	{
-		double		lo,
-					hi;
-
-		row[i] = FR_EMPTY;
-		if (!open)
-			continue;
-		fr_free_interval(&q->v[0], &p->v[i], &p->s[i], &p->v[i + 1], eps, &lo, &hi);
-		if (lo == 0.0)
-			row[i] = 0.0;
-		open = lo == 0.0 && hi == 1.0;
-	}
-}
-
-/*
- * Left edge of row j: the free interval of p[0] against segment q[j].
- * Returns its lower end (FR_EMPTY if empty); *full says whether it is all of
- * [0,1].
- */
-double
-fr_left_edge(const fr_prep *p, const fr_prep *q, size_t j, double eps, bool *full)
-{
-	double		lo,
-				hi;
-
-	fr_free_interval(&p->v[0], &q->v[j], &q->s[j], &q->v[j + 1], eps, &lo, &hi);
-	*full = lo == 0.0 && hi == 1.0;
-	return lo <= hi ? lo : FR_EMPTY;
-}
-
-/*
- * Propagates reachability through row j.  On entry row[i] is the reachable
- * lower end on the bottom of cell (i, j) and lr the one on the left edge;
- * on return row[i] is that of the top of cell (i, j).  If left is not NULL,
- * left[i] receives the reachable lower end on the left boundary of cell
- * (i, j) for i = 0..n-1 (left[n-1]: the right edge of the diagram).
- * Returns the reachable lower end on the right edge; *any_top says whether
- * any top boundary is reachable.  FR_EINTR if interrupted.
- */
-fr_status
-fr_row_step(const fr_prep *p, const fr_prep *q, size_t j, double eps,
-			double *row, double lr, double *left, double *right,
-			bool *any_top, fr_poll *poll)
-{
-	const size_t n = p->n;
-	const fr_pt *pv = p->v,
-			   *qa = &q->v[j],
-			   *qb = &q->v[j + 1];
-	const fr_seg *qs = &q->s[j];
-	bool		any = false;
-
-	for (size_t i = 0; i + 1 < n; i++)
-	{
-		double		br = row[i],
-					a,
-					b,
-					c,
-					d,
-					nlr,
-					nbr;
-
-		if (left)
-			left[i] = lr;
-		if (br == FR_EMPTY && lr == FR_EMPTY)
-			continue;			/* nothing enters: right and top stay empty */
-
-		/* right boundary: vertex p[i+1] against segment q[j]q[j+1] */
-		fr_free_interval(&pv[i + 1], qa, qs, qb, eps, &a, &b);
-		nlr = fr_reach_out(a, b, br, lr);
-		/* top boundary: vertex q[j+1] against segment p[i]p[i+1] */
-		fr_free_interval(qb, &pv[i], &p->s[i], &pv[i + 1], eps, &c, &d);
-		nbr = fr_reach_out(c, d, lr, br);
-		row[i] = nbr;
-		lr = nlr;
-		any |= nbr != FR_EMPTY;
-		/* long rows: poll inside the row as well (cancel within ~100 ms) */
-		if ((i & 0xFFFF) == 0xFFFF && fr_poll_add(poll, 0x10000))
-			return FR_EINTR;
-	}
-	if (left)
-		left[n - 1] = lr;
-	*right = lr;
-	*any_top = any;
-	if (fr_poll_add(poll, (n - 1) & 0xFFFF))
-		return FR_EINTR;
-	return FR_OK;
-}
 
 /*
  * Decision on prepared curves.  row must have room for n - 1 doubles.

@@ -44,22 +44,6 @@ fr_status_text(fr_status st)
 	return "unknown status";
 }
 
-/* Scratch bytes for a decision or distance on curves of n and m vertices. */
-size_t
-fr_scratch_bytes(size_t n, size_t m)
-{
-	/* vertices and segments of both curves, the pruning decider's work, openings */
-	size_t		base = (n + m) * (sizeof(fr_pt) + sizeof(fr_seg)) + 64 +
-		fr_prune_work_bytes(n, m) + 3 * FR_CANDIDATES * sizeof(double) + 256;
-
-	/*
-	 * A distance may also simplify both curves (an index and a row each)
-	 * and search on simplified curves of at most a quarter of the
-	 * vertices, which may in turn do the same: a third more at most.
-	 */
-	return base + base / 3 + (n + m) * (sizeof(size_t) + sizeof(double));
-}
-
 /*
  * An origin for one axis such that x - origin is exact for every coordinate:
  * the midpoint of the range, kept only when Sterbenz's lemma (y/2 <= x <= 2y
