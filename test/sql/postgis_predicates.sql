@@ -66,6 +66,9 @@ INSERT INTO pp_predicates VALUES
 ('st_overlaps',     $$SELECT id FROM pp WHERE ST_Overlaps(geom, (SELECT ST_MakeLine(ST_LineSubstring(geom, 0.5, 1), ST_Translate(ST_EndPoint(geom), 300, 700)) FROM pp WHERE id = 8))$$),
 ('st_equals',       $$SELECT id FROM pp WHERE ST_Equals(geom, (SELECT geom FROM pp WHERE id = 42))$$),
 ('st_dfullywithin', $$SELECT id FROM pp WHERE ST_DFullyWithin(geom, 'POINT(5000 5000)'::geometry, 800)$$),
+-- more predicates PostGIS indexes the same way
+('st_containsproperly', $$SELECT id FROM pp WHERE ST_ContainsProperly(geom, (SELECT ST_PointN(geom, 4) FROM pp WHERE id = 19))$$),
+('st_orderingequals',   $$SELECT id FROM pp WHERE ST_OrderingEquals(geom, (SELECT geom FROM pp WHERE id = 42))$$),
 ('join st_dwithin',      $$SELECT t.id * 100 + q.id AS id FROM pp t JOIN pq q ON ST_DWithin(t.geom, q.geom, 150)$$),
 ('join st_intersects',   $$SELECT t.id * 100 + q.id AS id FROM pp t JOIN pq q ON ST_Intersects(q.geom, t.geom)$$),
 ('join st_contains',     $$SELECT t.id * 100 + q.id AS id FROM pp t JOIN pq q ON ST_Contains(q.geom, t.geom)$$),
