@@ -199,6 +199,37 @@ RESET enable_hashjoin;
 RESET enable_mergejoin;
 RESET enable_seqscan;
 
+-- Geography: points along 400 long great-circle arcs (tens of degrees, any
+-- direction, some over a pole), where an arc leaves the box of its two
+-- vertices by up to hundreds of km.  Each point must find its own arc
+-- through our index on the arcs.
+CREATE TABLE ga AS
+SELECT i AS id, ST_MakeLine(ST_MakePoint(lon0, lat0), ST_MakePoint(lon1, lat1))::geography AS geog
+FROM (SELECT i, (i * 47 % 360) - 179.5 AS lon0, (i * 31 % 170) - 84.5 AS lat0,
+             ((i * 47 % 360) + 20 + i * 13 % 150) % 360 - 179.5 AS lon1,
+             (i * 71 % 170) - 84.5 AS lat1
+      FROM generate_series(1, 400) i) s;
+CREATE TABLE gap AS
+SELECT row_number() OVER (ORDER BY a.id, d.path[1]) AS id, a.id AS arc, d.geom::geography AS geog
+FROM ga a, ST_DumpPoints(ST_Segmentize(a.geog, 300000)::geometry) d;
+ANALYZE ga;
+ANALYZE gap;
+CREATE TABLE ga_reference AS
+SELECT (SELECT count(*) FROM gap) AS points,
+       pg_temp.answer($$SELECT p.id FROM gap p JOIN ga a ON a.id = p.arc AND ST_Intersects(a.geog, p.geog)$$) AS answer;
+CREATE INDEX ga_frechet ON ga USING gist (geog frechet_geography_ops);
+SET enable_hashjoin = off;
+SET enable_mergejoin = off;
+SET enable_seqscan = off;
+EXPLAIN (COSTS OFF)
+SELECT p.id FROM gap p JOIN ga a ON a.id = p.arc AND ST_Intersects(a.geog, p.geog);
+SELECT points, split_part(answer, ' ', 1)::int = points AS all_on_their_arc,
+       pg_temp.answer($$SELECT p.id FROM gap p JOIN ga a ON a.id = p.arc AND ST_Intersects(a.geog, p.geog)$$) = answer AS same_as_seqscan
+FROM ga_reference;
+RESET enable_hashjoin;
+RESET enable_mergejoin;
+RESET enable_seqscan;
+
 -- The Fréchet strategies still work on the same index (curves only: the
 -- Fréchet functions refuse polygons).
 CREATE TABLE pl AS SELECT id, geom FROM pp WHERE ST_GeometryType(geom) = 'ST_LineString' AND NOT ST_IsEmpty(geom);
@@ -218,6 +249,6 @@ SELECT pg_temp.answer($$SELECT id FROM pl WHERE frechet_at_most(geom, (SELECT ge
 FROM pl_reference;
 RESET enable_seqscan;
 
-DROP TABLE pp, pq, gg, gq, pl, pp_predicates, gg_predicates, pp_reference, gg_reference, pl_reference;
+DROP TABLE pp, pq, gg, gq, ga, gap, ga_reference, pl, pp_predicates, gg_predicates, pp_reference, gg_reference, pl_reference;
 DROP EXTENSION frechet_ext_postgis;
 DROP EXTENSION postgis;
