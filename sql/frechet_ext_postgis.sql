@@ -514,6 +514,7 @@ BEGIN
 		'ALTER OPERATOR FAMILY @extschema@.frechet_geography_ops USING gist ADD '
 		'OPERATOR 3 %1$I.&& (%1$I.geography, %1$I.geography)', nsp);
 END $$;
+
 -- Maps and dashboards: a pair's matching as GeoJSON (RFC 7946).  The bodies
 -- are standard SQL bodies, parsed while this script runs: PostGIS's
 -- functions (named unqualified, as PostgreSQL 15 has no
