@@ -44,7 +44,11 @@ frechet_gist_compress(PG_FUNCTION_ARGS)
 }
 
 PG_FUNCTION_INFO_V1(frechet_gist_consistent);
-/* May an entry hold a track within the query's reach?  Exact on leaves. */
+/*
+ * May an entry hold a track within the query's reach?  Exact on leaves.
+ * The geometry and geography classes share this function; their box
+ * strategies go to geo_gist_box_consistent.
+ */
 Datum
 frechet_gist_consistent(PG_FUNCTION_ARGS)
 {
@@ -54,6 +58,9 @@ frechet_gist_consistent(PG_FUNCTION_ARGS)
 	fr_key	   *key = DatumGetFrechetKey(entry->key);
 	fr_key	   *query;
 
+	/* PostGIS's box operators, in the classes on geometry and geography */
+	if (FRECHET_IS_BOX_STRATEGY(strategy))
+		return geo_gist_box_consistent(fcinfo);
 	if (strategy != FRECHET_STRATEGY_REACH)
 		elog(ERROR, "frechet_track_ops: unknown strategy number %d", strategy);
 	query = PG_GETARG_FRECHET_KEY(1);

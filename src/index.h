@@ -8,6 +8,7 @@
 
 #include "postgres.h"
 #include "fmgr.h"
+#include "access/stratnum.h"
 #include "utils/array.h"
 
 #include "bounds.h"
@@ -16,6 +17,15 @@
 #define FRECHET_STRATEGY_REACH 1
 /* Strategy of "track <-> route" in ORDER BY: k-nearest tracks. */
 #define FRECHET_STRATEGY_DISTANCE 15
+
+/*
+ * The geometry and geography classes also hold PostGIS's box operators
+ * under the R-tree strategy numbers PostGIS's planner support asks for
+ * (access/stratnum.h): && 3, ~= 6, ~ 7, @ 8.  None is 1 or 15.
+ */
+#define FRECHET_IS_BOX_STRATEGY(s) \
+	((s) == RTOverlapStrategyNumber || (s) == RTSameStrategyNumber || \
+	 (s) == RTContainsStrategyNumber || (s) == RTContainedByStrategyNumber)
 
 /* frechet_key values are fr_key structs stored as they are (fixed length, by reference). */
 #define DatumGetFrechetKey(d) ((fr_key *) DatumGetPointer(d))
@@ -28,5 +38,12 @@
  * exact call raises the same error it raises without an index.
  */
 void		track_key_of_array(ArrayType *arr, fr_key *key);
+
+/*
+ * GiST consistent for PostGIS's box operators on an index of
+ * frechet_geometry_ops or frechet_geography_ops (geo_gist.c): a call of
+ * frechet_gist_consistent with one of the box strategies.
+ */
+Datum		geo_gist_box_consistent(FunctionCallInfo fcinfo);
 
 #endif							/* FRECHET_INDEX_H */
