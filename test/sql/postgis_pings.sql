@@ -49,3 +49,4 @@ SELECT frechet_pings_at_most('LINESTRING(0 0, 1 1)'::geography, 'LINESTRING(0 0,
 
 DROP TABLE gping, gping_geo;
 DROP EXTENSION frechet_ext_postgis;
+DROP EXTENSION postgis;
