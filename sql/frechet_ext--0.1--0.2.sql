@@ -1,12 +1,21 @@
 -- frechet_ext 0.1 -> 0.2.
 \echo Use "ALTER EXTENSION frechet_ext UPDATE TO '0.2'" to load this file. \quit
 
+CREATE FUNCTION @extschema@.frechet_pings_support(internal)
+RETURNS internal
+AS 'MODULE_PATHNAME', 'frechet_pings_support'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+
+COMMENT ON FUNCTION @extschema@.frechet_pings_support(internal) IS
+'planner support of frechet_pings_at_most: the index condition trip &~> frechet_reach(route, epsilon)';
+
 -- Sparse pings matched in order to a route (src/core/pings.c).  Not STRICT:
 -- a NULL max_gap means no limit; NULL trip, route or epsilon give NULL.
 CREATE FUNCTION @extschema@.frechet_pings_at_most(trip pg_catalog.point[], route pg_catalog.point[], epsilon pg_catalog.float8, max_gap pg_catalog.float8 DEFAULT NULL)
 RETURNS pg_catalog.bool
 AS 'MODULE_PATHNAME', 'frechet_pings_at_most_point_array'
-LANGUAGE C IMMUTABLE CALLED ON NULL INPUT PARALLEL SAFE COST 500;
+LANGUAGE C IMMUTABLE CALLED ON NULL INPUT PARALLEL SAFE COST 500
+SUPPORT @extschema@.frechet_pings_support;
 
 COMMENT ON FUNCTION @extschema@.frechet_pings_at_most(pg_catalog.point[], pg_catalog.point[], pg_catalog.float8, pg_catalog.float8) IS
 'true when every ping of the trip lies within epsilon of the route at non-decreasing route positions, the first at the route''s start and the last at its end; max_gap (NULL: no limit) caps the route length between consecutive positions';
@@ -18,3 +27,27 @@ LANGUAGE C IMMUTABLE CALLED ON NULL INPUT PARALLEL SAFE COST 2000;
 
 COMMENT ON FUNCTION @extschema@.frechet_pings_distance(pg_catalog.point[], pg_catalog.point[], pg_catalog.float8) IS
 'smallest epsilon for which frechet_pings_at_most is true (Infinity when max_gap allows no matching); never above frechet_distance';
+
+-- The index condition of frechet_pings_at_most: the trip's first and last
+-- vertices within reach of the route's, its box inside the route's box
+-- widened by the reach (one-sided: the route may go anywhere between two
+-- pings).  Strategy 30, far from the R-tree numbers PostGIS asks for.
+CREATE FUNCTION @extschema@.frechet_pings_within_reach(track pg_catalog.point[], reach @extschema@.frechet_key)
+RETURNS pg_catalog.bool
+AS 'MODULE_PATHNAME', 'frechet_pings_within_reach_point_array'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 10;
+
+COMMENT ON FUNCTION @extschema@.frechet_pings_within_reach(pg_catalog.point[], @extschema@.frechet_key) IS
+'true when the track''s first and last vertices and bounding box allow every vertex to lie within the reach''s epsilon of the route, in order (necessary for frechet_pings_at_most)';
+
+CREATE OPERATOR @extschema@.&~> (
+	LEFTARG = pg_catalog.point[],
+	RIGHTARG = @extschema@.frechet_key,
+	FUNCTION = @extschema@.frechet_pings_within_reach
+);
+
+COMMENT ON OPERATOR @extschema@.&~> (pg_catalog.point[], @extschema@.frechet_key) IS
+'track &~> frechet_reach(route, epsilon): the index condition of frechet_pings_at_most';
+
+ALTER OPERATOR FAMILY @extschema@.frechet_track_ops USING gist ADD
+	OPERATOR 30 @extschema@.&~> (pg_catalog.point[], @extschema@.frechet_key);

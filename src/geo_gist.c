@@ -265,8 +265,8 @@ frechet_gist_distance_geography(PG_FUNCTION_ARGS)
 }
 
 /* The summary of curve argument argno (1-based) of a call, raising the functions' errors. */
-static void
-argument_key(FunctionCallInfo fcinfo, int argno, bool geodetic, fr_key *key)
+void
+geo_argument_key(FunctionCallInfo fcinfo, int argno, bool geodetic, fr_key *key)
 {
 	fr_curve	c;
 
@@ -282,7 +282,7 @@ frechet_track_key_geometry(PG_FUNCTION_ARGS)
 {
 	fr_key	   *key = palloc(sizeof(fr_key));
 
-	argument_key(fcinfo, 1, false, key);
+	geo_argument_key(fcinfo, 1, false, key);
 	PG_RETURN_POINTER(key);
 }
 
@@ -293,7 +293,7 @@ frechet_track_key_geography(PG_FUNCTION_ARGS)
 {
 	fr_key	   *key = palloc(sizeof(fr_key));
 
-	argument_key(fcinfo, 1, true, key);
+	geo_argument_key(fcinfo, 1, true, key);
 	PG_RETURN_POINTER(key);
 }
 
@@ -304,7 +304,7 @@ geo_reach(FunctionCallInfo fcinfo, bool geodetic)
 	double		eps = PG_GETARG_FLOAT8(1);
 	fr_key	   *key = palloc(sizeof(fr_key));
 
-	argument_key(fcinfo, 1, geodetic, key);
+	geo_argument_key(fcinfo, 1, geodetic, key);
 	glue_check_epsilon(eps, 2);
 	key->reach = geodetic ? fr_metres_to_chord(eps) : eps;
 	PG_RETURN_POINTER(key);
@@ -332,7 +332,7 @@ geo_within_reach(FunctionCallInfo fcinfo, int argno, bool geodetic, const fr_key
 {
 	fr_key		key;
 
-	argument_key(fcinfo, argno, geodetic, &key);
+	geo_argument_key(fcinfo, argno, geodetic, &key);
 	return fr_key_bound(&key, reach) <= reach->reach;
 }
 

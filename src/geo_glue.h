@@ -9,6 +9,7 @@
 #include "postgres.h"
 #include "fmgr.h"
 
+#include "bounds.h"
 #include "frechet.h"
 #include "ewkb.h"
 
@@ -42,5 +43,8 @@ Datum		geo_leashes_datum(FunctionCallInfo fcinfo, const geo_curves *gc,
 							  const fr_match_pt *pts, size_t count);
 double		geo_result_distance(const geo_curves *gc, double d);
 double		geo_engine_epsilon(const geo_curves *gc, double eps);
+
+/* The index summary of curve argument argno (1-based); see geo_gist.c. */
+void		geo_argument_key(FunctionCallInfo fcinfo, int argno, bool geodetic, fr_key *key);
 
 #endif							/* FRECHET_GEO_GLUE_H */

@@ -61,9 +61,15 @@ frechet_gist_consistent(PG_FUNCTION_ARGS)
 	/* PostGIS's box operators, in the classes on geometry and geography */
 	if (FRECHET_IS_BOX_STRATEGY(strategy))
 		return geo_gist_box_consistent(fcinfo);
+	query = PG_GETARG_FRECHET_KEY(1);
+	if (strategy == FRECHET_STRATEGY_PINGS)
+	{
+		/* exact on a leaf, as for &~; frechet_pings_at_most stays the filter */
+		*recheck = false;
+		PG_RETURN_BOOL(fr_key_ping_bound(key, query) <= query->reach);
+	}
 	if (strategy != FRECHET_STRATEGY_REACH)
 		elog(ERROR, "frechet_track_ops: unknown strategy number %d", strategy);
-	query = PG_GETARG_FRECHET_KEY(1);
 
 	/*
 	 * On a leaf this is the very test of the &~ operator, so no recheck of

@@ -12,6 +12,7 @@
 #include "geo_glue.h"
 #include "geodesy.h"
 #include "glue.h"
+#include "index.h"
 
 /* Which input type a call decodes. */
 typedef enum ping_input
@@ -158,4 +159,50 @@ Datum
 frechet_pings_distance_geography(PG_FUNCTION_ARGS)
 {
 	return pings_distance(fcinfo, PING_GEOGRAPHY);
+}
+
+/*
+ * track &~> reach: the index condition of frechet_pings_at_most, the test
+ * of fr_key_ping_bound on the track's summary (necessary, not sufficient).
+ */
+static Datum
+pings_within_reach(FunctionCallInfo fcinfo, ping_input input)
+{
+	fr_key		key;
+	const fr_key *reach = PG_GETARG_FRECHET_KEY(1);
+
+	if (input == PING_POINTS)
+	{
+		fr_curve	c;
+
+		point_array_curve(PG_GETARG_ARRAYTYPE_P(0), 1, &c);
+		fr_key_of_curve(&c, &key);
+	}
+	else
+		geo_argument_key(fcinfo, 1, input == PING_GEOGRAPHY, &key);
+	PG_RETURN_BOOL(fr_key_ping_bound(&key, reach) <= reach->reach);
+}
+
+PG_FUNCTION_INFO_V1(frechet_pings_within_reach_point_array);
+/* point[] &~> frechet_key */
+Datum
+frechet_pings_within_reach_point_array(PG_FUNCTION_ARGS)
+{
+	return pings_within_reach(fcinfo, PING_POINTS);
+}
+
+PG_FUNCTION_INFO_V1(frechet_pings_within_reach_geometry);
+/* geometry &~> frechet_key */
+Datum
+frechet_pings_within_reach_geometry(PG_FUNCTION_ARGS)
+{
+	return pings_within_reach(fcinfo, PING_GEOMETRY);
+}
+
+PG_FUNCTION_INFO_V1(frechet_pings_within_reach_geography);
+/* geography &~> frechet_key */
+Datum
+frechet_pings_within_reach_geography(PG_FUNCTION_ARGS)
+{
+	return pings_within_reach(fcinfo, PING_GEOGRAPHY);
 }

@@ -88,3 +88,68 @@ frechet_at_most_support(PG_FUNCTION_ARGS)
 	}
 	PG_RETURN_POINTER(NULL);
 }
+
+/*
+ * "trip &~> frechet_reach(route, epsilon)" for frechet_pings_at_most(trip,
+ * route, epsilon[, max_gap]) when trip has an index of ours, on any input
+ * type: frechet_reach for the route's type is looked up in the schema of
+ * the function being planned (never by search_path), and the operator in
+ * the index's operator family under FRECHET_STRATEGY_PINGS.  The route
+ * may reach anywhere between two pings, so only the trip can be the
+ * indexed argument.
+ */
+static List *
+pings_index_condition(SupportRequestIndexCondition *req)
+{
+	FuncExpr   *call = (FuncExpr *) req->node;
+	Node	   *trip,
+			   *route,
+			   *eps;
+	Oid			argtypes[2],
+				reachfn,
+				keytype,
+				opno;
+	Expr	   *reach;
+
+	if (!is_funcclause(req->node) || list_length(call->args) < 3 || req->indexarg != 0)
+		return NIL;
+	trip = (Node *) linitial(call->args);
+	route = (Node *) lsecond(call->args);
+	eps = (Node *) lthird(call->args);
+	if (!is_pseudo_constant_for_index(req->root, route, req->index) ||
+		!is_pseudo_constant_for_index(req->root, eps, req->index))
+		return NIL;
+	argtypes[0] = exprType(route);
+	argtypes[1] = FLOAT8OID;
+	reachfn = LookupFuncName(list_make2(makeString(get_namespace_name(get_func_namespace(req->funcid))),
+										makeString("frechet_reach")),
+							 2, argtypes, true);
+	if (!OidIsValid(reachfn))
+		return NIL;
+	keytype = get_func_rettype(reachfn);
+	opno = get_opfamily_member(req->opfamily, exprType(trip), keytype, FRECHET_STRATEGY_PINGS);
+	if (!OidIsValid(opno))
+		return NIL;				/* an index of another operator class */
+	reach = (Expr *) makeFuncExpr(reachfn, keytype, list_make2(route, eps),
+								  InvalidOid, InvalidOid, COERCE_EXPLICIT_CALL);
+	req->lossy = true;
+	return list_make1(make_opclause(opno, BOOLOID, false, (Expr *) trip, reach,
+									InvalidOid, InvalidOid));
+}
+
+PG_FUNCTION_INFO_V1(frechet_pings_support);
+/* Planner support for frechet_pings_at_most on every input type: a lossy index condition. */
+Datum
+frechet_pings_support(PG_FUNCTION_ARGS)
+{
+	Node	   *rawreq = (Node *) PG_GETARG_POINTER(0);
+
+	if (IsA(rawreq, SupportRequestIndexCondition))
+	{
+		List	   *conds = pings_index_condition((SupportRequestIndexCondition *) rawreq);
+
+		if (conds != NIL)
+			PG_RETURN_POINTER(conds);
+	}
+	PG_RETURN_POINTER(NULL);
+}

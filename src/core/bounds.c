@@ -189,6 +189,27 @@ fr_key_bound(const fr_key *a, const fr_key *b)
 	return fr_bound_loosen(lb, max2(key_magnitude(a), key_magnitude(b)));
 }
 
+/*
+ * Lower bound on the ping distance (pings.c) of the tracks a summary
+ * covers (trip) to a route summary: the first ping at the route's start,
+ * the last at its end, and every ping within the distance of the route,
+ * so the trip's box inside the route's box widened by it.  One-sided,
+ * unlike fr_key_bound: the route between two pings may reach anywhere.
+ */
+double
+fr_key_ping_bound(const fr_key *trip, const fr_key *route)
+{
+	double		lb = max2(box_gap(trip, route, FR_KEY_START_X, FR_KEY_START_Y),
+						  box_gap(trip, route, FR_KEY_END_X, FR_KEY_END_Y));
+
+	/* the smallest min side the trips may have, against the route's; likewise max sides */
+	lb = max2(lb, route->lo[FR_KEY_MIN_X] - trip->hi[FR_KEY_MIN_X]);
+	lb = max2(lb, route->lo[FR_KEY_MIN_Y] - trip->hi[FR_KEY_MIN_Y]);
+	lb = max2(lb, trip->lo[FR_KEY_MAX_X] - route->hi[FR_KEY_MAX_X]);
+	lb = max2(lb, trip->lo[FR_KEY_MAX_Y] - route->hi[FR_KEY_MAX_Y]);
+	return fr_bound_loosen(lb, max2(key_magnitude(trip), key_magnitude(route)));
+}
+
 /* Distance from (x, y) to the overall bounding box of a key. */
 static inline double
 point_box_gap(const fr_key *k, double x, double y)

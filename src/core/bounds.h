@@ -92,6 +92,13 @@ double		fr_bound_loosen(double bound, double magnitude);
 double		fr_key_bound(const fr_key *a, const fr_key *b);
 
 /*
+ * Lower bound on the ping distance of the tracks summarised by trip to the
+ * route summarised by route (one-sided box test, first and last vertices);
+ * loosened like every bound here.
+ */
+double		fr_key_ping_bound(const fr_key *trip, const fr_key *route);
+
+/*
  * fr_key_bound(node, qkey), raised by the largest distance from a vertex of
  * the query to the node's overall bounding box: every vertex of the query
  * lies within the distance of each curve, and each curve lies inside that
