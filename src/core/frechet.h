@@ -238,6 +238,20 @@ fr_status	fr_pings_distance(const fr_env *env, const fr_curve *pings, const fr_c
 /* Scratch bytes of a ping decision or distance. */
 size_t		fr_pings_scratch_bytes(size_t n, size_t m);
 
+/*
+ * Where sparse pings left the route at eps (pings.c): runs of off-route
+ * pings of a plan with the fewest; trip_from/trip_to are ping numbers
+ * (0-based), route_from/route_to the places of the on-route pings around
+ * the run, max_leash the farthest ping of the run from that part of the
+ * route, trip_length the run's length along the pings.  None exactly when
+ * fr_pings_decide is true (without max_gap).
+ */
+fr_status	fr_pings_excursions(const fr_env *env, const fr_curve *pings, const fr_curve *route,
+								double eps, fr_excursion **out, size_t *count);
+
+/* Scratch bytes of fr_pings_excursions. */
+size_t		fr_pings_excursions_scratch_bytes(size_t n, size_t m);
+
 /* The point at position pos (k + t, 0-based) of a curve, into out[dim]. */
 void		fr_curve_point(const fr_curve *c, double pos, double *out);
 

@@ -432,3 +432,273 @@ fr_pings_distance(const fr_env *env, const fr_curve *pings, const fr_curve *rout
 	case_end(&c, &pp, &pr);
 	return st;
 }
+
+/* Entries a frontier of the ping excursions keeps (see fr_pings_excursions). */
+#define PING_FRONTIER 16
+
+/* One state of the excursion search: off-route pings so far, place, how it came. */
+typedef struct ping_state
+{
+	size_t		off;			/* off-route pings so far */
+	route_at	at;				/* place of the last ping */
+	size_t		parent;			/* index in the log of the state before; SIZE_MAX at the start */
+	bool		on;				/* this ping on-route */
+} ping_state;
+
+/* Scratch bytes of fr_pings_excursions on n pings and an m-vertex route. */
+size_t
+fr_pings_excursions_scratch_bytes(size_t n, size_t m)
+{
+	return fr_scratch_bytes(n, m) + (n + 2) * PING_FRONTIER * sizeof(ping_state) +
+		(n + 1) * (sizeof(bool) + sizeof(fr_excursion)) + 64;
+}
+
+/* Adds a state to the next frontier (kept sorted by off count, then place; Pareto). */
+static void
+frontier_add(ping_state *front, size_t *count, ping_state st)
+{
+	size_t		i = 0;
+
+	/* dominated: as many off-route pings or fewer, and as early or earlier */
+	for (; i < *count; i++)
+		if (front[i].off <= st.off &&
+			(front[i].at.k < st.at.k || (front[i].at.k == st.at.k && front[i].at.t <= st.at.t)))
+			return;
+	/* drop the states it dominates, keep order by off count */
+	for (i = 0; i < *count;)
+	{
+		if (front[i].off >= st.off &&
+			(st.at.k < front[i].at.k || (st.at.k == front[i].at.k && st.at.t <= front[i].at.t)))
+		{
+			memmove(&front[i], &front[i + 1], (*count - i - 1) * sizeof(ping_state));
+			(*count)--;
+		}
+		else
+			i++;
+	}
+	for (i = *count; i > 0 && front[i - 1].off > st.off; i--)
+		front[i] = front[i - 1];
+	front[i] = st;
+	(*count)++;
+	if (*count > PING_FRONTIER)
+		*count = PING_FRONTIER;	/* the most off-route pings go first */
+}
+
+/* Distance from ping v to the route between places a and b (a <= b). */
+static double
+ping_to_route_part(const fr_prep *r, const fr_pt *v, route_at a, route_at b)
+{
+	double		best = INFINITY;
+
+	for (size_t k = a.k; k <= b.k && k + 1 < r->n; k++)
+	{
+		double		t = fr_nearest_param(v, r, k, k == a.k ? a.t : 0.0, k == b.k ? b.t : 1.0);
+		fr_pt		pt = fr_prep_point(r, k, t);
+
+		best = fmin(best, fr_pt_dist(v, &pt));
+	}
+	return best;
+}
+
+/*
+ * Where the pings left the route at eps (no max_gap): a plan gives every
+ * ping a route place, non-decreasing, the first at the route's start and
+ * the last at its end, and labels each ping on-route (within eps of its
+ * place) or off-route; the excursions are the runs of off-route pings of a
+ * plan with the fewest off-route pings (then the earliest places).  The
+ * search keeps, after each ping, the best place for each count of
+ * off-route pings (a Pareto frontier: fewer off-route pings, or an earlier
+ * place), at most PING_FRONTIER of them, those with the fewest; beyond
+ * that, a trip that wanders back and forth along its route may get more
+ * off-route pings than the least possible, though every plan reported is
+ * valid.  Positions are 0-based (k + t).  max_leash is the farthest ping
+ * of a run from the route between the places around it (the first and
+ * last pings: from the route's start and end, their only places).  For
+ * one ping: one excursion when it is farther than eps from some route
+ * vertex.
+ */
+fr_status
+fr_pings_excursions(const fr_env *env, const fr_curve *pings, const fr_curve *route,
+					double eps, fr_excursion **out, size_t *count)
+{
+	fr_prep		pp,
+				pr;
+	ping_case	c;
+	ping_state *log = NULL,
+			   *front,
+			   *next;
+	size_t		nfront = 0,
+				nnext,
+				nlog = 0,
+				best;
+	bool	   *off = NULL;
+	fr_poll		poll;
+	fr_status	st;
+	route_at	start = {0, 0},
+				end;
+
+	*out = NULL;
+	*count = 0;
+	st = case_begin(env, pings, route, -1, &pp, &pr, &c);
+	if (st != FR_OK)
+		return st;
+	eps = fr_to_local(&pp, eps);
+	if (pp.n == 1 || pr.n == 1)
+	{
+		if (degenerate_distance(&pp, &pr) > eps)
+		{
+			*out = fr_alloc(env, sizeof(fr_excursion));
+			if (*out == NULL)
+				st = FR_ENOMEM;
+			else
+			{
+				(*out)[0].trip_from = (*out)[0].trip_to = 0;
+				(*out)[0].route_from = 0;
+				(*out)[0].route_to = (double) (pr.n - 1);
+				(*out)[0].max_leash = fr_from_local(&pp, degenerate_distance(&pp, &pr));
+				(*out)[0].trip_length = 0;
+				*count = 1;
+			}
+		}
+		case_end(&c, &pp, &pr);
+		return st;
+	}
+	end.k = pr.n - 2;
+	end.t = 1.0;
+	log = fr_alloc(env, (pp.n + 2) * PING_FRONTIER * sizeof(ping_state));
+	off = fr_alloc(env, pp.n * sizeof(bool));
+	if (log == NULL || off == NULL)
+	{
+		st = FR_ENOMEM;
+		goto done;
+	}
+	fr_poll_init(&poll, env);
+	/* the first ping at the route's start */
+	front = log;
+	front[0].off = fr_pt_dist(&pp.v[0], &pr.v[0]) <= eps ? 0 : 1;
+	front[0].on = front[0].off == 0;
+	front[0].at = start;
+	front[0].parent = SIZE_MAX;
+	nfront = 1;
+	nlog = 1;
+	for (size_t i = 1; i < pp.n; i++)
+	{
+		bool		last = i + 1 == pp.n;
+
+		next = log + nlog;
+		nnext = 0;
+		for (size_t e = 0; e < nfront; e++)
+		{
+			ping_state	st_on = front[e],
+						st_off = front[e];
+			bool		stop = false;
+
+			st_on.parent = st_off.parent = (size_t) (front + e - log);
+			if (last ? fr_pt_dist(&pp.v[i], &pr.v[pr.n - 1]) <= eps
+				: earliest_from(&c, &pp.v[i], eps, &st_on.at, &poll, &stop))
+			{
+				if (last)
+					st_on.at = end;
+				st_on.on = true;
+				frontier_add(next, &nnext, st_on);
+			}
+			if (stop)
+			{
+				st = FR_EINTR;
+				goto done;
+			}
+			st_off.off++;
+			st_off.on = false;
+			if (last)
+				st_off.at = end;
+			frontier_add(next, &nnext, st_off);
+		}
+		if (fr_poll_add(&poll, nfront))
+		{
+			st = FR_EINTR;
+			goto done;
+		}
+		front = next;
+		nfront = nnext;
+		nlog += nnext;
+	}
+
+	/* the plan with the fewest off-route pings, labels read back */
+	best = 0;
+	for (size_t e = 1; e < nfront; e++)
+		if (front[e].off < front[best].off)
+			best = e;
+	{
+		size_t		at = (size_t) (front + best - log),
+					i = pp.n;
+		size_t		runs = 0;
+		route_at   *place;
+
+		while (at != SIZE_MAX)
+		{
+			off[--i] = !log[at].on;
+			at = log[at].parent;
+		}
+		for (size_t k = 0; k < pp.n; k++)
+			runs += off[k] && (k == 0 || !off[k - 1]);
+		if (runs == 0)
+			goto done;
+		*out = fr_alloc(env, runs * sizeof(fr_excursion) + pp.n * sizeof(route_at));
+		if (*out == NULL)
+		{
+			st = FR_ENOMEM;
+			goto done;
+		}
+		place = (route_at *) (*out + runs);
+		at = (size_t) (front + best - log);
+		for (i = pp.n; at != SIZE_MAX; at = log[at].parent)
+			place[--i] = log[at].at;
+		for (size_t k = 0; k < pp.n; k++)
+		{
+			size_t		b = k;
+			fr_excursion *x;
+			route_at	from,
+						to;
+
+			if (!off[k] || (k > 0 && off[k - 1]))
+				continue;
+			while (b + 1 < pp.n && off[b + 1])
+				b++;
+			/* from the on-route ping before the run to the one after it */
+			from = k == 0 ? start : place[k - 1];
+			to = b + 1 == pp.n ? end : place[b + 1];
+			x = &(*out)[(*count)++];
+			x->trip_from = (double) k;
+			x->trip_to = (double) b;
+			x->route_from = (double) from.k + from.t;
+			x->route_to = (double) to.k + to.t;
+			x->max_leash = 0;
+			x->trip_length = 0;
+			for (size_t u = k; u <= b; u++)
+			{
+				/* the first and last pings have one place each: the route's ends */
+				double		leash = u == 0 ? fr_pt_dist(&pp.v[0], &pr.v[0]) :
+					u + 1 == pp.n ? fr_pt_dist(&pp.v[u], &pr.v[pr.n - 1]) :
+					ping_to_route_part(&pr, &pp.v[u], from, to);
+
+				x->max_leash = fmax(x->max_leash, leash);
+				if (u > k)
+					x->trip_length += fr_pt_dist(&pp.v[u - 1], &pp.v[u]);
+			}
+			x->max_leash = fr_from_local(&pp, x->max_leash);
+			x->trip_length = fr_from_local(&pp, x->trip_length);
+		}
+	}
+
+done:
+	fr_free(env, log);
+	fr_free(env, off);
+	if (st != FR_OK)
+	{
+		fr_free(env, *out);
+		*out = NULL;
+		*count = 0;
+	}
+	case_end(&c, &pp, &pr);
+	return st;
+}

@@ -284,6 +284,122 @@ sparse_pings_on_street_corners(void **state)
 	}
 }
 
+/* Engine ping excursions on raw 2-D curves; returns the count, *off_pings the pings in runs. */
+static size_t
+pings_excursions(const double *p, size_t n, const double *r, size_t m, double eps, size_t *off_pings)
+{
+	test_heap	h;
+	fr_env		e = test_env(&h);
+	fr_curve	pc = {p, n, 2},
+				rc = {r, m, 2};
+	fr_excursion *x = NULL;
+	size_t		count = 0;
+
+	assert_int_equal(fr_pings_excursions(&e, &pc, &rc, eps, &x, &count), FR_OK);
+	*off_pings = 0;
+	for (size_t k = 0; k < count; k++)
+	{
+		assert_true(x[k].trip_from <= x[k].trip_to);
+		assert_true(x[k].route_from <= x[k].route_to);
+		assert_true(x[k].max_leash > eps || n == 1);
+		*off_pings += (size_t) (x[k].trip_to - x[k].trip_from) + 1;
+	}
+	if (x)
+		test_release(x, &h);
+	assert_int_equal(h.live, 0);
+	return count;
+}
+
+/*
+ * The fewest off-route pings, by brute force over every subset: a subset
+ * can stay on the route when the decision accepts its pings in order,
+ * framed by the route's own start (if the first ping is off-route, its
+ * place is still the start) and end.
+ */
+static size_t
+fewest_off_brute(const double *p, size_t n, const double *r, size_t m, double eps)
+{
+	size_t		best = n;
+	double	   *sub = malloc(2 * (n + 2) * sizeof(double));
+
+	for (unsigned mask = 0; mask < (1u << n); mask++)
+	{
+		size_t		k = 0,
+					offs = (size_t) __builtin_popcount(mask);
+
+		if (offs >= best)
+			continue;
+		if (mask & 1u)
+		{
+			sub[2 * k] = r[0];
+			sub[2 * k + 1] = r[1];
+			k++;
+		}
+		for (size_t i = 0; i < n; i++)
+			if (!(mask & (1u << i)))
+			{
+				sub[2 * k] = p[2 * i];
+				sub[2 * k + 1] = p[2 * i + 1];
+				k++;
+			}
+		if (mask & (1u << (n - 1)))
+		{
+			sub[2 * k] = r[2 * (m - 1)];
+			sub[2 * k + 1] = r[2 * (m - 1) + 1];
+			k++;
+		}
+		if (k >= 2 && pings_decide(sub, k, r, m, eps, -1))
+			best = offs;
+	}
+	free(sub);
+	return best;
+}
+
+/*
+ * Excursions: none exactly when the decision accepts; the off-route pings
+ * they hold are the fewest possible (brute force over subsets on small
+ * cases); a detour ping is the one excursion of a street trip.
+ */
+static void
+excursions_are_the_fewest_off_route_pings(void **state)
+{
+	for (int trial = 0; trial < 300; trial++)
+	{
+		size_t		n = 2 + test_rand64() % 8,
+					m = 2 + test_rand64() % 5,
+					off_pings;
+		double	   *r = test_walk(m, 0, 0, 10),
+				   *p = malloc(2 * n * sizeof(double)),
+					eps = test_uniform(1, 5);
+
+		for (size_t i = 0; i < n; i++)
+		{
+			size_t		k = i == 0 ? 0 : i == n - 1 ? m - 1 : test_rand64() % m;
+
+			p[2 * i] = r[2 * k] + test_uniform(-6, 6);
+			p[2 * i + 1] = r[2 * k + 1] + test_uniform(-6, 6);
+		}
+		{
+			size_t		runs = pings_excursions(p, n, r, m, eps, &off_pings);
+
+			assert_true((runs == 0) == pings_decide(p, n, r, m, eps, -1));
+			assert_int_equal(off_pings, fewest_off_brute(p, n, r, m, eps));
+		}
+		free(r);
+		free(p);
+	}
+	{
+		const double arc[] = {0, 250, 550, 850, 1000, 1300, 1400};
+		double	   *p = pings_at(blocks, 5, arc, 7, 5);
+		size_t		off_pings;
+
+		p[2 * 3 + 1] += 200;
+		assert_int_equal(pings_excursions(p, 7, blocks, 5, 50, &off_pings), 1);
+		assert_int_equal(off_pings, 1);
+		free(p);
+	}
+}
+
 /* Small cases worked by hand. */
 static void
 worked_examples(void **state)
@@ -319,6 +435,7 @@ main(void)
 		cmocka_unit_test(matches_the_grid_reference),
 		cmocka_unit_test(never_above_the_continuous_distance),
 		cmocka_unit_test(sparse_pings_on_street_corners),
+		cmocka_unit_test(excursions_are_the_fewest_off_route_pings),
 	};
 
 	return cmocka_run_group_tests_name("pings", tests, NULL, NULL);
