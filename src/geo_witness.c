@@ -40,7 +40,7 @@ matching_rows(FunctionCallInfo fcinfo, bool geodetic)
 	size_t		count;
 	double		eps;
 
-	InitMaterializedSRF(fcinfo, 0);
+	glue_srf_materialize(fcinfo);
 	if (PG_ARGISNULL(0) || PG_ARGISNULL(1))
 		return (Datum) 0;
 	geo_decode_args(fcinfo, geodetic, &gc);
@@ -93,7 +93,7 @@ bottleneck_row(FunctionCallInfo fcinfo, bool geodetic)
 	Datum		values[5];
 	bool		nulls[5] = {false};
 
-	InitMaterializedSRF(fcinfo, 0);
+	glue_srf_materialize(fcinfo);
 	geo_decode_args(fcinfo, geodetic, &gc);
 	pts = glue_matching(&gc.p, &gc.q, -1, &count, "frechet_bottleneck");
 	if (count == 0)
@@ -133,7 +133,7 @@ partial_match_row(FunctionCallInfo fcinfo, bool geodetic)
 				d;
 	bool		found;
 
-	InitMaterializedSRF(fcinfo, 0);
+	glue_srf_materialize(fcinfo);
 	geo_decode_args(fcinfo, geodetic, &gc);
 	glue_check_epsilon(eps, 3);
 	glue_partial_match(&gc.p, &gc.q, geo_engine_epsilon(&gc, eps), &found, &from, &to, &d);
@@ -161,7 +161,7 @@ excursion_rows(FunctionCallInfo fcinfo, bool geodetic)
 	fr_excursion *copy;
 	size_t		count;
 
-	InitMaterializedSRF(fcinfo, 0);
+	glue_srf_materialize(fcinfo);
 	geo_decode_args(fcinfo, geodetic, &gc);
 	glue_check_epsilon(eps, 3);
 	copy = glue_excursions(&gc.p, &gc.q, geo_engine_epsilon(&gc, eps), &count);

@@ -43,6 +43,9 @@ void		glue_partial_match(const fr_curve *trip, const fr_curve *route, double eps
 fr_excursion *glue_excursions(const fr_curve *p, const fr_curve *q, double eps,
 							  size_t *count);
 
+/* A set-returning call's tuple store and descriptor, nothing else left per call. */
+void		glue_srf_materialize(FunctionCallInfo fcinfo);
+
 /* Validates a tolerance argument: not NaN, not negative. */
 void		glue_check_epsilon(double eps, int argno);
 
