@@ -15,3 +15,12 @@ RETURN (
 		END
 	FROM pg_catalog.unnest(@extschema@.frechet_track_piece(track, 1, pg_catalog.cardinality(track)))
 		WITH ORDINALITY AS u(p, i));
+
+-- frechet_key records its kind of coordinates (planar or Earth-centred);
+-- the operator class's consistent function now refuses a query key of
+-- the other kind (22023) instead of comparing it silently.  Stored keys
+-- are unchanged: no REINDEX is needed.
+CREATE OR REPLACE FUNCTION @extschema@.frechet_gist_consistent(internal, pg_catalog.point[], pg_catalog.int2, pg_catalog.oid, internal)
+RETURNS pg_catalog.bool
+AS 'MODULE_PATHNAME', 'frechet_gist_consistent_planar'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;

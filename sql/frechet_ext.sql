@@ -182,7 +182,7 @@ COMMENT ON OPERATOR @extschema@.&~ (@extschema@.frechet_key, pg_catalog.point[])
 
 CREATE FUNCTION @extschema@.frechet_gist_consistent(internal, pg_catalog.point[], pg_catalog.int2, pg_catalog.oid, internal)
 RETURNS pg_catalog.bool
-AS 'MODULE_PATHNAME', 'frechet_gist_consistent'
+AS 'MODULE_PATHNAME', 'frechet_gist_consistent_planar'
 LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
 
 CREATE FUNCTION @extschema@.frechet_gist_union(internal, internal)

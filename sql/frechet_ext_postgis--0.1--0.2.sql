@@ -107,3 +107,28 @@ BEGIN ATOMIC
 END;
 $sql$, gis);
 END $do$;
+
+-- frechet_key records its kind of coordinates (planar or Earth-centred);
+-- the operator classes' consistent functions now refuse a query key of
+-- the other kind (22023) instead of comparing it silently.  Stored keys
+-- are unchanged: no REINDEX is needed.  (PostGIS's types named with its
+-- schema, as above.)
+DO $do$
+DECLARE
+	gis pg_catalog.text := (SELECT n.nspname FROM pg_catalog.pg_extension e
+		JOIN pg_catalog.pg_namespace n ON n.oid OPERATOR(pg_catalog.=) e.extnamespace
+		WHERE e.extname OPERATOR(pg_catalog.=) 'postgis');
+BEGIN
+	EXECUTE pg_catalog.format($sql$
+CREATE OR REPLACE FUNCTION @extschema@.frechet_geometry_gist_consistent(internal, %1$I.geometry, pg_catalog.int2, pg_catalog.oid, internal)
+RETURNS pg_catalog.bool
+AS 'MODULE_PATHNAME', 'frechet_gist_consistent_planar'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+$sql$, gis);
+	EXECUTE pg_catalog.format($sql$
+CREATE OR REPLACE FUNCTION @extschema@.frechet_geography_gist_consistent(internal, %1$I.geography, pg_catalog.int2, pg_catalog.oid, internal)
+RETURNS pg_catalog.bool
+AS 'MODULE_PATHNAME', 'frechet_gist_consistent_earth'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+$sql$, gis);
+END $do$;

@@ -394,12 +394,12 @@ COMMENT ON OPERATOR @extschema@.&~ (frechet_key, geography) IS
 -- functions of frechet_track_ops; compress and distance decode PostGIS values.
 CREATE FUNCTION @extschema@.frechet_geometry_gist_consistent(internal, geometry, pg_catalog.int2, pg_catalog.oid, internal)
 RETURNS pg_catalog.bool
-AS 'MODULE_PATHNAME', 'frechet_gist_consistent'
+AS 'MODULE_PATHNAME', 'frechet_gist_consistent_planar'
 LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
 
 CREATE FUNCTION @extschema@.frechet_geography_gist_consistent(internal, geography, pg_catalog.int2, pg_catalog.oid, internal)
 RETURNS pg_catalog.bool
-AS 'MODULE_PATHNAME', 'frechet_gist_consistent'
+AS 'MODULE_PATHNAME', 'frechet_gist_consistent_earth'
 LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
 
 CREATE FUNCTION @extschema@.frechet_geo_gist_union(internal, internal)
