@@ -488,6 +488,17 @@ FOR TYPE geography USING gist AS
 	FUNCTION 7 @extschema@.frechet_geo_gist_same(frechet_key, frechet_key, internal),
 	FUNCTION 8 @extschema@.frechet_geography_gist_distance(internal, geography, pg_catalog.int2, pg_catalog.oid, internal),
 	STORAGE frechet_key;
+-- GeoJSON needs WGS84: a geometry whose SRID is not in spatial_ref_sys
+-- cannot be transformed; frechet_geometry_geojson raises 22023 through this
+-- rather than let ST_Transform fail with an internal error.
+CREATE FUNCTION @extschema@.frechet_geojson_check_srid(srid pg_catalog.int4, known pg_catalog.bool)
+RETURNS pg_catalog.bool
+AS 'MODULE_PATHNAME', 'frechet_geojson_check_srid'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+
+COMMENT ON FUNCTION @extschema@.frechet_geojson_check_srid(pg_catalog.int4, pg_catalog.bool) IS
+'internal: true when known, else an error saying that GeoJSON cannot be written for a geometry of this SRID (not in spatial_ref_sys)';
+
 -- Maps and dashboards: a pair's matching as GeoJSON (RFC 7946).  The bodies
 -- are standard SQL bodies, parsed while this script runs and bound by OID
 -- then, so the functions work under any search_path, including a
@@ -511,7 +522,10 @@ BEGIN
 CREATE FUNCTION @extschema@.frechet_geometry_geojson(g %1$I.geometry)
 RETURNS pg_catalog.jsonb
 LANGUAGE sql IMMUTABLE STRICT PARALLEL SAFE COST 100
-RETURN %1$I.st_asgeojson(CASE WHEN %1$I.st_srid(g) OPERATOR(pg_catalog.=) ANY ('{0,4326}'::pg_catalog.int4[]) THEN g ELSE %1$I.st_transform(g, 4326) END, 9, 0)::pg_catalog.jsonb;
+RETURN %1$I.st_asgeojson(CASE WHEN %1$I.st_srid(g) OPERATOR(pg_catalog.=) ANY ('{0,4326}'::pg_catalog.int4[]) THEN g
+	WHEN @extschema@.frechet_geojson_check_srid(%1$I.st_srid(g),
+		EXISTS (SELECT FROM %1$I.spatial_ref_sys s WHERE s.srid OPERATOR(pg_catalog.=) %1$I.st_srid(g)))
+	THEN %1$I.st_transform(g, 4326) END, 9, 0)::pg_catalog.jsonb;
 $sql$, gis);
 	EXECUTE pg_catalog.format($sql$
 CREATE FUNCTION @extschema@.frechet_geojson(a %1$I.geometry, b %1$I.geometry, epsilon pg_catalog.float8 DEFAULT NULL)

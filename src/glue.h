@@ -6,6 +6,7 @@
 #define FRECHET_GLUE_H
 
 #include "postgres.h"
+#include "nodes/nodes.h"
 #include "utils/array.h"
 
 #include "frechet.h"
@@ -48,5 +49,8 @@ void		glue_srf_materialize(FunctionCallInfo fcinfo);
 
 /* Validates a tolerance argument: not NaN, not negative. */
 void		glue_check_epsilon(double eps, int argno);
+
+/* Planner support of frechet_at_most: a constant epsilon validated while planning; see support.c. */
+void		glue_check_constant_epsilon(Node *rawreq);
 
 #endif							/* FRECHET_GLUE_H */
