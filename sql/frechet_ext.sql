@@ -182,7 +182,7 @@ COMMENT ON OPERATOR @extschema@.&~ (@extschema@.frechet_key, pg_catalog.point[])
 
 CREATE FUNCTION @extschema@.frechet_gist_consistent(internal, pg_catalog.point[], pg_catalog.int2, pg_catalog.oid, internal)
 RETURNS pg_catalog.bool
-AS 'MODULE_PATHNAME', 'frechet_gist_consistent'
+AS 'MODULE_PATHNAME', 'frechet_gist_consistent_planar'
 LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
 
 CREATE FUNCTION @extschema@.frechet_gist_union(internal, internal)
@@ -272,7 +272,7 @@ CREATE FUNCTION @extschema@.frechet_track_geojson(track pg_catalog.point[])
 RETURNS pg_catalog.jsonb
 LANGUAGE sql IMMUTABLE STRICT PARALLEL SAFE COST 20
 RETURN (
-	SELECT CASE WHEN pg_catalog.count(*) = 1
+	SELECT CASE WHEN pg_catalog.count(*) OPERATOR(pg_catalog.=) 1
 		THEN pg_catalog.jsonb_build_object('type', 'Point',
 			'coordinates', (pg_catalog.array_agg(pg_catalog.jsonb_build_array(u.p[0], u.p[1])))[1])
 		ELSE pg_catalog.jsonb_build_object('type', 'LineString',

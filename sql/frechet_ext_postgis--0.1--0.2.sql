@@ -113,3 +113,150 @@ COMMENT ON OPERATOR @extschema@.&~> (geography, frechet_key) IS
 
 ALTER OPERATOR FAMILY @extschema@.frechet_geography_ops USING gist ADD
 	OPERATOR 30 @extschema@.&~> (geography, frechet_key);
+
+
+-- GeoJSON needs WGS84: a geometry whose SRID is not in spatial_ref_sys
+-- cannot be transformed; frechet_geometry_geojson raises 22023 through this
+-- rather than let ST_Transform fail with an internal error.
+CREATE FUNCTION @extschema@.frechet_geojson_check_srid(srid pg_catalog.int4, known pg_catalog.bool)
+RETURNS pg_catalog.bool
+AS 'MODULE_PATHNAME', 'frechet_geojson_check_srid'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+
+COMMENT ON FUNCTION @extschema@.frechet_geojson_check_srid(pg_catalog.int4, pg_catalog.bool) IS
+'internal: true when known, else an error saying that GeoJSON cannot be written for a geometry of this SRID (not in spatial_ref_sys)';
+
+-- The GeoJSON functions of 0.1 named PostGIS's functions unqualified in
+-- their standard SQL bodies, so an install into a schema where others can
+-- create objects could bind look-alikes planted there.  Rebuilt as the
+-- install script builds them, each PostGIS name qualified with PostGIS's
+-- schema; OR REPLACE keeps each function's OID, comment and dependants.
+DO $do$
+DECLARE
+	gis pg_catalog.text := (SELECT n.nspname FROM pg_catalog.pg_extension e
+		JOIN pg_catalog.pg_namespace n ON n.oid OPERATOR(pg_catalog.=) e.extnamespace
+		WHERE e.extname OPERATOR(pg_catalog.=) 'postgis');
+BEGIN
+	EXECUTE pg_catalog.format($sql$
+CREATE OR REPLACE FUNCTION @extschema@.frechet_geometry_geojson(g %1$I.geometry)
+RETURNS pg_catalog.jsonb
+LANGUAGE sql IMMUTABLE STRICT PARALLEL SAFE COST 100
+RETURN %1$I.st_asgeojson(CASE WHEN %1$I.st_srid(g) OPERATOR(pg_catalog.=) ANY ('{0,4326}'::pg_catalog.int4[]) THEN g
+	WHEN @extschema@.frechet_geojson_check_srid(%1$I.st_srid(g),
+		EXISTS (SELECT FROM %1$I.spatial_ref_sys s WHERE s.srid OPERATOR(pg_catalog.=) %1$I.st_srid(g)))
+	THEN %1$I.st_transform(g, 4326) END, 9, 0)::pg_catalog.jsonb;
+$sql$, gis);
+	EXECUTE pg_catalog.format($sql$
+CREATE OR REPLACE FUNCTION @extschema@.frechet_geojson(a %1$I.geometry, b %1$I.geometry, epsilon pg_catalog.float8 DEFAULT NULL)
+RETURNS pg_catalog.jsonb
+LANGUAGE sql IMMUTABLE PARALLEL SAFE COST 300000
+BEGIN ATOMIC
+	SELECT pg_catalog.jsonb_build_object(
+		'type', 'FeatureCollection',
+		'frechet', pg_catalog.jsonb_build_object(
+			'distance', dd.d,
+			'epsilon', epsilon,
+			'within_epsilon', @extschema@.frechet_at_most(a, b, epsilon),
+			'excursions', pg_catalog.jsonb_array_length(ex.features),
+			'srid', %1$I.st_srid(a)),
+		'features', pg_catalog.jsonb_build_array(
+			pg_catalog.jsonb_build_object('type', 'Feature',
+				'properties', pg_catalog.jsonb_build_object('role', 'a', 'vertices', %1$I.st_npoints(a),
+					'distance', dd.d, 'epsilon', epsilon),
+				'geometry', @extschema@.frechet_geometry_geojson(a)),
+			pg_catalog.jsonb_build_object('type', 'Feature',
+				'properties', pg_catalog.jsonb_build_object('role', 'b', 'vertices', %1$I.st_npoints(b),
+					'distance', dd.d, 'epsilon', epsilon),
+				'geometry', @extschema@.frechet_geometry_geojson(b)),
+			pg_catalog.jsonb_build_object('type', 'Feature',
+				'properties', pg_catalog.jsonb_build_object('role', 'leashes', 'count', %1$I.st_numgeometries(ls.g)),
+				'geometry', @extschema@.frechet_geometry_geojson(ls.g)),
+			pg_catalog.jsonb_build_object('type', 'Feature',
+				'properties', pg_catalog.jsonb_build_object('role', 'bottleneck', 'leash', bn.leash,
+					'a_pos', bn.a_pos, 'b_pos', bn.b_pos),
+				'geometry', @extschema@.frechet_geometry_geojson(%1$I.st_makeline(bn.a_point, bn.b_point))))
+			OPERATOR(pg_catalog.||) ex.features)
+	FROM (SELECT @extschema@.frechet_distance(a, b) AS d) AS dd,
+		@extschema@.frechet_bottleneck(a, b) AS bn,
+		LATERAL (SELECT @extschema@.frechet_matching_leashes(a, b) AS g) AS ls,
+		LATERAL (SELECT COALESCE(pg_catalog.jsonb_agg(pg_catalog.jsonb_build_object('type', 'Feature',
+					'properties', pg_catalog.jsonb_build_object('role', 'excursion', 'number', x.n,
+						'trip_from', x.trip_from, 'trip_to', x.trip_to,
+						'route_from', x.route_from, 'route_to', x.route_to,
+						'max_leash', x.max_leash, 'trip_length', x.trip_length),
+					'geometry', @extschema@.frechet_geometry_geojson(x.trip_piece)) ORDER BY x.n),
+				'[]'::pg_catalog.jsonb) AS features
+			FROM @extschema@.frechet_excursions(a, b, epsilon) WITH ORDINALITY AS x(trip_from, trip_to,
+				route_from, route_to, max_leash, trip_length, trip_piece, n)) AS ex;
+END;
+$sql$, gis);
+	EXECUTE pg_catalog.format($sql$
+CREATE OR REPLACE FUNCTION @extschema@.frechet_geojson(a %1$I.geography, b %1$I.geography, epsilon pg_catalog.float8 DEFAULT NULL)
+RETURNS pg_catalog.jsonb
+LANGUAGE sql IMMUTABLE PARALLEL SAFE COST 300000
+BEGIN ATOMIC
+	SELECT pg_catalog.jsonb_build_object(
+		'type', 'FeatureCollection',
+		'frechet', pg_catalog.jsonb_build_object(
+			'distance', dd.d,
+			'epsilon', epsilon,
+			'within_epsilon', @extschema@.frechet_at_most(a, b, epsilon),
+			'excursions', pg_catalog.jsonb_array_length(ex.features),
+			'units', 'metres'),
+		'features', pg_catalog.jsonb_build_array(
+			pg_catalog.jsonb_build_object('type', 'Feature',
+				'properties', pg_catalog.jsonb_build_object('role', 'a', 'vertices', %1$I.st_npoints(a::%1$I.geometry),
+					'distance', dd.d, 'epsilon', epsilon),
+				'geometry', %1$I.st_asgeojson(a, 9, 0)::pg_catalog.jsonb),
+			pg_catalog.jsonb_build_object('type', 'Feature',
+				'properties', pg_catalog.jsonb_build_object('role', 'b', 'vertices', %1$I.st_npoints(b::%1$I.geometry),
+					'distance', dd.d, 'epsilon', epsilon),
+				'geometry', %1$I.st_asgeojson(b, 9, 0)::pg_catalog.jsonb),
+			pg_catalog.jsonb_build_object('type', 'Feature',
+				'properties', pg_catalog.jsonb_build_object('role', 'leashes', 'count', %1$I.st_numgeometries(ls.g::%1$I.geometry)),
+				'geometry', %1$I.st_asgeojson(ls.g, 9, 0)::pg_catalog.jsonb),
+			pg_catalog.jsonb_build_object('type', 'Feature',
+				'properties', pg_catalog.jsonb_build_object('role', 'bottleneck', 'leash', bn.leash,
+					'a_pos', bn.a_pos, 'b_pos', bn.b_pos),
+				'geometry', %1$I.st_asgeojson(%1$I.st_makeline(bn.a_point::%1$I.geometry, bn.b_point::%1$I.geometry), 9, 0)::pg_catalog.jsonb))
+			OPERATOR(pg_catalog.||) ex.features)
+	FROM (SELECT @extschema@.frechet_distance(a, b) AS d) AS dd,
+		@extschema@.frechet_bottleneck(a, b) AS bn,
+		LATERAL (SELECT @extschema@.frechet_matching_leashes(a, b) AS g) AS ls,
+		LATERAL (SELECT COALESCE(pg_catalog.jsonb_agg(pg_catalog.jsonb_build_object('type', 'Feature',
+					'properties', pg_catalog.jsonb_build_object('role', 'excursion', 'number', x.n,
+						'trip_from', x.trip_from, 'trip_to', x.trip_to,
+						'route_from', x.route_from, 'route_to', x.route_to,
+						'max_leash', x.max_leash, 'trip_length', x.trip_length),
+					'geometry', %1$I.st_asgeojson(x.trip_piece, 9, 0)::pg_catalog.jsonb) ORDER BY x.n),
+				'[]'::pg_catalog.jsonb) AS features
+			FROM @extschema@.frechet_excursions(a, b, epsilon) WITH ORDINALITY AS x(trip_from, trip_to,
+				route_from, route_to, max_leash, trip_length, trip_piece, n)) AS ex;
+END;
+$sql$, gis);
+END $do$;
+
+-- frechet_key records its kind of coordinates (planar or Earth-centred);
+-- the operator classes' consistent functions now refuse a query key of
+-- the other kind (22023) instead of comparing it silently.  Stored keys
+-- are unchanged: no REINDEX is needed.  (PostGIS's types named with its
+-- schema, as above.)
+DO $do$
+DECLARE
+	gis pg_catalog.text := (SELECT n.nspname FROM pg_catalog.pg_extension e
+		JOIN pg_catalog.pg_namespace n ON n.oid OPERATOR(pg_catalog.=) e.extnamespace
+		WHERE e.extname OPERATOR(pg_catalog.=) 'postgis');
+BEGIN
+	EXECUTE pg_catalog.format($sql$
+CREATE OR REPLACE FUNCTION @extschema@.frechet_geometry_gist_consistent(internal, %1$I.geometry, pg_catalog.int2, pg_catalog.oid, internal)
+RETURNS pg_catalog.bool
+AS 'MODULE_PATHNAME', 'frechet_gist_consistent_planar'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+$sql$, gis);
+	EXECUTE pg_catalog.format($sql$
+CREATE OR REPLACE FUNCTION @extschema@.frechet_geography_gist_consistent(internal, %1$I.geography, pg_catalog.int2, pg_catalog.oid, internal)
+RETURNS pg_catalog.bool
+AS 'MODULE_PATHNAME', 'frechet_gist_consistent_earth'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+$sql$, gis);
+END $do$;

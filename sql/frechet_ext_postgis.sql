@@ -394,12 +394,12 @@ COMMENT ON OPERATOR @extschema@.&~ (frechet_key, geography) IS
 -- functions of frechet_track_ops; compress and distance decode PostGIS values.
 CREATE FUNCTION @extschema@.frechet_geometry_gist_consistent(internal, geometry, pg_catalog.int2, pg_catalog.oid, internal)
 RETURNS pg_catalog.bool
-AS 'MODULE_PATHNAME', 'frechet_gist_consistent'
+AS 'MODULE_PATHNAME', 'frechet_gist_consistent_planar'
 LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
 
 CREATE FUNCTION @extschema@.frechet_geography_gist_consistent(internal, geography, pg_catalog.int2, pg_catalog.oid, internal)
 RETURNS pg_catalog.bool
-AS 'MODULE_PATHNAME', 'frechet_gist_consistent'
+AS 'MODULE_PATHNAME', 'frechet_gist_consistent_earth'
 LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
 
 CREATE FUNCTION @extschema@.frechet_geo_gist_union(internal, internal)
@@ -515,21 +515,47 @@ BEGIN
 		'OPERATOR 3 %1$I.&& (%1$I.geography, %1$I.geography)', nsp);
 END $$;
 
--- Maps and dashboards: a pair's matching as GeoJSON (RFC 7946).  The bodies
--- are standard SQL bodies, parsed while this script runs: PostGIS's
--- functions (named unqualified, as PostgreSQL 15 has no
--- @extschema:postgis@) are bound then, so the functions work under any
--- search_path, including a postgres_fdw remote session's pg_catalog.
+-- GeoJSON needs WGS84: a geometry whose SRID is not in spatial_ref_sys
+-- cannot be transformed; frechet_geometry_geojson raises 22023 through this
+-- rather than let ST_Transform fail with an internal error.
+CREATE FUNCTION @extschema@.frechet_geojson_check_srid(srid pg_catalog.int4, known pg_catalog.bool)
+RETURNS pg_catalog.bool
+AS 'MODULE_PATHNAME', 'frechet_geojson_check_srid'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
 
-CREATE FUNCTION @extschema@.frechet_geometry_geojson(g geometry)
+COMMENT ON FUNCTION @extschema@.frechet_geojson_check_srid(pg_catalog.int4, pg_catalog.bool) IS
+'internal: true when known, else an error saying that GeoJSON cannot be written for a geometry of this SRID (not in spatial_ref_sys)';
+
+-- Maps and dashboards: a pair's matching as GeoJSON (RFC 7946).  The bodies
+-- are standard SQL bodies, parsed while this script runs and bound by OID
+-- then, so the functions work under any search_path, including a
+-- postgres_fdw remote session's pg_catalog.  The names in them must not be
+-- left to this script's search_path: it starts with the target schema,
+-- where whoever can create objects could plant an st_srid(geometry) that
+-- would be bound instead of PostGIS's.  PostgreSQL 15 has no
+-- @extschema:postgis@, so the statements are built here with PostGIS's
+-- schema, read from pg_extension, qualifying every PostGIS function, type
+-- and cast they name.  (Objects a DO block creates in an extension script
+-- are members of the extension.)  sql/frechet_ext_postgis--0.1--0.2.sql
+-- builds the same functions with CREATE OR REPLACE; keep the two alike.
+
+DO $do$
+DECLARE
+	gis pg_catalog.text := (SELECT n.nspname FROM pg_catalog.pg_extension e
+		JOIN pg_catalog.pg_namespace n ON n.oid OPERATOR(pg_catalog.=) e.extnamespace
+		WHERE e.extname OPERATOR(pg_catalog.=) 'postgis');
+BEGIN
+	EXECUTE pg_catalog.format($sql$
+CREATE FUNCTION @extschema@.frechet_geometry_geojson(g %1$I.geometry)
 RETURNS pg_catalog.jsonb
 LANGUAGE sql IMMUTABLE STRICT PARALLEL SAFE COST 100
-RETURN ST_AsGeoJSON(CASE WHEN ST_SRID(g) IN (0, 4326) THEN g ELSE ST_Transform(g, 4326) END, 9, 0)::pg_catalog.jsonb;
-
-COMMENT ON FUNCTION @extschema@.frechet_geometry_geojson(geometry) IS
-'a geometry as an RFC 7946 GeoJSON geometry: transformed to WGS84 lon/lat when its SRID is neither 0 nor 4326, no crs member';
-
-CREATE FUNCTION @extschema@.frechet_geojson(a geometry, b geometry, epsilon pg_catalog.float8 DEFAULT NULL)
+RETURN %1$I.st_asgeojson(CASE WHEN %1$I.st_srid(g) OPERATOR(pg_catalog.=) ANY ('{0,4326}'::pg_catalog.int4[]) THEN g
+	WHEN @extschema@.frechet_geojson_check_srid(%1$I.st_srid(g),
+		EXISTS (SELECT FROM %1$I.spatial_ref_sys s WHERE s.srid OPERATOR(pg_catalog.=) %1$I.st_srid(g)))
+	THEN %1$I.st_transform(g, 4326) END, 9, 0)::pg_catalog.jsonb;
+$sql$, gis);
+	EXECUTE pg_catalog.format($sql$
+CREATE FUNCTION @extschema@.frechet_geojson(a %1$I.geometry, b %1$I.geometry, epsilon pg_catalog.float8 DEFAULT NULL)
 RETURNS pg_catalog.jsonb
 LANGUAGE sql IMMUTABLE PARALLEL SAFE COST 300000
 BEGIN ATOMIC
@@ -540,23 +566,23 @@ BEGIN ATOMIC
 			'epsilon', epsilon,
 			'within_epsilon', @extschema@.frechet_at_most(a, b, epsilon),
 			'excursions', pg_catalog.jsonb_array_length(ex.features),
-			'srid', ST_SRID(a)),
+			'srid', %1$I.st_srid(a)),
 		'features', pg_catalog.jsonb_build_array(
 			pg_catalog.jsonb_build_object('type', 'Feature',
-				'properties', pg_catalog.jsonb_build_object('role', 'a', 'vertices', ST_NPoints(a),
+				'properties', pg_catalog.jsonb_build_object('role', 'a', 'vertices', %1$I.st_npoints(a),
 					'distance', dd.d, 'epsilon', epsilon),
 				'geometry', @extschema@.frechet_geometry_geojson(a)),
 			pg_catalog.jsonb_build_object('type', 'Feature',
-				'properties', pg_catalog.jsonb_build_object('role', 'b', 'vertices', ST_NPoints(b),
+				'properties', pg_catalog.jsonb_build_object('role', 'b', 'vertices', %1$I.st_npoints(b),
 					'distance', dd.d, 'epsilon', epsilon),
 				'geometry', @extschema@.frechet_geometry_geojson(b)),
 			pg_catalog.jsonb_build_object('type', 'Feature',
-				'properties', pg_catalog.jsonb_build_object('role', 'leashes', 'count', ST_NumGeometries(ls.g)),
+				'properties', pg_catalog.jsonb_build_object('role', 'leashes', 'count', %1$I.st_numgeometries(ls.g)),
 				'geometry', @extschema@.frechet_geometry_geojson(ls.g)),
 			pg_catalog.jsonb_build_object('type', 'Feature',
 				'properties', pg_catalog.jsonb_build_object('role', 'bottleneck', 'leash', bn.leash,
 					'a_pos', bn.a_pos, 'b_pos', bn.b_pos),
-				'geometry', @extschema@.frechet_geometry_geojson(ST_MakeLine(bn.a_point, bn.b_point))))
+				'geometry', @extschema@.frechet_geometry_geojson(%1$I.st_makeline(bn.a_point, bn.b_point))))
 			OPERATOR(pg_catalog.||) ex.features)
 	FROM (SELECT @extschema@.frechet_distance(a, b) AS d) AS dd,
 		@extschema@.frechet_bottleneck(a, b) AS bn,
@@ -571,11 +597,9 @@ BEGIN ATOMIC
 			FROM @extschema@.frechet_excursions(a, b, epsilon) WITH ORDINALITY AS x(trip_from, trip_to,
 				route_from, route_to, max_leash, trip_length, trip_piece, n)) AS ex;
 END;
-
-COMMENT ON FUNCTION @extschema@.frechet_geojson(geometry, geometry, pg_catalog.float8) IS
-'a GeoJSON FeatureCollection of a pair for a map: both curves (roles a, b), the leashes of an optimal matching, the bottleneck and, with epsilon, the excursions of a from b; distances in units of the SRID, coordinates in WGS84 lon/lat (transformed when the SRID is another known system; as stored when it is 0)';
-
-CREATE FUNCTION @extschema@.frechet_geojson(a geography, b geography, epsilon pg_catalog.float8 DEFAULT NULL)
+$sql$, gis);
+	EXECUTE pg_catalog.format($sql$
+CREATE FUNCTION @extschema@.frechet_geojson(a %1$I.geography, b %1$I.geography, epsilon pg_catalog.float8 DEFAULT NULL)
 RETURNS pg_catalog.jsonb
 LANGUAGE sql IMMUTABLE PARALLEL SAFE COST 300000
 BEGIN ATOMIC
@@ -589,20 +613,20 @@ BEGIN ATOMIC
 			'units', 'metres'),
 		'features', pg_catalog.jsonb_build_array(
 			pg_catalog.jsonb_build_object('type', 'Feature',
-				'properties', pg_catalog.jsonb_build_object('role', 'a', 'vertices', ST_NPoints(a::geometry),
+				'properties', pg_catalog.jsonb_build_object('role', 'a', 'vertices', %1$I.st_npoints(a::%1$I.geometry),
 					'distance', dd.d, 'epsilon', epsilon),
-				'geometry', ST_AsGeoJSON(a, 9, 0)::pg_catalog.jsonb),
+				'geometry', %1$I.st_asgeojson(a, 9, 0)::pg_catalog.jsonb),
 			pg_catalog.jsonb_build_object('type', 'Feature',
-				'properties', pg_catalog.jsonb_build_object('role', 'b', 'vertices', ST_NPoints(b::geometry),
+				'properties', pg_catalog.jsonb_build_object('role', 'b', 'vertices', %1$I.st_npoints(b::%1$I.geometry),
 					'distance', dd.d, 'epsilon', epsilon),
-				'geometry', ST_AsGeoJSON(b, 9, 0)::pg_catalog.jsonb),
+				'geometry', %1$I.st_asgeojson(b, 9, 0)::pg_catalog.jsonb),
 			pg_catalog.jsonb_build_object('type', 'Feature',
-				'properties', pg_catalog.jsonb_build_object('role', 'leashes', 'count', ST_NumGeometries(ls.g::geometry)),
-				'geometry', ST_AsGeoJSON(ls.g, 9, 0)::pg_catalog.jsonb),
+				'properties', pg_catalog.jsonb_build_object('role', 'leashes', 'count', %1$I.st_numgeometries(ls.g::%1$I.geometry)),
+				'geometry', %1$I.st_asgeojson(ls.g, 9, 0)::pg_catalog.jsonb),
 			pg_catalog.jsonb_build_object('type', 'Feature',
 				'properties', pg_catalog.jsonb_build_object('role', 'bottleneck', 'leash', bn.leash,
 					'a_pos', bn.a_pos, 'b_pos', bn.b_pos),
-				'geometry', ST_AsGeoJSON(ST_MakeLine(bn.a_point::geometry, bn.b_point::geometry), 9, 0)::pg_catalog.jsonb))
+				'geometry', %1$I.st_asgeojson(%1$I.st_makeline(bn.a_point::%1$I.geometry, bn.b_point::%1$I.geometry), 9, 0)::pg_catalog.jsonb))
 			OPERATOR(pg_catalog.||) ex.features)
 	FROM (SELECT @extschema@.frechet_distance(a, b) AS d) AS dd,
 		@extschema@.frechet_bottleneck(a, b) AS bn,
@@ -612,11 +636,19 @@ BEGIN ATOMIC
 						'trip_from', x.trip_from, 'trip_to', x.trip_to,
 						'route_from', x.route_from, 'route_to', x.route_to,
 						'max_leash', x.max_leash, 'trip_length', x.trip_length),
-					'geometry', ST_AsGeoJSON(x.trip_piece, 9, 0)::pg_catalog.jsonb) ORDER BY x.n),
+					'geometry', %1$I.st_asgeojson(x.trip_piece, 9, 0)::pg_catalog.jsonb) ORDER BY x.n),
 				'[]'::pg_catalog.jsonb) AS features
 			FROM @extschema@.frechet_excursions(a, b, epsilon) WITH ORDINALITY AS x(trip_from, trip_to,
 				route_from, route_to, max_leash, trip_length, trip_piece, n)) AS ex;
 END;
+$sql$, gis);
+END $do$;
+
+COMMENT ON FUNCTION @extschema@.frechet_geometry_geojson(geometry) IS
+'a geometry as an RFC 7946 GeoJSON geometry: transformed to WGS84 lon/lat when its SRID is neither 0 nor 4326, no crs member';
+
+COMMENT ON FUNCTION @extschema@.frechet_geojson(geometry, geometry, pg_catalog.float8) IS
+'a GeoJSON FeatureCollection of a pair for a map: both curves (roles a, b), the leashes of an optimal matching, the bottleneck and, with epsilon, the excursions of a from b; distances in units of the SRID, coordinates in WGS84 lon/lat (transformed when the SRID is another known system; as stored when it is 0)';
 
 COMMENT ON FUNCTION @extschema@.frechet_geojson(geography, geography, pg_catalog.float8) IS
 'a GeoJSON FeatureCollection of a pair for a map: both curves (roles a, b), the leashes of an optimal matching, the bottleneck and, with epsilon, the excursions of a from b; distances in metres on WGS84, coordinates lon/lat';

@@ -158,11 +158,11 @@ type_name(uint32 base)
 			return "MultiCurve";
 		case 12:
 			return "MultiSurface";
-		case 13:
-			return "PolyhedralSurface";
-		case 14:
-			return "TIN";
 		case 15:
+			return "PolyhedralSurface";
+		case 16:
+			return "TIN";
+		case 17:
 			return "Triangle";
 		default:
 			return NULL;

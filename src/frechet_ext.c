@@ -21,23 +21,57 @@
 PG_MODULE_MAGIC;
 
 int			frechet_max_memory_kb = 256 * 1024;
+int			frechet_max_memory_limit_kb = 1024 * 1024;
 
 void		_PG_init(void);
+
+/*
+ * Check hook of frechet_ext.max_memory: a SET in a session (or a client's
+ * connection option) above frechet_ext.max_memory_limit is refused.  Values
+ * from the configuration file, ALTER DATABASE or ALTER ROLE are accepted,
+ * as the two settings may arrive in any order there; glue_env_begin uses
+ * the smaller of the two in every case.
+ */
+static bool
+check_max_memory(int *newval, void **extra, GucSource source)
+{
+	if (source >= PGC_S_CLIENT && source != PGC_S_TEST &&
+		*newval > frechet_max_memory_limit_kb)
+	{
+		GUC_check_errcode(ERRCODE_INVALID_PARAMETER_VALUE);
+		GUC_check_errmsg("frechet_ext.max_memory cannot exceed frechet_ext.max_memory_limit");
+		GUC_check_errdetail("%d kB was asked for; the limit a superuser set is %d kB.",
+							*newval, frechet_max_memory_limit_kb);
+		GUC_check_errhint("Ask a superuser to raise frechet_ext.max_memory_limit.");
+		return false;
+	}
+	return true;
+}
 
 /* Registers the settings of the extension. */
 void
 _PG_init(void)
 {
+	DefineCustomIntVariable("frechet_ext.max_memory_limit",
+							"Ceiling of frechet_ext.max_memory; only superusers may change it.",
+							"Every call is limited by the smaller of the two settings.",
+							&frechet_max_memory_limit_kb,
+							1024 * 1024,
+							64,
+							MAX_KILOBYTES,
+							PGC_SUSET,
+							GUC_UNIT_KB,
+							NULL, NULL, NULL);
 	DefineCustomIntVariable("frechet_ext.max_memory",
 							"Largest scratch memory one frechet_ext call may use.",
-							"Checked before any allocation; calls that would need more fail.",
+							"Checked before any allocation; calls that would need more fail.  At most frechet_ext.max_memory_limit.",
 							&frechet_max_memory_kb,
 							256 * 1024,
 							64,
 							MAX_KILOBYTES,
 							PGC_USERSET,
 							GUC_UNIT_KB,
-							NULL, NULL, NULL);
+							check_max_memory, NULL, NULL);
 	MarkGUCPrefixReserved("frechet_ext");
 }
 
@@ -64,19 +98,34 @@ glue_interrupted(void *arg)
 	return 0;
 }
 
-/* Checks the memory limit, then creates the scratch context for one call. */
+/*
+ * Checks the memory limit (the smaller of frechet_ext.max_memory and its
+ * ceiling frechet_ext.max_memory_limit), then creates the scratch context
+ * for one call.
+ */
 void
 glue_env_begin(glue_env *g, size_t scratch_bytes, const char *what)
 {
-	size_t		limit = (size_t) frechet_max_memory_kb * 1024;
+	bool		ceiling = frechet_max_memory_limit_kb < frechet_max_memory_kb;
+	int			limit_kb = ceiling ? frechet_max_memory_limit_kb : frechet_max_memory_kb;
 
-	if (scratch_bytes > limit)
+	if (scratch_bytes > (size_t) limit_kb * 1024)
+	{
+		if (ceiling)
+			ereport(ERROR,
+					(errcode(ERRCODE_PROGRAM_LIMIT_EXCEEDED),
+					 errmsg("%s needs more memory than frechet_ext.max_memory_limit allows", what),
+					 errdetail("The call needs about %zu kB of scratch memory; frechet_ext.max_memory is %d kB, but a superuser limited it to %d kB.",
+							   scratch_bytes / 1024 + 1, frechet_max_memory_kb, limit_kb),
+					 errhint("Ask a superuser to raise frechet_ext.max_memory_limit, or simplify the curves first.")));
 		ereport(ERROR,
 				(errcode(ERRCODE_PROGRAM_LIMIT_EXCEEDED),
 				 errmsg("%s needs more memory than frechet_ext.max_memory allows", what),
 				 errdetail("The call needs about %zu kB of scratch memory; the limit is %d kB.",
-						   scratch_bytes / 1024 + 1, frechet_max_memory_kb),
-				 errhint("Raise frechet_ext.max_memory, or simplify the curves first.")));
+						   scratch_bytes / 1024 + 1, limit_kb),
+				 errhint("Raise frechet_ext.max_memory (up to frechet_ext.max_memory_limit, %d kB), or simplify the curves first.",
+						 frechet_max_memory_limit_kb)));
+	}
 	g->cxt = AllocSetContextCreate(CurrentMemoryContext, "frechet_ext scratch",
 								   ALLOCSET_DEFAULT_SIZES);
 	g->env.alloc = glue_alloc;

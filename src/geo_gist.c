@@ -115,6 +115,7 @@ stored_key(postgis_calls *calls, Datum g, bool geodetic, fr_key *key)
 		fc.dim = 3;
 	}
 	geo_key_of_curve(&fc, key);
+	frechet_key_set_kind(key, geodetic ? FRECHET_KEY_EARTH : FRECHET_KEY_PLANAR);
 	if (xyz != NULL)
 		pfree(xyz);
 	pfree(c.coords);
@@ -272,6 +273,7 @@ geo_argument_key(FunctionCallInfo fcinfo, int argno, bool geodetic, fr_key *key)
 
 	geo_datum_curve(calls_in_fn_extra(fcinfo), PG_GETARG_DATUM(argno - 1), geodetic, argno, &c);
 	geo_key_of_curve(&c, key);
+	frechet_key_set_kind(key, geodetic ? FRECHET_KEY_EARTH : FRECHET_KEY_PLANAR);
 	pfree((void *) c.coords);
 }
 
@@ -307,6 +309,7 @@ geo_reach(FunctionCallInfo fcinfo, bool geodetic)
 	geo_argument_key(fcinfo, 1, geodetic, key);
 	glue_check_epsilon(eps, 2);
 	key->reach = geodetic ? fr_metres_to_chord(eps) : eps;
+	frechet_key_set_kind(key, geodetic ? FRECHET_KEY_EARTH : FRECHET_KEY_PLANAR);
 	PG_RETURN_POINTER(key);
 }
 
@@ -332,8 +335,9 @@ geo_within_reach(FunctionCallInfo fcinfo, int argno, bool geodetic, const fr_key
 {
 	fr_key		key;
 
+	frechet_key_check_kind(reach, geodetic ? FRECHET_KEY_EARTH : FRECHET_KEY_PLANAR, argno);
 	geo_argument_key(fcinfo, argno, geodetic, &key);
-	return fr_key_bound(&key, reach) <= reach->reach;
+	return fr_key_bound(&key, reach) <= frechet_key_reach(reach);
 }
 
 PG_FUNCTION_INFO_V1(frechet_within_reach_geometry);

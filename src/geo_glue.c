@@ -409,6 +409,39 @@ geo_vertices_datum(FunctionCallInfo fcinfo, const geo_curves *gc, const size_t *
 	return finish_ewkb(fcinfo, gc, &buf);
 }
 
+/* The unit vector of a lon/lat point (degrees) on the sphere, as PostGIS's geography takes it. */
+static void
+lonlat_unit_vector(const double *lonlat, double *v)
+{
+	double		lon = lonlat[0] * (M_PI / 180.0),
+				lat = lonlat[1] * (M_PI / 180.0);
+
+	v[0] = cos(lat) * cos(lon);
+	v[1] = cos(lat) * sin(lon);
+	v[2] = sin(lat);
+}
+
+/*
+ * True when two lon/lat points (degrees) are antipodal for a geography
+ * edge: PostGIS refuses an edge between points whose unit vectors are
+ * opposite to within 1e-12 in every coordinate ("Antipodal edge
+ * detected", an internal error), as no great circle through them is
+ * preferred.  We test at 1e-10 (about 0.6 mm), to stay on the safe side.
+ */
+bool
+geo_lonlat_antipodal(const double *a, const double *b)
+{
+	double		va[3],
+				vb[3];
+
+	lonlat_unit_vector(a, va);
+	lonlat_unit_vector(b, vb);
+	for (int i = 0; i < 3; i++)
+		if (fabs(va[i] + vb[i]) > 1e-10)
+			return false;
+	return true;
+}
+
 /* A MultiLineString of the leashes at the given breakpoints of a matching. */
 Datum
 geo_leashes_datum(FunctionCallInfo fcinfo, const geo_curves *gc,
@@ -425,6 +458,13 @@ geo_leashes_datum(FunctionCallInfo fcinfo, const geo_curves *gc,
 
 		output_point(gc, 0, pts[k].a_pos, seg);
 		output_point(gc, 1, pts[k].b_pos, seg + odim);
+		if (gc->geodetic && geo_lonlat_antipodal(seg, seg + odim))
+			ereport(ERROR,
+					(errcode(ERRCODE_INVALID_PARAMETER_VALUE),
+					 errmsg("a leash of the matching joins two antipodal points"),
+					 errdetail("Leash %zu runs from (longitude %g, latitude %g) to (longitude %g, latitude %g), the opposite point of the Earth: a geography edge between them has no defined path.",
+							   k + 1, seg[0], seg[1], seg[odim], seg[odim + 1]),
+					 errhint("frechet_matching and frechet_bottleneck give the leashes' points; the geometry versions draw them as straight lines.")));
 		appendStringInfoChar(&buf, 1);
 		put_u32(&buf, 2 | (odim == 3 ? 0x80000000u : 0));
 		put_points(&buf, gc, seg, 2);
@@ -714,6 +754,8 @@ frechet_geo_at_most_support(PG_FUNCTION_ARGS)
 {
 	Node	   *rawreq = (Node *) PG_GETARG_POINTER(0);
 
+	if (IsA(rawreq, SupportRequestSimplify))
+		glue_check_constant_epsilon(rawreq);
 	if (IsA(rawreq, SupportRequestIndexCondition))
 	{
 		List	   *conds = at_most_index_condition((SupportRequestIndexCondition *) rawreq);
@@ -722,4 +764,25 @@ frechet_geo_at_most_support(PG_FUNCTION_ARGS)
 			PG_RETURN_POINTER(conds);
 	}
 	PG_RETURN_POINTER(NULL);
+}
+
+PG_FUNCTION_INFO_V1(frechet_geojson_check_srid);
+/*
+ * frechet_geojson_check_srid(srid, known): true, or 22023 when the SRID of
+ * a geometry that GeoJSON needs in WGS84 is not in spatial_ref_sys (known
+ * is whether it is), so ST_Transform could only fail with an internal
+ * error.  Used by frechet_geometry_geojson.
+ */
+Datum
+frechet_geojson_check_srid(PG_FUNCTION_ARGS)
+{
+	int32		srid = PG_GETARG_INT32(0);
+
+	if (!PG_GETARG_BOOL(1))
+		ereport(ERROR,
+				(errcode(ERRCODE_INVALID_PARAMETER_VALUE),
+				 errmsg("cannot write GeoJSON of a geometry with SRID %d", srid),
+				 errdetail("GeoJSON needs WGS84 longitude and latitude, and SRID %d is not in spatial_ref_sys, so the geometry cannot be transformed.", srid),
+				 errhint("Add the SRID's definition to spatial_ref_sys, or use ST_SetSRID(g, 0) to write the coordinates as stored.")));
+	PG_RETURN_BOOL(true);
 }

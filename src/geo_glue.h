@@ -42,6 +42,7 @@ Datum		geo_subline_datum(FunctionCallInfo fcinfo, const geo_curves *gc, int whic
 Datum		geo_leashes_datum(FunctionCallInfo fcinfo, const geo_curves *gc,
 							  const fr_match_pt *pts, size_t count);
 double		geo_result_distance(const geo_curves *gc, double d);
+bool		geo_lonlat_antipodal(const double *a, const double *b);
 double		geo_engine_epsilon(const geo_curves *gc, double eps);
 
 /* The index summary of curve argument argno (1-based); see geo_gist.c. */

@@ -40,7 +40,7 @@ matching_rows(FunctionCallInfo fcinfo, bool geodetic)
 	size_t		count;
 	double		eps;
 
-	InitMaterializedSRF(fcinfo, 0);
+	glue_srf_materialize(fcinfo);
 	if (PG_ARGISNULL(0) || PG_ARGISNULL(1))
 		return (Datum) 0;
 	geo_decode_args(fcinfo, geodetic, &gc);
@@ -93,7 +93,7 @@ bottleneck_row(FunctionCallInfo fcinfo, bool geodetic)
 	Datum		values[5];
 	bool		nulls[5] = {false};
 
-	InitMaterializedSRF(fcinfo, 0);
+	glue_srf_materialize(fcinfo);
 	geo_decode_args(fcinfo, geodetic, &gc);
 	pts = glue_matching(&gc.p, &gc.q, -1, &count, "frechet_bottleneck");
 	if (count == 0)
@@ -133,7 +133,7 @@ partial_match_row(FunctionCallInfo fcinfo, bool geodetic)
 				d;
 	bool		found;
 
-	InitMaterializedSRF(fcinfo, 0);
+	glue_srf_materialize(fcinfo);
 	geo_decode_args(fcinfo, geodetic, &gc);
 	glue_check_epsilon(eps, 3);
 	glue_partial_match(&gc.p, &gc.q, geo_engine_epsilon(&gc, eps), &found, &from, &to, &d);
@@ -161,7 +161,7 @@ excursion_rows(FunctionCallInfo fcinfo, bool geodetic)
 	fr_excursion *copy;
 	size_t		count;
 
-	InitMaterializedSRF(fcinfo, 0);
+	glue_srf_materialize(fcinfo);
 	geo_decode_args(fcinfo, geodetic, &gc);
 	glue_check_epsilon(eps, 3);
 	copy = glue_excursions(&gc.p, &gc.q, geo_engine_epsilon(&gc, eps), &count);
@@ -181,6 +181,33 @@ excursion_rows(FunctionCallInfo fcinfo, bool geodetic)
 		tuplestore_putvalues(rsinfo->setResult, rsinfo->setDesc, values, nulls);
 	}
 	return (Datum) 0;
+}
+
+/*
+ * A geography edge cannot join antipodal points (PostGIS refuses it), so
+ * where the simplified track would have one, the track's own vertices
+ * between its ends are put back.  The guarantee holds: that stretch is
+ * then the track itself (distance 0), and the Fréchet distance of pieces
+ * joined at shared vertices is the largest of the pieces'.  The input has
+ * no antipodal edge (PostGIS would not have made the geography).
+ */
+static size_t *
+keep_antipodal_spans(const geo_curves *gc, size_t *keep, size_t *count)
+{
+	size_t	   *out = palloc(gc->a.n * sizeof(size_t));
+	size_t		n = 0;
+
+	for (size_t k = 0; k < *count; k++)
+	{
+		if (k > 0 && geo_lonlat_antipodal(gc->a.coords + keep[k - 1] * gc->a.dim,
+										  gc->a.coords + keep[k] * gc->a.dim))
+			for (size_t v = keep[k - 1] + 1; v < keep[k]; v++)
+				out[n++] = v;
+		out[n++] = keep[k];
+	}
+	pfree(keep);
+	*count = n;
+	return out;
 }
 
 /* frechet_simplify(track, tolerance): fewer vertices within tolerance, as a geometry. */
@@ -210,6 +237,8 @@ simplify_line(FunctionCallInfo fcinfo, bool geodetic)
 	}
 	glue_env_end(&g);
 	glue_check_status(st, "frechet_simplify");
+	if (geodetic)
+		copy = keep_antipodal_spans(&gc, copy, &count);
 	return geo_vertices_datum(fcinfo, &gc, copy, count);
 }
 

@@ -43,14 +43,14 @@ frechet_gist_compress(PG_FUNCTION_ARGS)
 	PG_RETURN_POINTER(out);
 }
 
-PG_FUNCTION_INFO_V1(frechet_gist_consistent);
 /*
  * May an entry hold a track within the query's reach?  Exact on leaves.
+ * kind_known: the query key must be of the given kind of coordinates.
  * The geometry and geography classes share this function; their box
  * strategies go to geo_gist_box_consistent.
  */
-Datum
-frechet_gist_consistent(PG_FUNCTION_ARGS)
+static Datum
+gist_consistent(FunctionCallInfo fcinfo, bool kind_known, frechet_key_kind kind)
 {
 	GISTENTRY  *entry = (GISTENTRY *) PG_GETARG_POINTER(0);
 	StrategyNumber strategy = (StrategyNumber) PG_GETARG_UINT16(2);
@@ -62,11 +62,13 @@ frechet_gist_consistent(PG_FUNCTION_ARGS)
 	if (FRECHET_IS_BOX_STRATEGY(strategy))
 		return geo_gist_box_consistent(fcinfo);
 	query = PG_GETARG_FRECHET_KEY(1);
+	if (kind_known)
+		frechet_key_check_kind(query, kind, 0);
 	if (strategy == FRECHET_STRATEGY_PINGS)
 	{
 		/* exact on a leaf, as for &~; frechet_pings_at_most stays the filter */
 		*recheck = false;
-		PG_RETURN_BOOL(fr_key_ping_bound(key, query) <= query->reach);
+		PG_RETURN_BOOL(fr_key_ping_bound(key, query) <= frechet_key_reach(query));
 	}
 	if (strategy != FRECHET_STRATEGY_REACH)
 		elog(ERROR, "frechet_track_ops: unknown strategy number %d", strategy);
@@ -76,7 +78,34 @@ frechet_gist_consistent(PG_FUNCTION_ARGS)
 	 * &~ is needed; frechet_at_most itself still runs as the filter.
 	 */
 	*recheck = false;
-	PG_RETURN_BOOL(fr_key_bound(key, query) <= query->reach);
+	PG_RETURN_BOOL(fr_key_bound(key, query) <= frechet_key_reach(query));
+}
+
+PG_FUNCTION_INFO_V1(frechet_gist_consistent);
+/*
+ * GiST consistent of release 0.1's operator classes, which do not say
+ * their kind of coordinates: no check of the query key's kind.
+ */
+Datum
+frechet_gist_consistent(PG_FUNCTION_ARGS)
+{
+	return gist_consistent(fcinfo, false, FRECHET_KEY_PLANAR);
+}
+
+PG_FUNCTION_INFO_V1(frechet_gist_consistent_planar);
+/* GiST consistent of frechet_track_ops and frechet_geometry_ops: planar query keys only. */
+Datum
+frechet_gist_consistent_planar(PG_FUNCTION_ARGS)
+{
+	return gist_consistent(fcinfo, true, FRECHET_KEY_PLANAR);
+}
+
+PG_FUNCTION_INFO_V1(frechet_gist_consistent_earth);
+/* GiST consistent of frechet_geography_ops: Earth-centred query keys only. */
+Datum
+frechet_gist_consistent_earth(PG_FUNCTION_ARGS)
+{
+	return gist_consistent(fcinfo, true, FRECHET_KEY_EARTH);
 }
 
 PG_FUNCTION_INFO_V1(frechet_gist_union);

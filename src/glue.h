@@ -6,6 +6,7 @@
 #define FRECHET_GLUE_H
 
 #include "postgres.h"
+#include "nodes/nodes.h"
 #include "utils/array.h"
 
 #include "frechet.h"
@@ -43,7 +44,13 @@ void		glue_partial_match(const fr_curve *trip, const fr_curve *route, double eps
 fr_excursion *glue_excursions(const fr_curve *p, const fr_curve *q, double eps,
 							  size_t *count);
 
+/* A set-returning call's tuple store and descriptor, nothing else left per call. */
+void		glue_srf_materialize(FunctionCallInfo fcinfo);
+
 /* Validates a tolerance argument: not NaN, not negative. */
 void		glue_check_epsilon(double eps, int argno);
+
+/* Planner support of frechet_at_most: a constant epsilon validated while planning; see support.c. */
+void		glue_check_constant_epsilon(Node *rawreq);
 
 #endif							/* FRECHET_GLUE_H */

@@ -7,6 +7,9 @@
 #define FRECHET_INDEX_H
 
 #include "postgres.h"
+
+#include <math.h>
+
 #include "fmgr.h"
 #include "access/stratnum.h"
 #include "utils/array.h"
@@ -37,6 +40,48 @@
 /* frechet_key values are fr_key structs stored as they are (fixed length, by reference). */
 #define DatumGetFrechetKey(d) ((fr_key *) DatumGetPointer(d))
 #define PG_GETARG_FRECHET_KEY(n) DatumGetFrechetKey(PG_GETARG_DATUM(n))
+
+/*
+ * The kind of coordinates a key summarises: planar (point[], geometry) or
+ * Earth-centred metres (geography).  fr_key has no spare field, and its
+ * length is the frechet_key type's INTERNALLENGTH, kept in existing
+ * indexes, so the kind lives in the sign bit of reach, which is never
+ * negative otherwise: clear for planar, set for Earth-centred (-0.0 for a
+ * reach of 0).  Keys made before the kind was recorded read as planar.
+ * Read the reach through frechet_key_reach, never key->reach.
+ */
+typedef enum frechet_key_kind
+{
+	FRECHET_KEY_PLANAR = 0,
+	FRECHET_KEY_EARTH = 1
+} frechet_key_kind;
+
+/* The reach (epsilon, or its chord for geography) of a key, without its kind. */
+static inline double
+frechet_key_reach(const fr_key *key)
+{
+	return fabs(key->reach);
+}
+
+/* The kind of coordinates a key summarises. */
+static inline frechet_key_kind
+frechet_key_kind_of(const fr_key *key)
+{
+	return signbit(key->reach) ? FRECHET_KEY_EARTH : FRECHET_KEY_PLANAR;
+}
+
+/* Records the kind of a key, keeping its reach. */
+static inline void
+frechet_key_set_kind(fr_key *key, frechet_key_kind kind)
+{
+	key->reach = kind == FRECHET_KEY_EARTH ? -fabs(key->reach) : fabs(key->reach);
+}
+
+/*
+ * Raises 22023 unless a reach key is of the kind of the curve it is tested
+ * against (argno, 1-based; 0 for an index's column).
+ */
+void		frechet_key_check_kind(const fr_key *reach, frechet_key_kind kind, int argno);
 
 /*
  * The summary of a stored track.  A track the SQL functions would reject

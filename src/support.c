@@ -10,6 +10,12 @@
  * track whose first vertex, last vertex and bounding-box sides lie within
  * epsilon of the route's, and frechet_at_most runs on each of them.  The
  * Fréchet distance is symmetric, so either argument may be the column.
+ *
+ * frechet_reach validates epsilon, so with such an index a NaN or negative
+ * epsilon raised 22023 even when no row qualified, while a sequential scan
+ * that called frechet_at_most on no row returned nothing.  The function
+ * raises on such an epsilon, so every plan now does: when epsilon is a
+ * constant, it is checked while the call is simplified during planning.
  */
 #include "postgres.h"
 
@@ -22,6 +28,7 @@
 #include "utils/lsyscache.h"
 #include "utils/syscache.h"
 
+#include "glue.h"
 #include "index.h"
 
 /* Builds "indexed &~ frechet_reach(route, eps)" if the index's opfamily is ours. */
@@ -72,6 +79,25 @@ reach_index_condition(SupportRequestIndexCondition *req)
 									InvalidOid, InvalidOid));
 }
 
+/*
+ * SupportRequestSimplify of frechet_at_most (every input type): a constant
+ * epsilon is validated as the function would, so that a bad one raises
+ * 22023 whatever the plan, even one that calls the function on no row.
+ */
+void
+glue_check_constant_epsilon(Node *rawreq)
+{
+	SupportRequestSimplify *req = (SupportRequestSimplify *) rawreq;
+	Node	   *eps;
+
+	if (list_length(req->fcall->args) != 3)
+		return;
+	eps = (Node *) lthird(req->fcall->args);
+	if (IsA(eps, Const) && !((Const *) eps)->constisnull &&
+		((Const *) eps)->consttype == FLOAT8OID)
+		glue_check_epsilon(DatumGetFloat8(((Const *) eps)->constvalue), 3);
+}
+
 PG_FUNCTION_INFO_V1(frechet_at_most_support);
 /* Planner support for frechet_at_most: a lossy index condition. */
 Datum
@@ -79,6 +105,8 @@ frechet_at_most_support(PG_FUNCTION_ARGS)
 {
 	Node	   *rawreq = (Node *) PG_GETARG_POINTER(0);
 
+	if (IsA(rawreq, SupportRequestSimplify))
+		glue_check_constant_epsilon(rawreq);
 	if (IsA(rawreq, SupportRequestIndexCondition))
 	{
 		List	   *conds = reach_index_condition((SupportRequestIndexCondition *) rawreq);

@@ -108,6 +108,7 @@ frechet_key_in(PG_FUNCTION_ARGS)
 	char	   *orig = PG_GETARG_CSTRING(0);
 	char	   *p = orig;
 	fr_key	   *key = palloc(sizeof(fr_key));
+	bool		earth;
 
 	for (int k = 0; k < lengthof(key_parts); k++)
 	{
@@ -129,6 +130,13 @@ frechet_key_in(PG_FUNCTION_ARGS)
 	key->reach = read_number(&p, orig);
 	while (*p == ' ')
 		p++;
+	earth = strncmp(p, "earth", 5) == 0;
+	if (earth)
+		p += 5;
+	else if (strncmp(p, "planar", 6) == 0)
+		p += 6;
+	while (*p == ' ')
+		p++;
 	if (*p != '\0')
 		key_syntax_error(orig);
 	for (int i = 0; i < FR_KEY_NDIM; i++)
@@ -145,6 +153,9 @@ frechet_key_in(PG_FUNCTION_ARGS)
 				(errcode(ERRCODE_INVALID_PARAMETER_VALUE),
 				 errmsg("invalid frechet_key: \"%s\"", orig),
 				 errdetail("The reach must be a non-negative number.")));
+	/* the sign bit holds the kind: "reach=-0" is a planar 0 */
+	key->reach = fabs(key->reach);
+	frechet_key_set_kind(key, earth ? FRECHET_KEY_EARTH : FRECHET_KEY_PLANAR);
 	PG_RETURN_POINTER(key);
 }
 
@@ -166,8 +177,33 @@ frechet_key_out(PG_FUNCTION_ARGS)
 						 float8out_internal(key->lo[ix]), float8out_internal(key->lo[iy]),
 						 float8out_internal(key->hi[ix]), float8out_internal(key->hi[iy]));
 	}
-	appendStringInfo(&buf, " reach=%s", float8out_internal(key->reach));
+	appendStringInfo(&buf, " reach=%s", float8out_internal(frechet_key_reach(key)));
+	if (frechet_key_kind_of(key) == FRECHET_KEY_EARTH)
+		appendStringInfoString(&buf, " earth");
 	PG_RETURN_CSTRING(buf.data);
+}
+
+/* Raises 22023 when a reach key and a curve are of different kinds of coordinates. */
+void
+frechet_key_check_kind(const fr_key *reach, frechet_key_kind kind, int argno)
+{
+	static const char *const names[] = {"planar (point[] or geometry)",
+	"Earth-centred metres (geography)"};
+	frechet_key_kind have = frechet_key_kind_of(reach);
+
+	if (have == kind)
+		return;
+	if (argno > 0)
+		ereport(ERROR,
+				(errcode(ERRCODE_INVALID_PARAMETER_VALUE),
+				 errmsg("frechet_key and curve summarise different kinds of coordinates"),
+				 errdetail("The key is %s, but argument %d is %s.", names[have], argno, names[kind]),
+				 errhint("Make the key with frechet_reach on a value of the curve's type.")));
+	ereport(ERROR,
+			(errcode(ERRCODE_INVALID_PARAMETER_VALUE),
+			 errmsg("frechet_key and indexed column summarise different kinds of coordinates"),
+			 errdetail("The key is %s, but the index is on %s.", names[have], names[kind]),
+			 errhint("Make the key with frechet_reach on a value of the column's type.")));
 }
 
 PG_FUNCTION_INFO_V1(frechet_track_key_point_array);
@@ -211,8 +247,9 @@ within_reach(ArrayType *arr, int argno, const fr_key *reach)
 	fr_curve	c;
 
 	point_array_curve(arr, argno, &c);
+	frechet_key_check_kind(reach, FRECHET_KEY_PLANAR, argno);
 	fr_key_of_curve(&c, &key);
-	return fr_key_bound(&key, reach) <= reach->reach;
+	return fr_key_bound(&key, reach) <= frechet_key_reach(reach);
 }
 
 PG_FUNCTION_INFO_V1(frechet_within_reach_point_array);

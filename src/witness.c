@@ -9,11 +9,55 @@
 
 #include "fmgr.h"
 #include "funcapi.h"
+#include "miscadmin.h"
 #include "utils/array.h"
 #include "utils/geo_decls.h"
+#include "utils/memutils.h"
 #include "utils/tuplestore.h"
 
 #include "glue.h"
+
+/*
+ * Sets up a set-returning call's materialized result: a tuple store and
+ * the result descriptor in per-query memory, as InitMaterializedSRF does.
+ * That function, without an expected descriptor, asks get_call_result_type,
+ * which leaves the OUT-parameter arrays it deconstructs in per-query memory
+ * on every call, so a million calls in one query grew the backend by
+ * hundreds of megabytes.  Here the descriptor is worked out in a scratch
+ * context, deleted before returning; only the copy the executor frees
+ * after the call (and the tuple store it ends) are left.
+ */
+void
+glue_srf_materialize(FunctionCallInfo fcinfo)
+{
+	ReturnSetInfo *rsinfo = (ReturnSetInfo *) fcinfo->resultinfo;
+	MemoryContext scratch,
+				old;
+	TupleDesc	desc;
+	Tuplestorestate *store;
+
+	if (rsinfo == NULL || !IsA(rsinfo, ReturnSetInfo) ||
+		(rsinfo->allowedModes & SFRM_Materialize) == 0)
+		ereport(ERROR,
+				(errcode(ERRCODE_FEATURE_NOT_SUPPORTED),
+				 errmsg("set-valued function called in context that cannot accept a set")));
+	scratch = AllocSetContextCreate(CurrentMemoryContext, "frechet_ext result type",
+									ALLOCSET_SMALL_SIZES);
+	old = MemoryContextSwitchTo(scratch);
+	if (rsinfo->expectedDesc != NULL)
+		desc = rsinfo->expectedDesc;
+	else if (get_call_result_type(fcinfo, NULL, &desc) != TYPEFUNC_COMPOSITE)
+		elog(ERROR, "return type must be a row type");
+	MemoryContextSwitchTo(rsinfo->econtext->ecxt_per_query_memory);
+	desc = CreateTupleDescCopy(desc);
+	store = tuplestore_begin_heap((rsinfo->allowedModes & SFRM_Materialize_Random) != 0,
+								  false, work_mem);
+	MemoryContextSwitchTo(old);
+	MemoryContextDelete(scratch);
+	rsinfo->returnMode = SFRM_Materialize;
+	rsinfo->setResult = store;
+	rsinfo->setDesc = desc;
+}
 
 /* A point datum at position pos (0-based k + t) of a 2-D curve. */
 static Datum
@@ -126,7 +170,7 @@ frechet_matching_point_array(PG_FUNCTION_ARGS)
 	size_t		count;
 	double		eps = -1;
 
-	InitMaterializedSRF(fcinfo, 0);
+	glue_srf_materialize(fcinfo);
 	if (PG_ARGISNULL(0) || PG_ARGISNULL(1))
 		PG_RETURN_NULL();
 	point_array_curve(PG_GETARG_ARRAYTYPE_P(0), 1, &p);
@@ -167,7 +211,7 @@ frechet_bottleneck_point_array(PG_FUNCTION_ARGS)
 	Datum		values[5];
 	bool		nulls[5] = {false};
 
-	InitMaterializedSRF(fcinfo, 0);
+	glue_srf_materialize(fcinfo);
 	point_array_curve(PG_GETARG_ARRAYTYPE_P(0), 1, &p);
 	point_array_curve(PG_GETARG_ARRAYTYPE_P(1), 2, &q);
 	pts = glue_matching(&p, &q, -1, &count, "frechet_bottleneck");
@@ -213,7 +257,7 @@ frechet_partial_match_point_array(PG_FUNCTION_ARGS)
 				d;
 	bool		found;
 
-	InitMaterializedSRF(fcinfo, 0);
+	glue_srf_materialize(fcinfo);
 	point_array_curve(PG_GETARG_ARRAYTYPE_P(0), 1, &p);
 	point_array_curve(PG_GETARG_ARRAYTYPE_P(1), 2, &q);
 	glue_check_epsilon(eps, 3);
@@ -243,7 +287,7 @@ frechet_excursions_point_array(PG_FUNCTION_ARGS)
 	fr_excursion *copy;
 	size_t		count;
 
-	InitMaterializedSRF(fcinfo, 0);
+	glue_srf_materialize(fcinfo);
 	point_array_curve(PG_GETARG_ARRAYTYPE_P(0), 1, &p);
 	point_array_curve(PG_GETARG_ARRAYTYPE_P(1), 2, &q);
 	glue_check_epsilon(eps, 3);

@@ -11,8 +11,21 @@
 #             operators) is schema-qualified: pg_catalog., @extschema@. ...
 #   body      SQL-language function bodies qualify their function calls and
 #             casts, and write operators as OPERATOR(schema.op)
+#   atomic    so do standard SQL bodies (RETURN ..., BEGIN ATOMIC ... END):
+#             they are bound when the script runs, but with the script's
+#             search_path, which starts with the target schema, where
+#             others may have planted look-alikes
 #   plpgsql   PL/pgSQL functions carry SET search_path (their bodies are
 #             not parsed here)
+#
+# A DO block's own code is not checked, but the statements it builds are:
+# every dollar-quoted string in it that starts with CREATE, COMMENT or
+# ALTER is linted like a statement of the script, with format()'s %I
+# placeholders (a schema read from pg_extension, as PostgreSQL 15 has no
+# @extschema:name@) standing for a qualifier.  Upgrade scripts
+# (EXT--FROM--TO.sql) may CREATE OR REPLACE FUNCTION: they replace
+# functions of the extension, and PostgreSQL refuses to replace a function
+# that is not a member.
 #
 # The check is lexical: parameter and column names, keywords and the names
 # of languages and access methods are recognised and allowed.  A script
@@ -62,7 +75,7 @@ my %KEYWORD = map { $_ => 1 } qw(
 my %BODY_GRAMMAR = map { $_ => 1 }
   qw(case coalesce nullif greatest least exists array row in any some all values
   cast extract overlay position substring trim filter over within select from
-  where and or not on using returns table);
+  where and or not on using returns table lateral);
 
 # Option values written as bare words: ALIGNMENT = double, STORAGE = plain.
 my %WORD_VALUED_OPTION = map { $_ => 1 } qw(alignment storage category preferred
@@ -70,12 +83,15 @@ my %WORD_VALUED_OPTION = map { $_ => 1 } qw(alignment storage category preferred
 
 my @findings;
 my %allowed;
+our $in_do = '';			# set while linting a statement a DO block builds
+my $upgrade = 0;		# linting an upgrade script
+
 
 # Records a finding at a line.
 sub finding
 {
 	my ($file, $line, $rule, $msg) = @_;
-	push @findings, "$file:$line: [$rule] $msg";
+	push @findings, "$file:$line: [$rule] $msg$in_do";
 }
 
 # Splits a script into statements, each with its first line, its text with
@@ -226,7 +242,7 @@ sub check_statement
 	my $head = lc join ' ', grep { is_word($_) } @t[0 .. ($#t < 5 ? $#t : 5)];
 
 	finding($file, $l, 'replace', 'CREATE OR REPLACE adopts an object planted beforehand')
-	  if $s =~ /\bor\s+replace\b/i;
+	  if $s =~ /\bor\s+replace\b/i && !($upgrade && $head =~ /^create or replace function\b/);
 	finding($file, $l, 'replace', 'IF NOT EXISTS adopts an object planted beforehand')
 	  if $head =~ /^create/ && $s =~ /\bif\s+not\s+exists\b/i;
 	finding($file, $l, 'definer', 'SECURITY DEFINER') if $s =~ /\bsecurity\s+definer\b/i;
@@ -261,10 +277,13 @@ sub check_statement
 		next if $skip{$k};
 		# A SQL-standard body (RETURN expr, or BEGIN ATOMIC ... END) is parsed
 		# when the function is created, with the script's search_path (the
-		# extension's schema and those of the extensions it requires), and
-		# bound then: a later search_path cannot redirect it.  Its names are
-		# not checked here.
-		last if $is_function && (lc $w eq 'return' || (lc $w eq 'begin' && lc($t[$k + 1] // '') eq 'atomic'));
+		# target schema first, then those of the extensions it requires),
+		# and bound then: its calls, casts and operators must be qualified.
+		if ($is_function && (lc $w eq 'return' || (lc $w eq 'begin' && lc($t[$k + 1] // '') eq 'atomic')))
+		{
+			check_body_tokens($file, $l, 'atomic', [@t[$k + 1 .. $#t]]);
+			last;
+		}
 		if (lc $w eq 'operator' && ($t[$k + 1] // '') eq '(')
 		{
 			$in_operator_ref = 1;
@@ -297,7 +316,29 @@ sub check_statement
 	if ($head =~ /^create (?:or replace )?(?:function|procedure)/ && $s =~ /\blanguage\s+sql\b/i)
 	{
 		check_body($file, $_->[1], $_->[0]) for @{$st->{bodies}};
-		# SQL-standard bodies (BEGIN ATOMIC) are bound at creation: see above.
+	}
+	check_do_block($file, $_->[1], $_->[0]) for $head =~ /^do\b/ ? @{$st->{bodies}} : ();
+}
+
+# Lints the statements a DO block builds: its dollar-quoted strings that
+# start with CREATE, COMMENT or ALTER, format()'s %I standing for a schema.
+sub check_do_block
+{
+	my ($file, $l, $code) = @_;
+	while ($code =~ /(\$(?:[A-Za-z_][A-Za-z0-9_]*)?\$)(.*?)\1/sg)
+	{
+		my $inner = $2;
+		my $at = $l + (() = substr($code, 0, $-[0]) =~ /\n/g);
+		next unless $inner =~ /^\s*(?:create|comment|alter)\b/i;
+		$inner =~ s/%(?:[0-9]+\$)?I\./placeholder_schema./g;
+		$inner =~ s/%%/%/g;
+		local $in_do = ' (in a statement a DO block builds)';
+		for my $st (statements($inner))
+		{
+			$st->{line} += $at - 1;
+			$_->[1] += $at - 1 for @{$st->{bodies}};
+			check_statement($file, $st) unless $st->{meta};
+		}
 	}
 }
 
@@ -305,7 +346,14 @@ sub check_statement
 sub check_body
 {
 	my ($file, $l, $body) = @_;
-	my @t = tokens($body =~ s/'(?:[^']|'')*'/'?'/gr);
+	check_body_tokens($file, $l, 'body', [tokens($body =~ s/'(?:[^']|'')*'/'?'/gr)]);
+}
+
+# Checks the tokens of a body under the given rule.
+sub check_body_tokens
+{
+	my ($file, $l, $rule, $tok) = @_;
+	my @t = @$tok;
 	my $in_operator_ref = 0;
 	for (my $k = 0; $k < @t; $k++)
 	{
@@ -317,23 +365,25 @@ sub check_body
 		}
 		if ($in_operator_ref)
 		{
-			finding($file, $l, 'body', "operator $w in a body is not schema-qualified")
+			finding($file, $l, $rule, "operator $w in a body is not schema-qualified")
 			  if $w ne '(' && $w ne ')' && !is_qualified($w);
 			$in_operator_ref = 0 if $w eq ')';
 			next;
 		}
+		# a table alias with column names: ... AS x(a, b)
+		next if is_word($w) && $k > 0 && lc $t[$k - 1] eq 'as';
 		if (is_word($w) && ($t[$k + 1] // '') eq '(' && !$BODY_GRAMMAR{lc $w} && !$allowed{lc $w})
 		{
-			finding($file, $l, 'body', "call of $w in a body is not schema-qualified");
+			finding($file, $l, $rule, "call of $w in a body is not schema-qualified");
 		}
 		elsif ($w eq '::' && defined $t[$k + 1] && !is_qualified($t[$k + 1]))
 		{
-			finding($file, $l, 'body', "cast to $t[$k + 1] in a body is not schema-qualified");
+			finding($file, $l, $rule, "cast to $t[$k + 1] in a body is not schema-qualified");
 		}
 		elsif (is_operator($w) || $w eq '=')
 		{
 			next if $w eq '*' && $k > 0 && $t[$k - 1] =~ /^(?:\(|,|select)$/i;
-			finding($file, $l, 'body', "operator $w in a body is not written OPERATOR(schema.op)");
+			finding($file, $l, $rule, "operator $w in a body is not written OPERATOR(schema.op)");
 		}
 	}
 }
@@ -344,6 +394,7 @@ sub lint_file
 	my ($file, $text) = @_;
 	my @st = statements($text);
 
+	$upgrade = $file =~ /--[^\/]*--[^\/]*\.sql$/ ? 1 : 0;
 	%allowed = ();
 	while ($text =~ /^\s*--\s*lint_sql:\s*allow\s+([^\n]*)/mg)
 	{
@@ -374,14 +425,40 @@ AS $$ SELECT abs(x) + 1 $$ LANGUAGE sql;
 CREATE FUNCTION @extschema@.k(x pg_catalog.float8) RETURNS pg_catalog.float8
 AS $$ BEGIN RETURN x; END $$ LANGUAGE plpgsql;
 CREATE TABLE IF NOT EXISTS @extschema@.t (id pg_catalog.int4);
+CREATE FUNCTION @extschema@.m(x pg_catalog.float8) RETURNS pg_catalog.float8
+LANGUAGE sql RETURN st_srid(x);
 SQL
+
+# A DO block building a statement with a violation (an unqualified call in
+# a standard body), and the same with the call qualified: --self-test
+# wants a finding in the first and none in the second.
+my $BAD_DO = <<'SQL';
+\echo Use "CREATE EXTENSION x" to load this file. \quit
+DO $do$
+BEGIN
+	EXECUTE pg_catalog.format($sql$
+CREATE FUNCTION @extschema@.n(g %1$I.geometry) RETURNS pg_catalog.int4
+LANGUAGE sql RETURN st_srid(g);
+$sql$, 'gis');
+END $do$;
+SQL
+(my $GOOD_DO = $BAD_DO) =~ s/RETURN st_srid/RETURN %1\$I.st_srid/;
 
 if (@ARGV && $ARGV[0] eq '--self-test')
 {
 	lint_file('self-test.sql', $BAD);
 	my %seen = map { /\[(\w+)\]/ ? ($1 => 1) : () } @findings;
-	my @rules = qw(echo replace definer name unqual body plpgsql);
+	my @rules = qw(echo replace definer name unqual body atomic plpgsql);
 	my @missed = grep { !$seen{$_} } @rules;
+	my @bad_findings = @findings;
+	@findings = ();
+	lint_file('self-test-do.sql', $BAD_DO);
+	push @missed, 'a statement built in a DO block' unless grep { /DO block builds/ } @findings;
+	push @bad_findings, @findings;
+	@findings = ();
+	lint_file('self-test-do-good.sql', $GOOD_DO);
+	push @missed, 'no finding in a clean DO block (' . join('; ', @findings) . ')' if @findings;
+	@findings = @bad_findings;
 	if (@missed)
 	{
 		print "not ok 1 - lint_sql self-test: planted violations not found: @missed\n";

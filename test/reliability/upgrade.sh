@@ -27,15 +27,19 @@ PG_BIN=${PG_BIN:-/usr/lib/postgresql/15/bin}
 SHAREDIR=$("${PG_CONFIG:-$PG_BIN/pg_config}" --sharedir)/extension
 DB=frechet_rel_upgrade
 
-# The schema of database $1, normalised, on stdout.  Per-run numbers are
-# masked: the OIDs of extension configuration tables (postgis's
-# spatial_ref_sys) and their tables' frozen transaction ids.
+# The schema of database $1, normalised, on stdout: besides the lines that
+# carry OIDs, the OIDs of extension configuration tables (PostGIS's
+# spatial_ref_sys) and their transaction ids are blanked, and the list of
+# an extension's required extensions is sorted (pg_dump prints it in
+# pg_depend's physical order, which ALTER EXTENSION UPDATE rewrites).
 schema_of() {
-	"$PG_BIN/pg_dump" --schema-only --binary-upgrade -d "$1" |
-		grep -vE '^--|^$|^\\(un)?restrict |binary_upgrade_set_next_|binary_upgrade_set_record_init_privs' |
-		sed -E -e "s/(binary_upgrade_create_empty_extension\('[^']*', '[^']*', (true|false), '[^']*', )'\{[0-9,]*\}'/\1'{oids}'/" \
-			-e "s/relfrozenxid = '[0-9]+', relminmxid = '[0-9]+'/relfrozenxid = 'xid', relminmxid = 'mxid'/" \
-			-e "s/^WHERE oid = '[0-9]+';/WHERE oid = 'oid';/"
+	"$PG_BIN/pg_dump" --schema-only --binary-upgrade -d "$1" | grep -vE '^--|^$|^\\(un)?restrict |binary_upgrade_set_next_|binary_upgrade_set_record_init_privs' |
+		perl -pe "s/relfrozenxid = '\\d+', relminmxid = '\\d+'/relfrozenxid = 'X', relminmxid = 'X'/;
+			s/^WHERE oid = '\\d+';\$/WHERE oid = 'X';/;
+			if (/binary_upgrade_create_empty_extension/) {
+				s/'\\{[0-9,]+\\}'/'{X}'/;
+				s/ARRAY\\[([^\\]]+)\\]/'ARRAY[' . join(',', sort split(m{,}, \$1)) . ']'/e;
+			}"
 }
 
 # Installs $1 (extension) at version $2 ('' for the default) into a fresh

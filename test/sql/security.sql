@@ -8,7 +8,8 @@
 -- needs one sample row below.  The generated statements are not echoed, so
 -- this file's output does not change as members are added.
 -- (The static side, unqualified names in sql/*.sql, is checked by
--- test/reliability/lint_sql.pl.)
+-- test/reliability/lint_sql.pl; PostGIS look-alikes planted in the target
+-- schema are test/sql/postgis_security.sql.)
 SET client_min_messages = warning;
 
 CREATE TEMP TABLE members AS
