@@ -75,3 +75,13 @@ CREATE OR REPLACE FUNCTION @extschema@.frechet_gist_consistent(internal, pg_cata
 RETURNS pg_catalog.bool
 AS 'MODULE_PATHNAME', 'frechet_gist_consistent_planar'
 LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+
+CREATE FUNCTION @extschema@.frechet_pings_excursions(trip pg_catalog.point[], route pg_catalog.point[], epsilon pg_catalog.float8,
+	OUT ping_from pg_catalog.int4, OUT ping_to pg_catalog.int4, OUT route_from pg_catalog.float8, OUT route_to pg_catalog.float8,
+	OUT max_leash pg_catalog.float8, OUT trip_length pg_catalog.float8)
+RETURNS SETOF pg_catalog.record
+AS 'MODULE_PATHNAME', 'frechet_pings_excursions_point_array'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 2000 ROWS 2;
+
+COMMENT ON FUNCTION @extschema@.frechet_pings_excursions(pg_catalog.point[], pg_catalog.point[], pg_catalog.float8) IS
+'where sparse pings left the route: the runs of off-route pings of an in-order plan with the fewest (ping numbers, the route positions around each run, the farthest leash, the run''s length); no rows exactly when frechet_pings_at_most is true';

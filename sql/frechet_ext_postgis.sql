@@ -736,3 +736,23 @@ COMMENT ON OPERATOR @extschema@.&~> (geography, frechet_key) IS
 
 ALTER OPERATOR FAMILY @extschema@.frechet_geography_ops USING gist ADD
 	OPERATOR 30 @extschema@.&~> (geography, frechet_key);
+
+CREATE FUNCTION @extschema@.frechet_pings_excursions(trip geometry, route geometry, epsilon pg_catalog.float8,
+	OUT ping_from pg_catalog.int4, OUT ping_to pg_catalog.int4, OUT route_from pg_catalog.float8, OUT route_to pg_catalog.float8,
+	OUT max_leash pg_catalog.float8, OUT trip_length pg_catalog.float8)
+RETURNS SETOF pg_catalog.record
+AS 'MODULE_PATHNAME', 'frechet_pings_excursions_geometry'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 2000 ROWS 2;
+
+COMMENT ON FUNCTION @extschema@.frechet_pings_excursions(geometry, geometry, pg_catalog.float8) IS
+'where sparse pings left the route (units of the SRID): the runs of off-route pings of an in-order plan with the fewest; no rows exactly when frechet_pings_at_most is true';
+
+CREATE FUNCTION @extschema@.frechet_pings_excursions(trip geography, route geography, epsilon pg_catalog.float8,
+	OUT ping_from pg_catalog.int4, OUT ping_to pg_catalog.int4, OUT route_from pg_catalog.float8, OUT route_to pg_catalog.float8,
+	OUT max_leash pg_catalog.float8, OUT trip_length pg_catalog.float8)
+RETURNS SETOF pg_catalog.record
+AS 'MODULE_PATHNAME', 'frechet_pings_excursions_geography'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 2000 ROWS 2;
+
+COMMENT ON FUNCTION @extschema@.frechet_pings_excursions(geography, geography, pg_catalog.float8) IS
+'where sparse pings left the route (metres): the runs of off-route pings of an in-order plan with the fewest; no rows exactly when frechet_pings_at_most is true';

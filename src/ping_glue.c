@@ -8,6 +8,8 @@
 #include <math.h>
 
 #include "fmgr.h"
+#include "funcapi.h"
+#include "utils/tuplestore.h"
 
 #include "geo_glue.h"
 #include "geodesy.h"
@@ -171,6 +173,7 @@ pings_within_reach(FunctionCallInfo fcinfo, ping_input input)
 	fr_key		key;
 	const fr_key *reach = PG_GETARG_FRECHET_KEY(1);
 
+	frechet_key_check_kind(reach, input == PING_GEOGRAPHY ? FRECHET_KEY_EARTH : FRECHET_KEY_PLANAR, 2);
 	if (input == PING_POINTS)
 	{
 		fr_curve	c;
@@ -180,7 +183,7 @@ pings_within_reach(FunctionCallInfo fcinfo, ping_input input)
 	}
 	else
 		geo_argument_key(fcinfo, 1, input == PING_GEOGRAPHY, &key);
-	PG_RETURN_BOOL(fr_key_ping_bound(&key, reach) <= reach->reach);
+	PG_RETURN_BOOL(fr_key_ping_bound(&key, reach) <= frechet_key_reach(reach));
 }
 
 PG_FUNCTION_INFO_V1(frechet_pings_within_reach_point_array);
@@ -205,4 +208,75 @@ Datum
 frechet_pings_within_reach_geography(PG_FUNCTION_ARGS)
 {
 	return pings_within_reach(fcinfo, PING_GEOGRAPHY);
+}
+
+/*
+ * frechet_pings_excursions for every input type: one row a run of
+ * off-route pings (ping numbers from 1, route positions k + t with
+ * vertices from 1, the farthest ping's leash and the run's length along
+ * the pings; metres for geography, lengths along the chords).
+ */
+static Datum
+pings_excursions(FunctionCallInfo fcinfo, ping_input input)
+{
+	ReturnSetInfo *rsinfo = (ReturnSetInfo *) fcinfo->resultinfo;
+	ping_args	pa;
+	glue_env	g;
+	double		eps;
+	fr_excursion *x = NULL;
+	size_t		count = 0;
+	fr_status	st;
+
+	glue_srf_materialize(fcinfo);
+	ping_decode(fcinfo, input, PG_NARGS(), &pa);
+	eps = PG_GETARG_FLOAT8(2);
+	glue_check_epsilon(eps, 3);
+	if (pa.geodetic)
+		eps = fr_metres_to_chord(eps);
+	glue_env_begin(&g, fr_pings_excursions_scratch_bytes(pa.trip.n, pa.route.n),
+				   "frechet_pings_excursions");
+	st = fr_pings_excursions(&g.env, &pa.trip, &pa.route, eps, &x, &count);
+	if (st == FR_OK)
+	{
+		for (size_t k = 0; k < count; k++)
+		{
+			Datum		values[6];
+			bool		nulls[6] = {false};
+
+			values[0] = Int32GetDatum((int32) x[k].trip_from + 1);
+			values[1] = Int32GetDatum((int32) x[k].trip_to + 1);
+			values[2] = Float8GetDatum(x[k].route_from + 1);
+			values[3] = Float8GetDatum(x[k].route_to + 1);
+			values[4] = Float8GetDatum(pa.geodetic ? fr_chord_to_metres(x[k].max_leash) : x[k].max_leash);
+			values[5] = Float8GetDatum(x[k].trip_length);
+			tuplestore_putvalues(rsinfo->setResult, rsinfo->setDesc, values, nulls);
+		}
+	}
+	glue_env_end(&g);
+	glue_check_status(st, "frechet_pings_excursions");
+	return (Datum) 0;
+}
+
+PG_FUNCTION_INFO_V1(frechet_pings_excursions_point_array);
+/* frechet_pings_excursions(point[], point[], float8): runs of off-route pings. */
+Datum
+frechet_pings_excursions_point_array(PG_FUNCTION_ARGS)
+{
+	return pings_excursions(fcinfo, PING_POINTS);
+}
+
+PG_FUNCTION_INFO_V1(frechet_pings_excursions_geometry);
+/* frechet_pings_excursions(geometry, geometry, float8): units of the SRID. */
+Datum
+frechet_pings_excursions_geometry(PG_FUNCTION_ARGS)
+{
+	return pings_excursions(fcinfo, PING_GEOMETRY);
+}
+
+PG_FUNCTION_INFO_V1(frechet_pings_excursions_geography);
+/* frechet_pings_excursions(geography, geography, float8): metres. */
+Datum
+frechet_pings_excursions_geography(PG_FUNCTION_ARGS)
+{
+	return pings_excursions(fcinfo, PING_GEOGRAPHY);
 }

@@ -150,7 +150,8 @@ WHERE NOT (outcome = expected
 ORDER BY 1, 2, 3;
 
 -- Members whose work is linear in the input and needs no scratch memory
--- (the index summaries, track pieces and their GeoJSON, and
+-- (the index summaries, track pieces and their GeoJSON, the ping
+-- excursions (a linear scan with a bounded frontier), and
 -- frechet_simplify's O(n log n) greedy): they
 -- neither hit the memory limit nor run long, so the two checks below leave
 -- them out.  frechet_at_most is listed for the memory check only: when its
@@ -159,6 +160,7 @@ CREATE FUNCTION pg_temp.linear_members() RETURNS text[] LANGUAGE sql AS $$
 	SELECT pg_catalog.array_agg(c.member) FROM callables c
 	WHERE c.member LIKE '&~%' OR c.member LIKE 'frechet_reach%' OR c.member LIKE 'frechet_track_key%'
 	   OR c.member LIKE 'frechet_within_reach%' OR c.member LIKE 'frechet_pings_within_reach%'
+	   OR c.member LIKE 'frechet_pings_excursions%'
 	   OR c.member LIKE 'frechet_simplify%'
 	   OR c.member LIKE 'frechet_track_piece%' OR c.member LIKE 'frechet_track_geojson%'
 $$;

@@ -38,6 +38,17 @@ SELECT abs(frechet_pings_distance('{"(0,0)","(8,1)","(2,1)","(10,0)"}'::point[],
        frechet_pings_distance('{"(0,1)","(10,-2)"}'::point[], '{"(0,0)","(10,0)"}'::point[], 9.5) AS gap_too_short,
        frechet_pings_distance('{"(0,1)","(10,-2)"}'::point[], '{"(0,0)","(10,0)"}'::point[], 10) AS gap_enough;
 
+-- Where the pings left the route: runs of off-route pings of an in-order
+-- plan with the fewest (ping numbers from 1, route positions k + t).
+-- The detour's one ping; backwards, all but the one ping that can stay.
+SELECT id, label, x.*
+FROM ping_trip, ping_route, frechet_pings_excursions(track, route, 50) x
+ORDER BY id, ping_from;
+-- none exactly when the ping test passes
+SELECT id, frechet_pings_at_most(track, route, 50) AS pings_50,
+       (SELECT count(*) FROM frechet_pings_excursions(track, route, 50)) AS excursions
+FROM ping_trip, ping_route ORDER BY id;
+
 -- NULL: no limit for max_gap; NULL trip, route or epsilon give NULL.
 SELECT frechet_pings_at_most(track, route, 50, NULL) AS null_gap,
        frechet_pings_at_most(NULL, route, 50) AS null_trip,

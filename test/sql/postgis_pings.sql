@@ -20,6 +20,12 @@ SELECT frechet_at_most(trip, route, 50) AS continuous_50,
            , '{"(0,0)","(400,0)","(400,300)","(800,300)","(800,600)"}'::point[]) AS same_as_point_array
 FROM gping;
 
+-- Where the pings left the route, on geometry and geography (metres).
+SELECT x.* FROM gping, frechet_pings_excursions(ST_SetPoint(trip, 3, 'POINT(550 507)'::geometry), route, 50) x;
+SELECT ping_from, ping_to, round(max_leash) AS max_leash_m
+FROM frechet_pings_excursions('LINESTRING(0 51.5, 0.004 51.503, 0.01 51.51)'::geography,
+                              'LINESTRING(0 51.5, 0.01 51.5, 0.01 51.51)'::geography, 50);
+
 -- 3-D geometry: Z counts.
 SELECT frechet_pings_distance('LINESTRING Z (0 0 0, 10 0 5)'::geometry, 'LINESTRING Z (0 0 0, 10 0 0)'::geometry) AS with_z;
 
