@@ -121,8 +121,13 @@ FUZZ_GLUE_fuzz_ewkb = src/ewkb.c
 
 # The engine's work is floating point: comparison tracing (trace-cmp) would
 # cost two thirds of the time and guide little, so it is off there.
-test/fuzz/fuzz_engine.bin: test/fuzz/fuzz_engine.c $(CORE_SRC) src/core/*.h
-	$(FUZZ_CC) $(FUZZ_CFLAGS) -O2 -fno-sanitize-coverage=trace-cmp -o $@ test/fuzz/fuzz_engine.c $(CORE_SRC) -lm
+# Engine targets: fuzz_engine (distance, decision), fuzz_witness (matching,
+# excursions, partial matching), fuzz_index (summary bounds, cheap verdicts,
+# simplification), fuzz_pings (the ping functions); all decode through
+# test/fuzz/fuzz_case.h.
+ENGINE_FUZZ = fuzz_engine fuzz_witness fuzz_index fuzz_pings
+$(patsubst %,test/fuzz/%.bin,$(ENGINE_FUZZ)): test/fuzz/%.bin: test/fuzz/%.c test/fuzz/fuzz_case.h $(CORE_SRC) src/core/*.h
+	$(FUZZ_CC) $(FUZZ_CFLAGS) -O2 -fno-sanitize-coverage=trace-cmp -o $@ $< $(CORE_SRC) -lm
 
 test/fuzz/fuzz_%.bin: test/fuzz/fuzz_%.c test/fuzz/pg_stubs.c test/fuzz/pg_stubs.h src/*.c src/*.h $(CORE_SRC) src/core/*.h
 	$(FUZZ_CC) $(FUZZ_CFLAGS) -I$(PG_INCLUDEDIR_SERVER) -o $@ $< test/fuzz/pg_stubs.c $(FUZZ_GLUE_fuzz_$*) -lm
@@ -142,6 +147,13 @@ fuzz-build: $(FUZZ_TARGETS)
 # FUZZ_SECONDS per target (default 60); see test/fuzz/run.
 fuzz: fuzz-build
 	bash test/fuzz/run
+
+# Long runs: FUZZ_LONG_SECONDS per target (default 600), two at a time,
+# each input limited as in CI (a hang of over 10 s is a finding).
+FUZZ_LONG_SECONDS ?= 600
+.PHONY: fuzz-long
+fuzz-long: fuzz-build
+	FUZZ_SECONDS=$(FUZZ_LONG_SECONDS) FUZZ_JOBS=2 bash test/fuzz/run
 
 check-sanitize: $(SAN_TESTS)
 	@set -e; for t in $(SAN_TESTS); do ./$$t; done

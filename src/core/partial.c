@@ -11,19 +11,46 @@
 
 #include "fr_internal.h"
 
-/* Nearest distance from a vertex to a whole curve, and its position. */
+/*
+ * Nearest distance from a vertex to a whole curve, and its position.  With
+ * as_bound, in the deciders' arithmetic: where the nearest point is inside
+ * a segment, the value at which the deciders open the free interval there
+ * (fr_point_segment_opening, a few ulps below the height), so that the
+ * value is a lower bound a threshold search may return; an interpolated
+ * point's distance could round above the threshold.  Without it, the
+ * distance to the interpolated nearest point (an answer in itself).
+ */
 static double
-point_to_curve(const fr_pt *pt, const fr_prep *c, double *pos)
+point_to_curve(const fr_pt *pt, const fr_prep *c, bool as_bound, double *pos)
 {
 	double		best = fr_pt_dist(pt, &c->v[0]);
 
 	*pos = 0;
+	for (size_t k = 1; k < c->n; k++)
+	{
+		double		d = fr_pt_dist(pt, &c->v[k]);
+
+		if (d < best)
+		{
+			best = d;
+			*pos = (double) k;
+		}
+	}
 	for (size_t k = 0; k + 1 < c->n; k++)
 	{
-		double		t = fr_nearest_param(pt, c, k, 0.0, 1.0);
-		fr_pt		q = fr_prep_point(c, k, t);
-		double		d = fr_pt_dist(pt, &q);
+		double		t = fr_nearest_param(pt, c, k, 0.0, 1.0),
+					d;
 
+		if (!(t > 0.0 && t < 1.0))
+			continue;			/* an end: its vertex was measured above */
+		if (as_bound)
+			d = fr_point_segment_opening(pt, &c->v[k], &c->s[k], &c->v[k + 1]);
+		else
+		{
+			fr_pt		q = fr_prep_point(c, k, t);
+
+			d = fr_pt_dist(pt, &q);
+		}
 		if (d < best)
 		{
 			best = d;
@@ -187,6 +214,27 @@ partial_sweep(const fr_env *env, const fr_prep *p, const fr_prep *q, double eps,
 			}
 		}
 	}
+
+	/*
+	 * The route's last point reached along the top of the last cell (as
+	 * the deciders accept it): no row's right edge shows it, as it is the
+	 * end of the last one.
+	 */
+	if (n >= 2 && row[n - 2] != FR_EMPTY && fr_pt_dist(end, &q->v[q->n - 1]) <= eps)
+	{
+		if (target != NULL)
+		{
+			if ((target->row == q->n - 2 && target->t == 1.0) || target->row == q->n - 1)
+				*found = true;
+			return FR_OK;
+		}
+		*found = true;
+		if (best != NULL && fr_pt_dist(end, &q->v[q->n - 1]) < best_leash)
+		{
+			best->row = q->n - 2;
+			best->t = 1.0;
+		}
+	}
 	return FR_OK;
 }
 
@@ -210,7 +258,7 @@ degenerate_partial(const fr_prep *trip, const fr_prep *route, double *from, doub
 	if (trip->n == 1)
 	{
 		double		pos,
-					d = point_to_curve(&trip->v[0], route, &pos);
+					d = point_to_curve(&trip->v[0], route, false, &pos);
 
 		*from = *to = pos;
 		return d;
@@ -249,7 +297,7 @@ fr_partial_distance(const fr_env *env, const fr_curve *trip, const fr_curve *rou
 		return FR_ENOMEM;
 	}
 	/* both trip ends must meet the route somewhere */
-	lo = fmax(point_to_curve(&p.v[0], &q, &pos), point_to_curve(&p.v[p.n - 1], &q, &pos));
+	lo = fmax(point_to_curve(&p.v[0], &q, true, &pos), point_to_curve(&p.v[p.n - 1], &q, true, &pos));
 	/* the whole route is one of the parts: a greedy matching bounds from above */
 	st = fr_threshold_search(env, &p, &q, partial_decide, lo,
 							 fr_greedy_upper_bound(&p, &q), row, result, stats);

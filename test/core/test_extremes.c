@@ -377,6 +377,37 @@ partial_match_part_is_within_eps(void **state)
 	}
 }
 
+/*
+ * Found by fuzz_witness: the partial distance of a curve to itself came
+ * back as 3.6e-15 (a lower bound measured at an interpolated point, which
+ * rounding put off the route, was returned as the answer), and a path
+ * reaching the route's last point along the top of the last cell was not
+ * seen.  A curve is its own part, so the partial distance is 0.
+ */
+static void
+partial_distance_to_itself_is_zero(void **state)
+{
+	const double found[] = {1.5, 0, 0, 0, 27, 0.25};
+	test_heap	h;
+	fr_env		e = test_env(&h);
+	fr_curve	p = {found, 3, 2};
+	double		pd = -1;
+
+	assert_int_equal(fr_partial_distance(&e, &p, &p, &pd, NULL), FR_OK);
+	assert_true(pd == 0.0);
+	for (int trial = 0; trial < 200; trial++)
+	{
+		size_t		n = 2 + test_rand64() % 12;
+		double	   *a = test_walk(n, test_uniform(-1e3, 1e3), test_uniform(-1e3, 1e3), 50);
+		fr_curve	c = {a, n, 2};
+
+		assert_int_equal(fr_partial_distance(&e, &c, &c, &pd, NULL), FR_OK);
+		assert_true(pd == 0.0);
+		free(a);
+	}
+	assert_int_equal(h.live, 0);
+}
+
 int
 main(void)
 {
@@ -386,6 +417,7 @@ main(void)
 		cmocka_unit_test(parked_vehicles_decide_at_once),
 		cmocka_unit_test(repeated_vertices_keep_every_answer),
 		cmocka_unit_test(partial_match_part_is_within_eps),
+		cmocka_unit_test(partial_distance_to_itself_is_zero),
 	};
 
 	return cmocka_run_group_tests_name("extremes", tests, NULL, NULL);
