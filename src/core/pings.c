@@ -35,12 +35,12 @@ typedef struct route_at
 	double		t;
 } route_at;
 
-/* An interval of route arc length. */
-typedef struct arc_span
+/* A stretch of the route between two places, in (segment, parameter) order. */
+typedef struct route_span
 {
-	double		from,
+	route_at	from,
 				to;
-} arc_span;
+} route_span;
 
 /* Everything a decision needs, prepared once for a search. */
 typedef struct ping_case
@@ -50,8 +50,9 @@ typedef struct ping_case
 	const fr_prep *r;			/* the route */
 	double		gap;			/* max_gap in local units; INFINITY for none */
 	double	   *cum;			/* arc length at each route vertex (gap only) */
-	arc_span   *a,
+	route_span *a,
 			   *b;				/* reachable spans of one ping and the next (gap only) */
+	size_t		cap;			/* spans a and b hold */
 	uint64_t	decisions;
 } ping_case;
 
@@ -59,7 +60,7 @@ typedef struct ping_case
 size_t
 fr_pings_scratch_bytes(size_t n, size_t m)
 {
-	return fr_scratch_bytes(n, m) + (m + 1) * (sizeof(double) + 2 * sizeof(arc_span)) + 64;
+	return fr_scratch_bytes(n, m) + (m + 1) * (sizeof(double) + 2 * sizeof(route_span)) + 64;
 }
 
 /*
@@ -122,78 +123,134 @@ decide_greedy(const ping_case *c, double eps, bool *result)
 	return FR_OK;
 }
 
+/* Is place x before or at place y along the route? */
+static inline bool
+at_le(route_at x, route_at y)
+{
+	return x.k < y.k || (x.k == y.k && x.t <= y.t);
+}
+
+/* Arc length of a place on the route. */
+static inline double
+arc_of(const ping_case *c, route_at x)
+{
+	return c->cum[x.k] + x.t * c->r->s[x.k].len;
+}
+
 /*
- * The ping decision with max_gap: the reachable arc-length spans of each
- * ping, widened by max_gap and cut to where the next ping is within eps.
- * Cost: for each ping, the route segments under its window.
+ * The parameter on segment k where the window of span u ends (the span's
+ * end plus max_gap of route length, never before the span's own end):
+ * 1 when the window covers the whole segment, < 0 when it ends before
+ * the segment.
+ */
+static double
+window_end_on(const ping_case *c, const route_span *u, double end_arc, size_t k)
+{
+	double		len = c->r->s[k].len,
+				t;
+
+	if (k < u->to.k)
+		return 1.0;
+	t = len > 0 ? (end_arc - c->cum[k]) / len : (end_arc >= c->cum[k] ? 1.0 : -1.0);
+	if (k == u->to.k)
+		t = fmax(t, u->to.t);
+	return fmin(t, 1.0);
+}
+
+/* Doubles the span arrays; false when out of memory. */
+static bool
+grow_spans(ping_case *c, route_span **cur, route_span **next)
+{
+	size_t		cap = 2 * c->cap;
+	route_span *a = fr_alloc(c->env, 2 * cap * sizeof(route_span));
+
+	if (a == NULL)
+		return false;
+	memcpy(a, *cur, c->cap * sizeof(route_span));
+	memcpy(a + cap, *next, c->cap * sizeof(route_span));
+	if (c->a != (route_span *) (c->cum + c->r->n))
+		fr_free(c->env, c->a < c->b ? c->a : c->b);
+	c->a = a;
+	c->b = a + cap;
+	*cur = c->a;
+	*next = c->b;
+	c->cap = cap;
+	return true;
+}
+
+/*
+ * The ping decision with max_gap: the reachable stretches of each ping,
+ * widened by max_gap of route length and cut to where the next ping is
+ * within eps.  Places are ordered as (segment, parameter) pairs, exactly
+ * as the greedy scan orders them, so a max_gap can only remove matchings
+ * (found by fuzzing: ordered by arc length, two places on one long
+ * segment rounded to one and the gap test accepted a step back); arc
+ * length measures only the gap.  Cost: for each ping, the route segments
+ * under its windows.
  */
 static fr_status
-decide_gap(const ping_case *c, double eps, bool *result)
+decide_gap(ping_case *c, double eps, bool *result)
 {
 	const fr_prep *p = c->p,
 			   *r = c->r;
-	const double *cum = c->cum;
-	arc_span   *cur = c->a,
+	route_span *cur = c->a,
 			   *next = c->b;
 	size_t		ncur = 1;
-	double		total = cum[r->n - 1];
 	fr_poll		poll;
 
 	fr_poll_init(&poll, c->env);
 	*result = false;
 	if (fr_pt_dist(&p->v[0], &r->v[0]) > eps || fr_pt_dist(&p->v[p->n - 1], &r->v[r->n - 1]) > eps)
 		return FR_OK;
-	cur[0].from = cur[0].to = 0;
+	cur[0].from.k = cur[0].to.k = 0;
+	cur[0].from.t = cur[0].to.t = 0;
 	for (size_t i = 1; i + 1 < p->n; i++)
 	{
 		size_t		nnext = 0,
-					w = 0,
-					k;
+					w = 0;
+		double		last_end = arc_of(c, cur[ncur - 1].to) + c->gap;
 
-		/* the first segment that reaches the window's start */
-		k = 0;
-		while (k + 2 < r->n && cum[k + 1] < cur[0].from)
-			k++;
-		for (; k + 1 < r->n && w < ncur; k++)
+		for (size_t k = cur[0].from.k; k + 1 < r->n && w < ncur; k++)
 		{
 			double		lo,
-						hi,
-						from,
-						to;
+						hi;
 
-			if (cum[k] > cur[ncur - 1].to + c->gap)
+			if (k > cur[ncur - 1].to.k && c->cum[k] > last_end)
 				break;			/* past the last window */
 			fr_free_interval(&p->v[i], &r->v[k], &r->s[k], &r->v[k + 1], eps, &lo, &hi);
 			if (fr_poll_add(&poll, 1))
 				return FR_EINTR;
+			/* windows that end before this segment end before every later one */
+			while (w < ncur && window_end_on(c, &cur[w], arc_of(c, cur[w].to) + c->gap, k) < 0)
+				w++;
 			if (lo > hi)
 				continue;
-			from = cum[k] + lo * r->s[k].len;
-			to = cum[k] + hi * r->s[k].len;
-			/* intersect [from, to] with the windows [cur.from, cur.to + gap] */
-			while (w < ncur && cur[w].to + c->gap < from)
-				w++;
-			for (size_t u = w; u < ncur && cur[u].from <= to; u++)
+			for (size_t u = w; u < ncur && (cur[u].from.k < k || (cur[u].from.k == k && cur[u].from.t <= hi)); u++)
 			{
-				double		a = fmax(from, cur[u].from),
-							b = fmin(to, cur[u].to + c->gap);
+				double		a = cur[u].from.k == k ? fmax(lo, cur[u].from.t) : lo,
+							b = fmin(hi, window_end_on(c, &cur[u], arc_of(c, cur[u].to) + c->gap, k));
+				route_span *last = nnext > 0 ? &next[nnext - 1] : NULL;
 
 				if (a > b)
 					continue;
-				if (nnext > 0 && a <= next[nnext - 1].to)
-					next[nnext - 1].to = fmax(next[nnext - 1].to, b);
-				else
+				if (last && (at_le((route_at) {k, a}, last->to) ||
+							 (last->to.k + 1 == k && last->to.t == 1.0 && a == 0.0)))
 				{
-					next[nnext].from = a;
-					next[nnext].to = b;
-					nnext++;
+					if (at_le(last->to, (route_at) {k, b}))
+						last->to = (route_at) {k, b};
+					continue;
 				}
+				if (nnext == c->cap && !grow_spans(c, &cur, &next))
+					return FR_ENOMEM;
+				next[nnext].from = (route_at) {k, a};
+				next[nnext].to = (route_at) {k, b};
+				nnext++;
 			}
 		}
 		if (nnext == 0)
 			return FR_OK;
 		{
-			arc_span   *t = cur;
+			route_span *t = cur;
 
 			cur = next;
 			next = t;
@@ -201,7 +258,8 @@ decide_gap(const ping_case *c, double eps, bool *result)
 		}
 	}
 	/* the last ping at the route's end, at most max_gap after the one before */
-	*result = cur[ncur - 1].to + c->gap >= total;
+	*result = (cur[ncur - 1].to.k == r->n - 2 && cur[ncur - 1].to.t == 1.0) ||
+		arc_of(c, cur[ncur - 1].to) + c->gap >= c->cum[r->n - 1];
 	return FR_OK;
 }
 
@@ -237,14 +295,15 @@ case_begin(const fr_env *env, const fr_curve *pings, const fr_curve *route, doub
 	c->gap = max_gap >= 0 && !isinf(max_gap) ? fr_to_local(pp, max_gap) : INFINITY;
 	if (!isinf(c->gap) && pr->n >= 2)
 	{
-		c->cum = fr_alloc(env, pr->n * sizeof(double) + 2 * pr->n * sizeof(arc_span));
+		c->cum = fr_alloc(env, pr->n * sizeof(double) + 2 * pr->n * sizeof(route_span));
 		if (c->cum == NULL)
 		{
 			fr_release_pair(env, pp, pr);
 			return FR_ENOMEM;
 		}
-		c->a = (arc_span *) (c->cum + pr->n);
+		c->a = (route_span *) (c->cum + pr->n);
 		c->b = c->a + pr->n;
+		c->cap = pr->n;
 		c->cum[0] = 0;
 		for (size_t k = 0; k + 1 < pr->n; k++)
 			c->cum[k + 1] = c->cum[k] + pr->s[k].len;
@@ -256,6 +315,8 @@ case_begin(const fr_env *env, const fr_curve *pings, const fr_curve *route, doub
 static void
 case_end(ping_case *c, fr_prep *pp, fr_prep *pr)
 {
+	if (c->cum && c->a != (route_span *) (c->cum + c->r->n))
+		fr_free(c->env, c->a < c->b ? c->a : c->b);
 	fr_free(c->env, c->cum);
 	fr_release_pair(c->env, pp, pr);
 }

@@ -427,6 +427,25 @@ worked_examples(void **state)
 	assert_true(pings_distance(two, 2, route, 2, 10) == 2);
 }
 
+/*
+ * A max_gap only removes matchings, so it never lowers the distance (found
+ * by fuzzing): after a route segment of 1e17 every place on the next,
+ * short one has the same arc length, and ordered by arc length a ping
+ * could step back there.  Pings at y = 8 then y = 2 beside a 10-long
+ * final segment: the second must sit at or after the first, eps = 3.
+ */
+static void
+gap_keeps_the_order_past_a_long_segment(void **state)
+{
+	const double route[] = {0, 0, 1e17, 0, 1e17, 10};
+	const double pings[] = {0, 0, 1e17, 8, 1e17, 2, 1e17, 10};
+	double		plain = pings_distance(pings, 4, route, 3, -1);
+
+	assert_true(test_close(plain, 3, 1e-12));
+	assert_true(pings_distance(pings, 4, route, 3, 1e18) == plain);
+	assert_true(pings_distance(pings, 4, route, 3, 1e17 + 64) == plain);
+}
+
 int
 main(void)
 {
@@ -436,6 +455,7 @@ main(void)
 		cmocka_unit_test(never_above_the_continuous_distance),
 		cmocka_unit_test(sparse_pings_on_street_corners),
 		cmocka_unit_test(excursions_are_the_fewest_off_route_pings),
+		cmocka_unit_test(gap_keeps_the_order_past_a_long_segment),
 	};
 
 	return cmocka_run_group_tests_name("pings", tests, NULL, NULL);
