@@ -9,7 +9,7 @@ EXTVERSION = 0.2
 CORE_OBJS = src/core/freespace.o src/core/reach.o src/core/decide.o src/core/distance.o \
 	src/core/discrete.o src/core/matching.o src/core/partial.o \
 	src/core/excursions.o src/core/prune.o src/core/simplify.o src/core/pings.o
-OBJS = $(CORE_OBJS) src/frechet_ext.o src/point_array.o src/witness.o
+OBJS = $(CORE_OBJS) src/frechet_ext.o src/point_array.o src/track_report.o src/witness.o
 
 # Index: cheap bounds in the engine, GiST operator class, planner support.
 CORE_OBJS += src/core/bounds.o
@@ -39,8 +39,9 @@ EXTRA_CLEAN += sql/frechet_ext_postgis--$(EXTVERSION).sql
 # k-nearest and range queries on geometry and geography through our own
 # GiST operator classes (frechet_geometry_ops, frechet_geography_ops).
 OBJS += src/geo_gist.o
-# Maps and dashboards: track pieces and GeoJSON (SQL bodies in the install scripts).
-OBJS += src/track_piece.o
+# Maps and dashboards: track pieces and GeoJSON (SQL bodies in the install
+# scripts); frechet_track_check, the bad-row filter of batches.
+OBJS += src/track_piece.o src/track_check.o
 # Sparse pings matched in order to a route, on every input type.
 OBJS += src/ping_glue.o
 
@@ -116,8 +117,8 @@ PG_INCLUDEDIR_SERVER := $(shell $(PG_CONFIG) --includedir-server)
 # (see the top of test/fuzz/fuzz_engine.c).
 FUZZ_CFLAGS += $(if $(FUZZ_STRICT),-DFUZZ_STRICT)
 FUZZ_TARGETS = $(patsubst %.c,%.bin,$(wildcard test/fuzz/fuzz_*.c))
-FUZZ_GLUE_fuzz_point_array = src/point_array.c
-FUZZ_GLUE_fuzz_ewkb = src/ewkb.c
+FUZZ_GLUE_fuzz_point_array = src/point_array.c src/track_report.c
+FUZZ_GLUE_fuzz_ewkb = src/ewkb.c src/track_report.c
 
 # The engine's work is floating point: comparison tracing (trace-cmp) would
 # cost two thirds of the time and guide little, so it is off there.

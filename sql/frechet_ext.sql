@@ -399,3 +399,11 @@ LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 2000 ROWS 2;
 
 COMMENT ON FUNCTION @extschema@.frechet_pings_excursions(pg_catalog.point[], pg_catalog.point[], pg_catalog.float8) IS
 'where sparse pings left the route: the runs of off-route pings of an in-order plan with the fewest (ping numbers, the route positions around each run, the farthest leash, the run''s length); no rows exactly when frechet_pings_at_most is true';
+
+CREATE FUNCTION @extschema@.frechet_track_check(track pg_catalog.point[])
+RETURNS pg_catalog.text
+AS 'MODULE_PATHNAME', 'frechet_track_check_point_array'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 10;
+
+COMMENT ON FUNCTION @extschema@.frechet_track_check(pg_catalog.point[]) IS
+'NULL when every function accepts the track; otherwise what is wrong and where, in the words of the error the functions would raise; never raises an error (for the bad rows of a batch and a partial index)';

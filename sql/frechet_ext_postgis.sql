@@ -756,3 +756,35 @@ LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 2000 ROWS 2;
 
 COMMENT ON FUNCTION @extschema@.frechet_pings_excursions(geography, geography, pg_catalog.float8) IS
 'where sparse pings left the route (metres): the runs of off-route pings of an in-order plan with the fewest; no rows exactly when frechet_pings_at_most is true';
+
+CREATE FUNCTION @extschema@.frechet_track_check(track geometry)
+RETURNS pg_catalog.text
+AS 'MODULE_PATHNAME', 'frechet_track_check_geometry'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 50;
+
+COMMENT ON FUNCTION @extschema@.frechet_track_check(geometry) IS
+'NULL when every function accepts the track (a Point or LineString, not empty, finite coordinates); otherwise what is wrong and where, in the words of the error the functions would raise; never raises an error';
+
+CREATE FUNCTION @extschema@.frechet_track_check(track geometry, srid pg_catalog.int4)
+RETURNS pg_catalog.text
+AS 'MODULE_PATHNAME', 'frechet_track_check_geometry'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 50;
+
+COMMENT ON FUNCTION @extschema@.frechet_track_check(geometry, pg_catalog.int4) IS
+'as frechet_track_check(track), and the track''s SRID must be srid (a batch compared with routes of one SRID)';
+
+CREATE FUNCTION @extschema@.frechet_track_check(track geography)
+RETURNS pg_catalog.text
+AS 'MODULE_PATHNAME', 'frechet_track_check_geography'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 50;
+
+COMMENT ON FUNCTION @extschema@.frechet_track_check(geography) IS
+'NULL when every function accepts the track (a Point or LineString, not empty, longitude and latitude in range); otherwise what is wrong and where, in the words of the error the functions would raise; never raises an error';
+
+CREATE FUNCTION @extschema@.frechet_track_check(track geography, srid pg_catalog.int4)
+RETURNS pg_catalog.text
+AS 'MODULE_PATHNAME', 'frechet_track_check_geography'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 50;
+
+COMMENT ON FUNCTION @extschema@.frechet_track_check(geography, pg_catalog.int4) IS
+'as frechet_track_check(track), and the track''s SRID must be srid';

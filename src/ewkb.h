@@ -6,6 +6,8 @@
 
 #include "postgres.h"
 
+#include "glue.h"
+
 /* A decoded curve: n vertices of dim (2 or 3) coordinates, M dropped. */
 typedef struct ewkb_curve
 {
@@ -19,6 +21,9 @@ typedef struct ewkb_curve
 
 /* Decodes buf[0..len); ERRORs name argument argno. */
 void		ewkb_decode(const uint8 *buf, size_t len, int argno, ewkb_curve *out);
+
+/* The same, reporting a bad geometry to rep (see glue.h); false when bad. */
+bool		ewkb_decode_track(const uint8 *buf, size_t len, track_report *rep, ewkb_curve *out);
 
 /* The same, returning false instead of raising an ERROR (for index keys of stored rows). */
 bool		ewkb_decode_quiet(const uint8 *buf, size_t len, ewkb_curve *out);

@@ -121,15 +121,6 @@ stored_key(postgis_calls *calls, Datum g, bool geodetic, fr_key *key)
 	pfree(c.coords);
 }
 
-/* The PostGIS look-ups of a call site whose fn_extra holds nothing else. */
-static postgis_calls *
-calls_in_fn_extra(FunctionCallInfo fcinfo)
-{
-	if (fcinfo->flinfo->fn_extra == NULL)
-		fcinfo->flinfo->fn_extra = geo_postgis_calls_new(fcinfo->flinfo->fn_mcxt);
-	return (postgis_calls *) fcinfo->flinfo->fn_extra;
-}
-
 /* GiST compress: leaf entries become the summary of their curve. */
 static Datum
 geo_gist_compress(FunctionCallInfo fcinfo, bool geodetic)
@@ -141,7 +132,7 @@ geo_gist_compress(FunctionCallInfo fcinfo, bool geodetic)
 	if (!entry->leafkey)
 		PG_RETURN_POINTER(entry);
 	key = palloc(sizeof(fr_key));
-	stored_key(calls_in_fn_extra(fcinfo), entry->key, geodetic, key);
+	stored_key(geo_calls_for(fcinfo), entry->key, geodetic, key);
 	out = palloc(sizeof(GISTENTRY));
 	gistentryinit(*out, PointerGetDatum(key), entry->rel, entry->page, entry->offset, false);
 	PG_RETURN_POINTER(out);
@@ -271,7 +262,7 @@ geo_argument_key(FunctionCallInfo fcinfo, int argno, bool geodetic, fr_key *key)
 {
 	fr_curve	c;
 
-	geo_datum_curve(calls_in_fn_extra(fcinfo), PG_GETARG_DATUM(argno - 1), geodetic, argno, &c);
+	geo_datum_curve(geo_calls_for(fcinfo), PG_GETARG_DATUM(argno - 1), geodetic, argno, &c);
 	geo_key_of_curve(&c, key);
 	frechet_key_set_kind(key, geodetic ? FRECHET_KEY_EARTH : FRECHET_KEY_PLANAR);
 	pfree((void *) c.coords);

@@ -120,8 +120,8 @@ geo_postgis_calls_new(MemoryContext mcxt)
 }
 
 /* The PostGIS look-ups of one call site, found once and kept in fn_extra. */
-static postgis_calls *
-postgis_calls_for(FunctionCallInfo fcinfo)
+postgis_calls *
+geo_calls_for(FunctionCallInfo fcinfo)
 {
 	if (fcinfo->flinfo->fn_extra == NULL)
 		fcinfo->flinfo->fn_extra = geo_postgis_calls_new(fcinfo->flinfo->fn_mcxt);
@@ -141,12 +141,15 @@ geo_datum_ewkb(postgis_calls *calls, Datum g, bool geography)
 static bytea *
 argument_ewkb(FunctionCallInfo fcinfo, int argno, bool geography)
 {
-	return geo_datum_ewkb(postgis_calls_for(fcinfo), PG_GETARG_DATUM(argno), geography);
+	return geo_datum_ewkb(geo_calls_for(fcinfo), PG_GETARG_DATUM(argno), geography);
 }
 
-/* Checks that two decoded curves agree on SRID and dimension. */
+/*
+ * Checks that two decoded curves agree on SRID and, for geometry, on
+ * dimension (geography ignores Z: its distances are on the ellipsoid).
+ */
 static void
-check_compatible(const ewkb_curve *a, const ewkb_curve *b)
+check_compatible(const ewkb_curve *a, const ewkb_curve *b, bool geodetic)
 {
 	if (a->srid != b->srid)
 		ereport(ERROR,
@@ -155,7 +158,7 @@ check_compatible(const ewkb_curve *a, const ewkb_curve *b)
 				 errdetail("Argument 1 has SRID %d and argument 2 has SRID %d.",
 						   a->srid, b->srid),
 				 errhint("Transform one of them first, e.g. with ST_Transform.")));
-	if (a->dim != b->dim)
+	if (a->dim != b->dim && !geodetic)
 		ereport(ERROR,
 				(errcode(ERRCODE_INVALID_PARAMETER_VALUE),
 				 errmsg("curves must both be 2-D or both be 3-D"),
@@ -163,26 +166,44 @@ check_compatible(const ewkb_curve *a, const ewkb_curve *b)
 				 errhint("Use ST_Force2D or ST_Force3D on one of them.")));
 }
 
-/* WGS84 Earth-centred coordinates of a lon/lat (degrees) curve; Z is ignored. */
+/*
+ * WGS84 Earth-centred coordinates of a lon/lat (degrees) curve; Z is
+ * ignored.  A longitude or latitude out of range goes to rep (NULL back).
+ */
 static double *
-to_ecef(const ewkb_curve *c, int argno)
+lonlat_to_ecef(const ewkb_curve *c, track_report *rep)
 {
 	double	   *xyz = palloc(sizeof(double) * 3 * c->n);
 
+	rep->start = c->coords;
+	rep->dim = c->dim;
+	rep->n = c->n;
 	for (size_t i = 0; i < c->n; i++)
 	{
 		double		lon = c->coords[i * c->dim],
 					lat = c->coords[i * c->dim + 1];
 
 		if (!fr_geo_valid(lon, lat))
-			ereport(ERROR,
-					(errcode(ERRCODE_NUMERIC_VALUE_OUT_OF_RANGE),
-					 errmsg("longitude or latitude out of range"),
-					 errdetail("Argument %d has (longitude %g, latitude %g) at vertex %zu; longitude must be in [-180, 180] and latitude in [-90, 90].",
-							   argno, lon, lat, i + 1)));
+		{
+			pfree(xyz);
+			track_problem(rep, ERRCODE_NUMERIC_VALUE_OUT_OF_RANGE, NULL,
+						  "longitude or latitude out of range",
+						  "(longitude %g, latitude %g) at vertex %zu; longitude must be in [-180, 180] and latitude in [-90, 90]",
+						  lon, lat, i + 1);
+			return NULL;
+		}
 		fr_geo_to_ecef(lon, lat, xyz + 3 * i);
 	}
 	return xyz;
+}
+
+/* The same, raising an ERROR that names argument argno. */
+static double *
+to_ecef(const ewkb_curve *c, int argno)
+{
+	track_report rep = {.argno = argno};
+
+	return lonlat_to_ecef(c, &rep);
 }
 
 /* Decodes both EWKB arguments into engine curves, keeping the decoded input. */
@@ -191,7 +212,7 @@ decode_curves(bytea *a, bytea *b, bool geodetic, geo_curves *gc)
 {
 	ewkb_decode((const uint8 *) VARDATA_ANY(a), VARSIZE_ANY_EXHDR(a), 1, &gc->a);
 	ewkb_decode((const uint8 *) VARDATA_ANY(b), VARSIZE_ANY_EXHDR(b), 2, &gc->b);
-	check_compatible(&gc->a, &gc->b);
+	check_compatible(&gc->a, &gc->b, geodetic);
 	gc->geodetic = geodetic;
 	gc->p.n = gc->a.n;
 	gc->q.n = gc->b.n;
@@ -239,26 +260,46 @@ geo_decode_one(FunctionCallInfo fcinfo, bool geodetic, geo_curves *gc)
 
 /*
  * One geometry (or, when geodetic, geography) value as an engine curve:
- * geography as Earth-centred coordinates.  Bad input raises the same
- * ERROR as the distance functions, naming argument argno.
+ * geography as Earth-centred coordinates, and its SRID when srid is not
+ * NULL.  A bad one goes to rep, in the words of the distance functions'
+ * ERROR; false then.
  */
-void
-geo_datum_curve(postgis_calls *calls, Datum g, bool geodetic, int argno, fr_curve *out)
+bool
+geo_datum_track(postgis_calls *calls, Datum g, bool geodetic, track_report *rep, fr_curve *out,
+				int32 *srid)
 {
 	bytea	   *ewkb = geo_datum_ewkb(calls, g, geodetic);
 	ewkb_curve	c;
+	bool		ok;
 
-	ewkb_decode((const uint8 *) VARDATA_ANY(ewkb), VARSIZE_ANY_EXHDR(ewkb), argno, &c);
+	ok = ewkb_decode_track((const uint8 *) VARDATA_ANY(ewkb), VARSIZE_ANY_EXHDR(ewkb), rep, &c);
 	pfree(ewkb);
+	if (!ok)
+		return false;
+	if (srid)
+		*srid = c.srid;
 	out->n = c.n;
 	out->coords = c.coords;
 	out->dim = c.dim;
 	if (geodetic)
 	{
-		out->coords = to_ecef(&c, argno);
+		out->coords = lonlat_to_ecef(&c, rep);
 		out->dim = 3;
 		pfree(c.coords);
+		rep->start = NULL;
+		if (out->coords == NULL)
+			return false;
 	}
+	return true;
+}
+
+/* The same, raising the distance functions' ERROR, naming argument argno. */
+void
+geo_datum_curve(postgis_calls *calls, Datum g, bool geodetic, int argno, fr_curve *out)
+{
+	track_report rep = {.argno = argno};
+
+	geo_datum_track(calls, g, geodetic, &rep, out, NULL);
 }
 
 /* Appends a little-endian 32-bit integer. */
@@ -341,7 +382,7 @@ put_points(StringInfo buf, const geo_curves *gc, const double *pts, size_t n)
 static Datum
 finish_ewkb(FunctionCallInfo fcinfo, const geo_curves *gc, StringInfo buf)
 {
-	postgis_calls *calls = postgis_calls_for(fcinfo);
+	postgis_calls *calls = geo_calls_for(fcinfo);
 	Datum		g;
 
 	SET_VARSIZE(buf->data, buf->len);

@@ -27,7 +27,12 @@ typedef struct geo_curves
 typedef struct postgis_calls postgis_calls;
 
 postgis_calls *geo_postgis_calls_new(MemoryContext mcxt);
+
+/* The PostGIS look-ups of a call site, kept in its fn_extra (which must be free). */
+postgis_calls *geo_calls_for(FunctionCallInfo fcinfo);
 bytea	   *geo_datum_ewkb(postgis_calls *calls, Datum g, bool geography);
+bool		geo_datum_track(postgis_calls *calls, Datum g, bool geodetic, track_report *rep,
+							fr_curve *out, int32 *srid);
 void		geo_datum_curve(postgis_calls *calls, Datum g, bool geodetic, int argno,
 							fr_curve *out);
 

@@ -28,8 +28,31 @@ void		glue_env_end(glue_env *g);
 /* Turns a non-OK engine status into an ERROR. */
 void		glue_check_status(fr_status st, const char *what);
 
+/*
+ * Where the problems of one track argument go (track_report.c): an ERROR
+ * naming argument argno, or with check set the first problem's text (for
+ * frechet_track_check).  start, dim and n describe the track once known.
+ */
+typedef struct track_report
+{
+	int			argno;
+	bool		check;
+	char	   *problem;		/* check mode: "message: what", palloc'd */
+	int			sqlstate;		/* check mode: the SQLSTATE the ERROR would have */
+	const double *start;
+	int			dim;
+	size_t		n;
+} track_report;
+
+/* A track's problem, raised or recorded; returns false.  See track_report.c. */
+bool		track_problem(track_report *rep, int sqlstate, const char *hint, const char *msg,
+						  const char *what,...) pg_attribute_printf(5, 6);
+
 /* Decodes a point[] argument into a 2-D curve, validating it; see point_array.c. */
 void		point_array_curve(ArrayType *arr, int argno, fr_curve *out);
+
+/* The same, reporting to rep; false when the array is not a valid track. */
+bool		point_array_track(ArrayType *arr, track_report *rep, fr_curve *out);
 
 /*
  * The witness matching and the excursions, run in scratch memory and

@@ -14,46 +14,43 @@
 #include "glue.h"
 
 /* Rejects arrays that are not one-dimensional and non-empty. */
-static void
-check_shape(ArrayType *arr, int argno)
+static bool
+check_shape(ArrayType *arr, track_report *rep)
 {
 	if (ARR_NDIM(arr) == 0 || ArrayGetNItems(ARR_NDIM(arr), ARR_DIMS(arr)) == 0)
-		ereport(ERROR,
-				(errcode(ERRCODE_INVALID_PARAMETER_VALUE),
-				 errmsg("curve must have at least one point"),
-				 errdetail("Argument %d is an empty array.", argno)));
+		return track_problem(rep, ERRCODE_INVALID_PARAMETER_VALUE, NULL,
+							 "curve must have at least one point", "no points (an empty array)");
 	if (ARR_NDIM(arr) != 1)
-		ereport(ERROR,
-				(errcode(ERRCODE_ARRAY_SUBSCRIPT_ERROR),
-				 errmsg("curve must be a one-dimensional array of points"),
-				 errdetail("Argument %d has %d dimensions.", argno, ARR_NDIM(arr))));
+		return track_problem(rep, ERRCODE_ARRAY_SUBSCRIPT_ERROR, NULL,
+							 "curve must be a one-dimensional array of points",
+							 "%d dimensions", ARR_NDIM(arr));
 	if (ARR_ELEMTYPE(arr) != POINTOID)
-		elog(ERROR, "argument %d is not an array of point", argno);
+		elog(ERROR, "argument %d is not an array of point", rep->argno);
+	return true;
 }
 
 /* Rejects arrays holding NULL elements, naming the first one. */
-static void
-check_no_nulls(ArrayType *arr, int argno)
+static bool
+check_no_nulls(ArrayType *arr, track_report *rep)
 {
 	bits8	   *bitmap = ARR_NULLBITMAP(arr);
 	int			n = ARR_DIMS(arr)[0];
 
 	if (bitmap == NULL)
-		return;
+		return true;
 	for (int i = 0; i < n; i++)
 	{
 		if ((bitmap[i / 8] & (1 << (i % 8))) == 0)
-			ereport(ERROR,
-					(errcode(ERRCODE_NULL_VALUE_NOT_ALLOWED),
-					 errmsg("curve must not contain null points"),
-					 errdetail("Argument %d has a null at subscript %d.",
-							   argno, ARR_LBOUND(arr)[0] + i)));
+			return track_problem(rep, ERRCODE_NULL_VALUE_NOT_ALLOWED, NULL,
+								 "curve must not contain null points",
+								 "a null at subscript %d", ARR_LBOUND(arr)[0] + i);
 	}
+	return true;
 }
 
 /* Rejects NaN, infinite and out-of-range coordinates, naming the first one. */
-static void
-check_coordinates(const Point *pts, int n, ArrayType *arr, int argno)
+static bool
+check_coordinates(const Point *pts, int n, ArrayType *arr, track_report *rep)
 {
 	for (int i = 0; i < n; i++)
 	{
@@ -61,36 +58,50 @@ check_coordinates(const Point *pts, int n, ArrayType *arr, int argno)
 					y = pts[i].y;
 
 		if (isnan(x) || isnan(y) || isinf(x) || isinf(y))
-			ereport(ERROR,
-					(errcode(ERRCODE_DATA_EXCEPTION),
-					 errmsg("curve coordinates must be finite"),
-					 errdetail("Argument %d has a NaN or infinite coordinate at subscript %d.",
-							   argno, ARR_LBOUND(arr)[0] + i)));
+			return track_problem(rep, ERRCODE_DATA_EXCEPTION, NULL,
+								 "curve coordinates must be finite",
+								 "a NaN or infinite coordinate at subscript %d",
+								 ARR_LBOUND(arr)[0] + i);
 		if (fabs(x) > FR_MAX_ABS_COORD || fabs(y) > FR_MAX_ABS_COORD)
-			ereport(ERROR,
-					(errcode(ERRCODE_NUMERIC_VALUE_OUT_OF_RANGE),
-					 errmsg("curve coordinate out of range"),
-					 errdetail("Argument %d has a coordinate of magnitude above %g at subscript %d.",
-							   argno, FR_MAX_ABS_COORD, ARR_LBOUND(arr)[0] + i)));
+			return track_problem(rep, ERRCODE_NUMERIC_VALUE_OUT_OF_RANGE, NULL,
+								 "curve coordinate out of range",
+								 "a coordinate of magnitude above %g at subscript %d",
+								 FR_MAX_ABS_COORD, ARR_LBOUND(arr)[0] + i);
 	}
+	return true;
 }
 
 /*
- * Decodes a point[] into a 2-D curve.  Points are fixed-size, double-aligned and stored
- * contiguously in a NULL-free array, so the coordinates are used in place.
+ * Decodes a point[] into a 2-D curve, reporting a bad one to rep.  Points
+ * are fixed-size, double-aligned and stored contiguously in a NULL-free
+ * array, so the coordinates are used in place.
  */
-void
-point_array_curve(ArrayType *arr, int argno, fr_curve *out)
+bool
+point_array_track(ArrayType *arr, track_report *rep, fr_curve *out)
 {
 	const Point *pts;
 	int			n;
 
-	check_shape(arr, argno);
-	check_no_nulls(arr, argno);
+	if (!check_shape(arr, rep) || !check_no_nulls(arr, rep))
+		return false;
 	n = ARR_DIMS(arr)[0];
 	pts = (const Point *) ARR_DATA_PTR(arr);
-	check_coordinates(pts, n, arr, argno);
+	rep->start = (const double *) pts;
+	rep->dim = 2;
+	rep->n = (size_t) n;
+	if (!check_coordinates(pts, n, arr, rep))
+		return false;
 	out->coords = (const double *) pts;
 	out->n = (size_t) n;
 	out->dim = 2;
+	return true;
+}
+
+/* Decodes a point[] argument into a 2-D curve; a bad one raises an ERROR naming argno. */
+void
+point_array_curve(ArrayType *arr, int argno, fr_curve *out)
+{
+	track_report rep = {.argno = argno};
+
+	point_array_track(arr, &rep, out);
 }
