@@ -164,9 +164,13 @@ reject_type(const wkb_reader *r, uint32 base)
 	const char *hint = NULL;
 
 	if (name == NULL)
-		return track_problem(r->rep, ERRCODE_INVALID_BINARY_REPRESENTATION, NULL,
-							 "invalid EWKB: unknown geometry type code",
-							 "type code %u, which neither OGC WKB nor EWKB defines", base);
+	{
+		char		msg[64];
+
+		snprintf(msg, sizeof(msg), "invalid EWKB: unknown geometry type code %u", base);
+		return track_problem(r->rep, ERRCODE_INVALID_BINARY_REPRESENTATION, NULL, msg,
+							 "a type code that neither OGC WKB nor EWKB defines");
+	}
 	if (base == WKB_MULTIPOINT)
 		hint = "Make a line of its points in their order first, e.g. with ST_MakeLine(ARRAY(SELECT (ST_DumpPoints(g)).geom)).";
 	else if (base == WKB_COLLECTION)
@@ -230,10 +234,13 @@ read_header(wkb_reader *r, wkb_header *h)
 	iso = type / 1000;
 	h->base = type % 1000;
 	if (iso > 3 || (iso > 0 && (h->has_z || h->has_m)))
-		return track_problem(r->rep, ERRCODE_INVALID_BINARY_REPRESENTATION, NULL,
-							 "invalid EWKB: unknown geometry type code",
-							 "type code %u, which mixes ISO and EWKB dimension flags or is unknown",
-							 type);
+	{
+		char		msg[64];
+
+		snprintf(msg, sizeof(msg), "invalid EWKB: unknown geometry type code %u", type);
+		return track_problem(r->rep, ERRCODE_INVALID_BINARY_REPRESENTATION, NULL, msg,
+							 "a type code that mixes ISO and EWKB dimension flags or is unknown");
+	}
 	h->has_z = h->has_z || iso == 1 || iso == 3;
 	h->has_m = h->has_m || iso == 2 || iso == 3;
 	h->srid = 0;

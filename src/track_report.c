@@ -49,11 +49,11 @@ track_problem(track_report *rep, int sqlstate, const char *hint, const char *msg
 	}
 	start[0] = '\0';
 	if (rep->start != NULL && rep->dim == 3)
-		snprintf(start, sizeof(start), " The track has %zu points and starts at (%.15g %.15g %.15g).",
-				 rep->n, rep->start[0], rep->start[1], rep->start[2]);
+		snprintf(start, sizeof(start), " The track has %zu point%s and starts at (%.15g %.15g %.15g).",
+				 rep->n, rep->n == 1 ? "" : "s", rep->start[0], rep->start[1], rep->start[2]);
 	else if (rep->start != NULL)
-		snprintf(start, sizeof(start), " The track has %zu points and starts at (%.15g %.15g).",
-				 rep->n, rep->start[0], rep->start[1]);
+		snprintf(start, sizeof(start), " The track has %zu point%s and starts at (%.15g %.15g).",
+				 rep->n, rep->n == 1 ? "" : "s", rep->start[0], rep->start[1]);
 	ereport(ERROR,
 			(errcode(sqlstate),
 			 errmsg("%s", msg),

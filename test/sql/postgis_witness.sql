@@ -94,7 +94,7 @@ FROM frechet_excursions('SRID=4326;LINESTRING(0 -89.9,0 -89.8,1 -89.7,0 -89.6,0 
 SELECT count(*) AS rows_within_1 FROM frechet_matching('LINESTRING(0 0,10 0)'::geometry, 'LINESTRING(0 5,10 5)'::geometry, 1);
 SELECT frechet_matching_leashes('LINESTRING(0 0,10 0)'::geometry, 'LINESTRING(0 5,10 5)'::geometry, 1) IS NULL AS no_leashes;
 SELECT * FROM frechet_partial_match('SRID=3857;LINESTRING(0 0,1 0)'::geometry, 'SRID=4326;LINESTRING(0 0,1 0)'::geometry, 1);
-SELECT * FROM frechet_excursions('LINESTRING(0 0,1 0)'::geometry, 'MULTILINESTRING((0 0,1 0))'::geometry, 1);
+SELECT * FROM frechet_excursions('LINESTRING(0 0,1 0)'::geometry, 'POLYGON((0 0,1 0,1 1,0 0))'::geometry, 1);
 SELECT * FROM frechet_matching('LINESTRING(0 0,1 0)'::geometry, 'LINESTRING(0 0,1 0)'::geometry, -1);
 
 DROP TABLE wpairs;
