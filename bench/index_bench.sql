@@ -130,6 +130,6 @@ SELECT pg_temp.note('range candidates', count(*)),
        pg_temp.note('range cheap near', count(*) FILTER (WHERE v = 'near')),
        pg_temp.note('range decider', count(*) FILTER (WHERE v = 'undecided'))
 FROM (SELECT pg_temp.cheap_verdict(t.track, q.path, q.eps) AS v
-      FROM range_queries q JOIN trips t ON t.track &~ frechet_reach(q.path, q.eps)) s;
+      FROM range_queries q JOIN trips t ON t.track |~~| frechet_reach(q.path, q.eps)) s;
 
 SELECT item, round(value::numeric, 3) AS value FROM results ORDER BY item;

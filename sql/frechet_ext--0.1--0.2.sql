@@ -7,7 +7,7 @@ AS 'MODULE_PATHNAME', 'frechet_pings_support'
 LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
 
 COMMENT ON FUNCTION @extschema@.frechet_pings_support(internal) IS
-'planner support of frechet_pings_at_most: the index condition trip &~> frechet_reach(route, epsilon)';
+'planner support of frechet_pings_at_most: the index condition trip |~~~| frechet_reach(route, epsilon)';
 
 -- Sparse pings matched in order to a route (src/core/pings.c).  Not STRICT:
 -- a NULL max_gap means no limit; NULL trip, route or epsilon give NULL.
@@ -40,17 +40,17 @@ LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 10;
 COMMENT ON FUNCTION @extschema@.frechet_pings_within_reach(pg_catalog.point[], @extschema@.frechet_key) IS
 'true when the track''s first and last vertices and bounding box allow every vertex to lie within the reach''s epsilon of the route, in order (necessary for frechet_pings_at_most)';
 
-CREATE OPERATOR @extschema@.&~> (
+CREATE OPERATOR @extschema@.|~~~| (
 	LEFTARG = pg_catalog.point[],
 	RIGHTARG = @extschema@.frechet_key,
 	FUNCTION = @extschema@.frechet_pings_within_reach
 );
 
-COMMENT ON OPERATOR @extschema@.&~> (pg_catalog.point[], @extschema@.frechet_key) IS
-'track &~> frechet_reach(route, epsilon): the index condition of frechet_pings_at_most';
+COMMENT ON OPERATOR @extschema@.|~~~| (pg_catalog.point[], @extschema@.frechet_key) IS
+'track |~~~| frechet_reach(route, epsilon): the index condition of frechet_pings_at_most';
 
 ALTER OPERATOR FAMILY @extschema@.frechet_track_ops USING gist ADD
-	OPERATOR 30 @extschema@.&~> (pg_catalog.point[], @extschema@.frechet_key);
+	OPERATOR 30 @extschema@.|~~~| (pg_catalog.point[], @extschema@.frechet_key);
 
 -- 0.1 compared the row count with an unqualified =, resolved with the
 -- install script's search_path; the operator is now named in full.
@@ -93,3 +93,46 @@ LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 10;
 
 COMMENT ON FUNCTION @extschema@.frechet_track_check(pg_catalog.point[]) IS
 'NULL when every function accepts the track; otherwise what is wrong and where, in the words of the error the functions would raise; never raises an error (for the bad rows of a batch and a partial index)';
+
+-- Operator names of our own (0.1's &~ sat beside PostGIS's box operators,
+-- where ~ means "contains"): the range operator is now |~~|.  Indexes keep
+-- working: the strategy and the support functions are unchanged, only the
+-- operator's name is new, so no REINDEX is needed; queries that spelled
+-- the operator (rare: frechet_at_most adds it) need the new name.
+ALTER OPERATOR FAMILY @extschema@.frechet_track_ops USING gist DROP
+	OPERATOR 1 (pg_catalog.point[], @extschema@.frechet_key);
+DROP OPERATOR @extschema@.&~ (pg_catalog.point[], @extschema@.frechet_key);
+DROP OPERATOR @extschema@.&~ (@extschema@.frechet_key, pg_catalog.point[]);
+
+CREATE OPERATOR @extschema@.|~~| (
+	LEFTARG = pg_catalog.point[],
+	RIGHTARG = @extschema@.frechet_key,
+	FUNCTION = @extschema@.frechet_within_reach,
+	COMMUTATOR = OPERATOR(@extschema@.|~~|),
+	RESTRICT = pg_catalog.contsel,
+	JOIN = pg_catalog.contjoinsel
+);
+
+CREATE OPERATOR @extschema@.|~~| (
+	LEFTARG = @extschema@.frechet_key,
+	RIGHTARG = pg_catalog.point[],
+	FUNCTION = @extschema@.frechet_within_reach,
+	COMMUTATOR = OPERATOR(@extschema@.|~~|),
+	RESTRICT = pg_catalog.contsel,
+	JOIN = pg_catalog.contjoinsel
+);
+
+COMMENT ON OPERATOR @extschema@.|~~| (pg_catalog.point[], @extschema@.frechet_key) IS
+'the track may lie within the reach''s epsilon of its route: the lossy index condition of frechet_at_most';
+
+COMMENT ON OPERATOR @extschema@.|~~| (@extschema@.frechet_key, pg_catalog.point[]) IS
+'the track may lie within the reach''s epsilon of its route (operands swapped)';
+
+ALTER OPERATOR FAMILY @extschema@.frechet_track_ops USING gist ADD
+	OPERATOR 1 @extschema@.|~~| (pg_catalog.point[], @extschema@.frechet_key);
+
+-- Comments that name the renamed operators.
+COMMENT ON FUNCTION @extschema@.frechet_reach(pg_catalog.point[], pg_catalog.float8) IS
+'the route''s summary with epsilon as its reach: the right operand of |~~| in range queries';
+COMMENT ON FUNCTION @extschema@.frechet_at_most_support(internal) IS
+'planner support for frechet_at_most: derives the lossy index condition track |~~| frechet_reach(route, epsilon)';

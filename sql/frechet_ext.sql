@@ -138,7 +138,7 @@ AS 'MODULE_PATHNAME', 'frechet_reach_point_array'
 LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 10;
 
 COMMENT ON FUNCTION @extschema@.frechet_reach(pg_catalog.point[], pg_catalog.float8) IS
-'the route''s summary with epsilon as its reach: the right operand of &~ in range queries';
+'the route''s summary with epsilon as its reach: the right operand of |~~| in range queries';
 
 CREATE FUNCTION @extschema@.frechet_within_reach(track pg_catalog.point[], reach @extschema@.frechet_key)
 RETURNS pg_catalog.bool
@@ -156,28 +156,28 @@ LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 10;
 COMMENT ON FUNCTION @extschema@.frechet_within_reach(@extschema@.frechet_key, pg_catalog.point[]) IS
 'frechet_within_reach with its operands swapped';
 
-CREATE OPERATOR @extschema@.&~ (
+CREATE OPERATOR @extschema@.|~~| (
 	LEFTARG = pg_catalog.point[],
 	RIGHTARG = @extschema@.frechet_key,
 	FUNCTION = @extschema@.frechet_within_reach,
-	COMMUTATOR = OPERATOR(@extschema@.&~),
+	COMMUTATOR = OPERATOR(@extschema@.|~~|),
 	RESTRICT = pg_catalog.contsel,
 	JOIN = pg_catalog.contjoinsel
 );
 
-CREATE OPERATOR @extschema@.&~ (
+CREATE OPERATOR @extschema@.|~~| (
 	LEFTARG = @extschema@.frechet_key,
 	RIGHTARG = pg_catalog.point[],
 	FUNCTION = @extschema@.frechet_within_reach,
-	COMMUTATOR = OPERATOR(@extschema@.&~),
+	COMMUTATOR = OPERATOR(@extschema@.|~~|),
 	RESTRICT = pg_catalog.contsel,
 	JOIN = pg_catalog.contjoinsel
 );
 
-COMMENT ON OPERATOR @extschema@.&~ (pg_catalog.point[], @extschema@.frechet_key) IS
+COMMENT ON OPERATOR @extschema@.|~~| (pg_catalog.point[], @extschema@.frechet_key) IS
 'the track may lie within the reach''s epsilon of its route: the lossy index condition of frechet_at_most';
 
-COMMENT ON OPERATOR @extschema@.&~ (@extschema@.frechet_key, pg_catalog.point[]) IS
+COMMENT ON OPERATOR @extschema@.|~~| (@extschema@.frechet_key, pg_catalog.point[]) IS
 'the track may lie within the reach''s epsilon of its route (operands swapped)';
 
 CREATE FUNCTION @extschema@.frechet_gist_consistent(internal, pg_catalog.point[], pg_catalog.int2, pg_catalog.oid, internal)
@@ -232,7 +232,6 @@ COMMENT ON FUNCTION @extschema@.frechet_gist_distance(internal, pg_catalog.point
 
 CREATE OPERATOR CLASS @extschema@.frechet_track_ops
 DEFAULT FOR TYPE pg_catalog.point[] USING gist AS
-	OPERATOR 1 @extschema@.&~ (pg_catalog.point[], @extschema@.frechet_key),
 	OPERATOR 15 @extschema@.<-> (pg_catalog.point[], pg_catalog.point[]) FOR ORDER BY pg_catalog.float_ops,
 	FUNCTION 1 @extschema@.frechet_gist_consistent(internal, pg_catalog.point[], pg_catalog.int2, pg_catalog.oid, internal),
 	FUNCTION 2 @extschema@.frechet_gist_union(internal, internal),
@@ -243,13 +242,20 @@ DEFAULT FOR TYPE pg_catalog.point[] USING gist AS
 	FUNCTION 8 @extschema@.frechet_gist_distance(internal, pg_catalog.point[], pg_catalog.int2, pg_catalog.oid, internal),
 	STORAGE @extschema@.frechet_key;
 
+-- The range operator is a member of the family, not of the class: 0.2
+-- renamed it (from 0.1's &~, which PostGIS's box operators made easy to
+-- misread), and an upgrade can only add it to the family; a fresh install
+-- does the same, so both give one schema.
+ALTER OPERATOR FAMILY @extschema@.frechet_track_ops USING gist ADD
+	OPERATOR 1 @extschema@.|~~| (pg_catalog.point[], @extschema@.frechet_key);
+
 CREATE FUNCTION @extschema@.frechet_at_most_support(internal)
 RETURNS internal
 AS 'MODULE_PATHNAME', 'frechet_at_most_support'
 LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
 
 COMMENT ON FUNCTION @extschema@.frechet_at_most_support(internal) IS
-'planner support for frechet_at_most: derives the lossy index condition track &~ frechet_reach(route, epsilon)';
+'planner support for frechet_at_most: derives the lossy index condition track |~~| frechet_reach(route, epsilon)';
 
 ALTER FUNCTION @extschema@.frechet_at_most(pg_catalog.point[], pg_catalog.point[], pg_catalog.float8)
 	SUPPORT @extschema@.frechet_at_most_support;
@@ -345,7 +351,7 @@ AS 'MODULE_PATHNAME', 'frechet_pings_support'
 LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
 
 COMMENT ON FUNCTION @extschema@.frechet_pings_support(internal) IS
-'planner support of frechet_pings_at_most: the index condition trip &~> frechet_reach(route, epsilon)';
+'planner support of frechet_pings_at_most: the index condition trip |~~~| frechet_reach(route, epsilon)';
 
 -- Sparse pings matched in order to a route (src/core/pings.c).  Not STRICT:
 -- a NULL max_gap means no limit; NULL trip, route or epsilon give NULL.
@@ -378,17 +384,17 @@ LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 10;
 COMMENT ON FUNCTION @extschema@.frechet_pings_within_reach(pg_catalog.point[], @extschema@.frechet_key) IS
 'true when the track''s first and last vertices and bounding box allow every vertex to lie within the reach''s epsilon of the route, in order (necessary for frechet_pings_at_most)';
 
-CREATE OPERATOR @extschema@.&~> (
+CREATE OPERATOR @extschema@.|~~~| (
 	LEFTARG = pg_catalog.point[],
 	RIGHTARG = @extschema@.frechet_key,
 	FUNCTION = @extschema@.frechet_pings_within_reach
 );
 
-COMMENT ON OPERATOR @extschema@.&~> (pg_catalog.point[], @extschema@.frechet_key) IS
-'track &~> frechet_reach(route, epsilon): the index condition of frechet_pings_at_most';
+COMMENT ON OPERATOR @extschema@.|~~~| (pg_catalog.point[], @extschema@.frechet_key) IS
+'track |~~~| frechet_reach(route, epsilon): the index condition of frechet_pings_at_most';
 
 ALTER OPERATOR FAMILY @extschema@.frechet_track_ops USING gist ADD
-	OPERATOR 30 @extschema@.&~> (pg_catalog.point[], @extschema@.frechet_key);
+	OPERATOR 30 @extschema@.|~~~| (pg_catalog.point[], @extschema@.frechet_key);
 
 CREATE FUNCTION @extschema@.frechet_pings_excursions(trip pg_catalog.point[], route pg_catalog.point[], epsilon pg_catalog.float8,
 	OUT ping_from pg_catalog.int4, OUT ping_to pg_catalog.int4, OUT route_from pg_catalog.float8, OUT route_to pg_catalog.float8,

@@ -36,7 +36,7 @@ AS 'MODULE_PATHNAME', 'frechet_pings_support'
 LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
 
 COMMENT ON FUNCTION @extschema@.frechet_geo_pings_support(internal) IS
-'planner support of frechet_pings_at_most on geometry and geography: the index condition trip &~> frechet_reach(route, epsilon)';
+'planner support of frechet_pings_at_most on geometry and geography: the index condition trip |~~~| frechet_reach(route, epsilon)';
 
 -- Sparse pings matched in order to a route, on geometry (units of the SRID)
 -- and geography (metres).  Not STRICT: a NULL max_gap means no limit.
@@ -82,17 +82,17 @@ LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 100;
 COMMENT ON FUNCTION @extschema@.frechet_pings_within_reach(geometry, frechet_key) IS
 'true when the track''s first and last vertices and bounding box allow every vertex to lie within the reach''s epsilon of the route, in order (necessary for frechet_pings_at_most)';
 
-CREATE OPERATOR @extschema@.&~> (
+CREATE OPERATOR @extschema@.|~~~| (
 	LEFTARG = geometry,
 	RIGHTARG = frechet_key,
 	FUNCTION = @extschema@.frechet_pings_within_reach
 );
 
-COMMENT ON OPERATOR @extschema@.&~> (geometry, frechet_key) IS
-'track &~> frechet_reach(route, epsilon): the index condition of frechet_pings_at_most';
+COMMENT ON OPERATOR @extschema@.|~~~| (geometry, frechet_key) IS
+'track |~~~| frechet_reach(route, epsilon): the index condition of frechet_pings_at_most';
 
 ALTER OPERATOR FAMILY @extschema@.frechet_geometry_ops USING gist ADD
-	OPERATOR 30 @extschema@.&~> (geometry, frechet_key);
+	OPERATOR 30 @extschema@.|~~~| (geometry, frechet_key);
 
 CREATE FUNCTION @extschema@.frechet_pings_within_reach(track geography, reach frechet_key)
 RETURNS pg_catalog.bool
@@ -102,17 +102,17 @@ LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 100;
 COMMENT ON FUNCTION @extschema@.frechet_pings_within_reach(geography, frechet_key) IS
 'true when the track''s first and last vertices and bounding box allow every vertex to lie within the reach''s epsilon of the route, in order (necessary for frechet_pings_at_most)';
 
-CREATE OPERATOR @extschema@.&~> (
+CREATE OPERATOR @extschema@.|~~~| (
 	LEFTARG = geography,
 	RIGHTARG = frechet_key,
 	FUNCTION = @extschema@.frechet_pings_within_reach
 );
 
-COMMENT ON OPERATOR @extschema@.&~> (geography, frechet_key) IS
-'track &~> frechet_reach(route, epsilon): the index condition of frechet_pings_at_most';
+COMMENT ON OPERATOR @extschema@.|~~~| (geography, frechet_key) IS
+'track |~~~| frechet_reach(route, epsilon): the index condition of frechet_pings_at_most';
 
 ALTER OPERATOR FAMILY @extschema@.frechet_geography_ops USING gist ADD
-	OPERATOR 30 @extschema@.&~> (geography, frechet_key);
+	OPERATOR 30 @extschema@.|~~~| (geography, frechet_key);
 
 
 -- GeoJSON needs WGS84: a geometry whose SRID is not in spatial_ref_sys
@@ -312,3 +312,102 @@ LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 50;
 
 COMMENT ON FUNCTION @extschema@.frechet_track_check(geography, pg_catalog.int4) IS
 'as frechet_track_check(track), and the track''s SRID must be srid';
+
+-- Operator names of our own: 0.1's &~ sat beside PostGIS's box operators,
+-- where ~ means "contains", and <~> is a vector-search extension's Hamming
+-- distance.  The range operator is now |~~| and the distance operator
+-- <~~>.  Indexes keep working (same strategies and support functions, no
+-- REINDEX); queries that spelled <~> in ORDER BY need the new name.
+ALTER OPERATOR FAMILY @extschema@.frechet_geometry_ops USING gist DROP
+	OPERATOR 1 (geometry, frechet_key),
+	OPERATOR 15 (geometry, geometry);
+ALTER OPERATOR FAMILY @extschema@.frechet_geography_ops USING gist DROP
+	OPERATOR 1 (geography, frechet_key),
+	OPERATOR 15 (geography, geography);
+DROP OPERATOR @extschema@.&~ (geometry, frechet_key);
+DROP OPERATOR @extschema@.&~ (frechet_key, geometry);
+DROP OPERATOR @extschema@.&~ (geography, frechet_key);
+DROP OPERATOR @extschema@.&~ (frechet_key, geography);
+DROP OPERATOR @extschema@.<~> (geometry, geometry);
+DROP OPERATOR @extschema@.<~> (geography, geography);
+
+CREATE OPERATOR @extschema@.<~~> (
+	LEFTARG = geometry,
+	RIGHTARG = geometry,
+	FUNCTION = @extschema@.frechet_distance,
+	COMMUTATOR = OPERATOR(@extschema@.<~~>)
+);
+
+COMMENT ON OPERATOR @extschema@.<~~> (geometry, geometry) IS
+'continuous Fréchet distance, the same as frechet_distance(geometry, geometry)';
+
+CREATE OPERATOR @extschema@.<~~> (
+	LEFTARG = geography,
+	RIGHTARG = geography,
+	FUNCTION = @extschema@.frechet_distance,
+	COMMUTATOR = OPERATOR(@extschema@.<~~>)
+);
+
+COMMENT ON OPERATOR @extschema@.<~~> (geography, geography) IS
+'continuous Fréchet distance in metres, the same as frechet_distance(geography, geography)';
+
+CREATE OPERATOR @extschema@.|~~| (
+	LEFTARG = geometry,
+	RIGHTARG = frechet_key,
+	FUNCTION = @extschema@.frechet_within_reach,
+	COMMUTATOR = OPERATOR(@extschema@.|~~|),
+	RESTRICT = pg_catalog.contsel,
+	JOIN = pg_catalog.contjoinsel
+);
+
+CREATE OPERATOR @extschema@.|~~| (
+	LEFTARG = frechet_key,
+	RIGHTARG = geometry,
+	FUNCTION = @extschema@.frechet_within_reach,
+	COMMUTATOR = OPERATOR(@extschema@.|~~|),
+	RESTRICT = pg_catalog.contsel,
+	JOIN = pg_catalog.contjoinsel
+);
+
+CREATE OPERATOR @extschema@.|~~| (
+	LEFTARG = geography,
+	RIGHTARG = frechet_key,
+	FUNCTION = @extschema@.frechet_within_reach,
+	COMMUTATOR = OPERATOR(@extschema@.|~~|),
+	RESTRICT = pg_catalog.contsel,
+	JOIN = pg_catalog.contjoinsel
+);
+
+CREATE OPERATOR @extschema@.|~~| (
+	LEFTARG = frechet_key,
+	RIGHTARG = geography,
+	FUNCTION = @extschema@.frechet_within_reach,
+	COMMUTATOR = OPERATOR(@extschema@.|~~|),
+	RESTRICT = pg_catalog.contsel,
+	JOIN = pg_catalog.contjoinsel
+);
+
+COMMENT ON OPERATOR @extschema@.|~~| (geometry, frechet_key) IS
+'the curve may lie within the reach''s epsilon of its route: the lossy index condition of frechet_at_most';
+
+COMMENT ON OPERATOR @extschema@.|~~| (frechet_key, geometry) IS
+'the curve may lie within the reach''s epsilon of its route (operands swapped)';
+
+COMMENT ON OPERATOR @extschema@.|~~| (geography, frechet_key) IS
+'the curve may lie within the reach''s epsilon of its route: the lossy index condition of frechet_at_most';
+
+COMMENT ON OPERATOR @extschema@.|~~| (frechet_key, geography) IS
+'the curve may lie within the reach''s epsilon of its route (operands swapped)';
+
+ALTER OPERATOR FAMILY @extschema@.frechet_geometry_ops USING gist ADD
+	OPERATOR 1 @extschema@.|~~| (geometry, frechet_key),
+	OPERATOR 15 @extschema@.<~~> (geometry, geometry) FOR ORDER BY pg_catalog.float_ops;
+ALTER OPERATOR FAMILY @extschema@.frechet_geography_ops USING gist ADD
+	OPERATOR 1 @extschema@.|~~| (geography, frechet_key),
+	OPERATOR 15 @extschema@.<~~> (geography, geography) FOR ORDER BY pg_catalog.float_ops;
+
+-- Comments that name the renamed operators.
+COMMENT ON FUNCTION @extschema@.frechet_reach(geometry, pg_catalog.float8) IS
+'the route''s summary with epsilon (units of the SRID) as its reach: the right operand of |~~| in range queries';
+COMMENT ON FUNCTION @extschema@.frechet_reach(geography, pg_catalog.float8) IS
+'the route''s summary with epsilon (metres, kept as the largest chord within them) as its reach: the right operand of |~~|';

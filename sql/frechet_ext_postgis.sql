@@ -117,25 +117,26 @@ COMMENT ON FUNCTION @extschema@.discrete_frechet_distance(geography, geography) 
 
 -- PostGIS already owns <-> on geometry and geography (box and centroid
 -- distance for nearest-neighbour searches), so the Fréchet distance
--- operator of these types is spelled <~>.
-CREATE OPERATOR @extschema@.<~> (
+-- operator of these types is spelled <~~> (no common extension uses it;
+-- 0.1's <~> is a vector-search extension's Hamming distance).
+CREATE OPERATOR @extschema@.<~~> (
 	LEFTARG = geometry,
 	RIGHTARG = geometry,
 	FUNCTION = @extschema@.frechet_distance,
-	COMMUTATOR = OPERATOR(@extschema@.<~>)
+	COMMUTATOR = OPERATOR(@extschema@.<~~>)
 );
 
-COMMENT ON OPERATOR @extschema@.<~> (geometry, geometry) IS
+COMMENT ON OPERATOR @extschema@.<~~> (geometry, geometry) IS
 'continuous Fréchet distance, the same as frechet_distance(geometry, geometry)';
 
-CREATE OPERATOR @extschema@.<~> (
+CREATE OPERATOR @extschema@.<~~> (
 	LEFTARG = geography,
 	RIGHTARG = geography,
 	FUNCTION = @extschema@.frechet_distance,
-	COMMUTATOR = OPERATOR(@extschema@.<~>)
+	COMMUTATOR = OPERATOR(@extschema@.<~~>)
 );
 
-COMMENT ON OPERATOR @extschema@.<~> (geography, geography) IS
+COMMENT ON OPERATOR @extschema@.<~~> (geography, geography) IS
 'continuous Fréchet distance in metres, the same as frechet_distance(geography, geography)';
 
 -- Witnesses on geometry (units of the SRID); results for maps keep the inputs' SRID.
@@ -263,7 +264,7 @@ LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 5000;
 COMMENT ON FUNCTION @extschema@.frechet_simplify(geography, pg_catalog.float8) IS
 'a LineString through a subset of the track''s vertices, ends kept, within Fréchet distance tolerance (metres on WGS84) of the track';
 -- Index: our own GiST operator classes on geometry and geography, for
--- k-nearest (ORDER BY track <~> route LIMIT k) and range queries
+-- k-nearest (ORDER BY track <~~> route LIMIT k) and range queries
 -- (frechet_at_most, through its planner support function).  Not the
 -- default classes: PostGIS's stay the default, and a column may carry
 -- both indexes.  The key type, frechet_key, and the GiST support functions
@@ -303,7 +304,7 @@ AS 'MODULE_PATHNAME', 'frechet_reach_geometry'
 LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 10;
 
 COMMENT ON FUNCTION @extschema@.frechet_reach(geometry, pg_catalog.float8) IS
-'the route''s summary with epsilon (units of the SRID) as its reach: the right operand of &~ in range queries';
+'the route''s summary with epsilon (units of the SRID) as its reach: the right operand of |~~| in range queries';
 
 CREATE FUNCTION @extschema@.frechet_reach(route geography, epsilon pg_catalog.float8)
 RETURNS frechet_key
@@ -311,7 +312,7 @@ AS 'MODULE_PATHNAME', 'frechet_reach_geography'
 LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 10;
 
 COMMENT ON FUNCTION @extschema@.frechet_reach(geography, pg_catalog.float8) IS
-'the route''s summary with epsilon (metres, kept as the largest chord within them) as its reach: the right operand of &~';
+'the route''s summary with epsilon (metres, kept as the largest chord within them) as its reach: the right operand of |~~|';
 
 CREATE FUNCTION @extschema@.frechet_within_reach(track geometry, reach frechet_key)
 RETURNS pg_catalog.bool
@@ -345,49 +346,49 @@ LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 10;
 COMMENT ON FUNCTION @extschema@.frechet_within_reach(frechet_key, geography) IS
 'frechet_within_reach with its operands swapped';
 
-CREATE OPERATOR @extschema@.&~ (
+CREATE OPERATOR @extschema@.|~~| (
 	LEFTARG = geometry,
 	RIGHTARG = frechet_key,
 	FUNCTION = @extschema@.frechet_within_reach,
-	COMMUTATOR = OPERATOR(@extschema@.&~),
+	COMMUTATOR = OPERATOR(@extschema@.|~~|),
 	RESTRICT = pg_catalog.contsel,
 	JOIN = pg_catalog.contjoinsel
 );
 
-CREATE OPERATOR @extschema@.&~ (
+CREATE OPERATOR @extschema@.|~~| (
 	LEFTARG = frechet_key,
 	RIGHTARG = geometry,
 	FUNCTION = @extschema@.frechet_within_reach,
-	COMMUTATOR = OPERATOR(@extschema@.&~),
+	COMMUTATOR = OPERATOR(@extschema@.|~~|),
 	RESTRICT = pg_catalog.contsel,
 	JOIN = pg_catalog.contjoinsel
 );
 
-CREATE OPERATOR @extschema@.&~ (
+CREATE OPERATOR @extschema@.|~~| (
 	LEFTARG = geography,
 	RIGHTARG = frechet_key,
 	FUNCTION = @extschema@.frechet_within_reach,
-	COMMUTATOR = OPERATOR(@extschema@.&~),
+	COMMUTATOR = OPERATOR(@extschema@.|~~|),
 	RESTRICT = pg_catalog.contsel,
 	JOIN = pg_catalog.contjoinsel
 );
 
-CREATE OPERATOR @extschema@.&~ (
+CREATE OPERATOR @extschema@.|~~| (
 	LEFTARG = frechet_key,
 	RIGHTARG = geography,
 	FUNCTION = @extschema@.frechet_within_reach,
-	COMMUTATOR = OPERATOR(@extschema@.&~),
+	COMMUTATOR = OPERATOR(@extschema@.|~~|),
 	RESTRICT = pg_catalog.contsel,
 	JOIN = pg_catalog.contjoinsel
 );
 
-COMMENT ON OPERATOR @extschema@.&~ (geometry, frechet_key) IS
+COMMENT ON OPERATOR @extschema@.|~~| (geometry, frechet_key) IS
 'the curve may lie within the reach''s epsilon of its route: the lossy index condition of frechet_at_most';
-COMMENT ON OPERATOR @extschema@.&~ (frechet_key, geometry) IS
+COMMENT ON OPERATOR @extschema@.|~~| (frechet_key, geometry) IS
 'the curve may lie within the reach''s epsilon of its route (operands swapped)';
-COMMENT ON OPERATOR @extschema@.&~ (geography, frechet_key) IS
+COMMENT ON OPERATOR @extschema@.|~~| (geography, frechet_key) IS
 'the curve may lie within the reach''s epsilon of its route: the lossy index condition of frechet_at_most';
-COMMENT ON OPERATOR @extschema@.&~ (frechet_key, geography) IS
+COMMENT ON OPERATOR @extschema@.|~~| (frechet_key, geography) IS
 'the curve may lie within the reach''s epsilon of its route (operands swapped)';
 
 -- GiST support.  consistent, union, penalty, picksplit and same are the C
@@ -465,8 +466,6 @@ COMMENT ON FUNCTION @extschema@.frechet_geography_gist_distance(internal, geogra
 
 CREATE OPERATOR CLASS @extschema@.frechet_geometry_ops
 FOR TYPE geometry USING gist AS
-	OPERATOR 1 @extschema@.&~ (geometry, frechet_key),
-	OPERATOR 15 @extschema@.<~> (geometry, geometry) FOR ORDER BY pg_catalog.float_ops,
 	FUNCTION 1 @extschema@.frechet_geometry_gist_consistent(internal, geometry, pg_catalog.int2, pg_catalog.oid, internal),
 	FUNCTION 2 @extschema@.frechet_geo_gist_union(internal, internal),
 	FUNCTION 3 @extschema@.frechet_geometry_gist_compress(internal),
@@ -478,8 +477,6 @@ FOR TYPE geometry USING gist AS
 
 CREATE OPERATOR CLASS @extschema@.frechet_geography_ops
 FOR TYPE geography USING gist AS
-	OPERATOR 1 @extschema@.&~ (geography, frechet_key),
-	OPERATOR 15 @extschema@.<~> (geography, geography) FOR ORDER BY pg_catalog.float_ops,
 	FUNCTION 1 @extschema@.frechet_geography_gist_consistent(internal, geography, pg_catalog.int2, pg_catalog.oid, internal),
 	FUNCTION 2 @extschema@.frechet_geo_gist_union(internal, internal),
 	FUNCTION 3 @extschema@.frechet_geography_gist_compress(internal),
@@ -488,6 +485,18 @@ FOR TYPE geography USING gist AS
 	FUNCTION 7 @extschema@.frechet_geo_gist_same(frechet_key, frechet_key, internal),
 	FUNCTION 8 @extschema@.frechet_geography_gist_distance(internal, geography, pg_catalog.int2, pg_catalog.oid, internal),
 	STORAGE frechet_key;
+
+-- The range and ordering operators are members of the families, not of the
+-- classes: 0.2 renamed them (from 0.1's &~, easy to misread beside
+-- PostGIS's box operators, and <~>, a vector-search extension's Hamming
+-- distance), and an upgrade can only add them to the families; a fresh
+-- install does the same, so both give one schema.
+ALTER OPERATOR FAMILY @extschema@.frechet_geometry_ops USING gist ADD
+	OPERATOR 1 @extschema@.|~~| (geometry, frechet_key),
+	OPERATOR 15 @extschema@.<~~> (geometry, geometry) FOR ORDER BY pg_catalog.float_ops;
+ALTER OPERATOR FAMILY @extschema@.frechet_geography_ops USING gist ADD
+	OPERATOR 1 @extschema@.|~~| (geography, frechet_key),
+	OPERATOR 15 @extschema@.<~~> (geography, geography) FOR ORDER BY pg_catalog.float_ops;
 
 -- PostGIS's own box operators in both classes.  PostGIS's planner support
 -- (postgis_index_supportfn) turns ST_DWithin, ST_Intersects, ST_Contains
@@ -659,7 +668,7 @@ AS 'MODULE_PATHNAME', 'frechet_pings_support'
 LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
 
 COMMENT ON FUNCTION @extschema@.frechet_geo_pings_support(internal) IS
-'planner support of frechet_pings_at_most on geometry and geography: the index condition trip &~> frechet_reach(route, epsilon)';
+'planner support of frechet_pings_at_most on geometry and geography: the index condition trip |~~~| frechet_reach(route, epsilon)';
 
 -- Sparse pings matched in order to a route, on geometry (units of the SRID)
 -- and geography (metres).  Not STRICT: a NULL max_gap means no limit.
@@ -705,17 +714,17 @@ LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 100;
 COMMENT ON FUNCTION @extschema@.frechet_pings_within_reach(geometry, frechet_key) IS
 'true when the track''s first and last vertices and bounding box allow every vertex to lie within the reach''s epsilon of the route, in order (necessary for frechet_pings_at_most)';
 
-CREATE OPERATOR @extschema@.&~> (
+CREATE OPERATOR @extschema@.|~~~| (
 	LEFTARG = geometry,
 	RIGHTARG = frechet_key,
 	FUNCTION = @extschema@.frechet_pings_within_reach
 );
 
-COMMENT ON OPERATOR @extschema@.&~> (geometry, frechet_key) IS
-'track &~> frechet_reach(route, epsilon): the index condition of frechet_pings_at_most';
+COMMENT ON OPERATOR @extschema@.|~~~| (geometry, frechet_key) IS
+'track |~~~| frechet_reach(route, epsilon): the index condition of frechet_pings_at_most';
 
 ALTER OPERATOR FAMILY @extschema@.frechet_geometry_ops USING gist ADD
-	OPERATOR 30 @extschema@.&~> (geometry, frechet_key);
+	OPERATOR 30 @extschema@.|~~~| (geometry, frechet_key);
 
 CREATE FUNCTION @extschema@.frechet_pings_within_reach(track geography, reach frechet_key)
 RETURNS pg_catalog.bool
@@ -725,17 +734,17 @@ LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 100;
 COMMENT ON FUNCTION @extschema@.frechet_pings_within_reach(geography, frechet_key) IS
 'true when the track''s first and last vertices and bounding box allow every vertex to lie within the reach''s epsilon of the route, in order (necessary for frechet_pings_at_most)';
 
-CREATE OPERATOR @extschema@.&~> (
+CREATE OPERATOR @extschema@.|~~~| (
 	LEFTARG = geography,
 	RIGHTARG = frechet_key,
 	FUNCTION = @extschema@.frechet_pings_within_reach
 );
 
-COMMENT ON OPERATOR @extschema@.&~> (geography, frechet_key) IS
-'track &~> frechet_reach(route, epsilon): the index condition of frechet_pings_at_most';
+COMMENT ON OPERATOR @extschema@.|~~~| (geography, frechet_key) IS
+'track |~~~| frechet_reach(route, epsilon): the index condition of frechet_pings_at_most';
 
 ALTER OPERATOR FAMILY @extschema@.frechet_geography_ops USING gist ADD
-	OPERATOR 30 @extschema@.&~> (geography, frechet_key);
+	OPERATOR 30 @extschema@.|~~~| (geography, frechet_key);
 
 CREATE FUNCTION @extschema@.frechet_pings_excursions(trip geometry, route geometry, epsilon pg_catalog.float8,
 	OUT ping_from pg_catalog.int4, OUT ping_to pg_catalog.int4, OUT route_from pg_catalog.float8, OUT route_to pg_catalog.float8,

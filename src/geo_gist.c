@@ -197,7 +197,7 @@ geo_route_get(FunctionCallInfo fcinfo, Datum query, bool geodetic)
 	rc->raw = NULL;
 	rc->hull = NULL;
 
-	/* the route is the right operand of track <~> route: argument 2 */
+	/* the route is the right operand of track <~~> route: argument 2 */
 	geo_datum_curve(rc->calls, query, geodetic, 2, &c);
 	geo_key_of_curve(&c, &rc->key);
 	old = MemoryContextSwitchTo(fcinfo->flinfo->fn_mcxt);
@@ -219,7 +219,7 @@ geo_route_get(FunctionCallInfo fcinfo, Datum query, bool geodetic)
 /*
  * GiST distance: a lower bound of the Fréchet distance from the query route
  * to every curve under the entry (metres for geography); the executor
- * rechecks leaves with <~> and reorders.
+ * rechecks leaves with <~~> and reorders.
  */
 static Datum
 geo_gist_distance(FunctionCallInfo fcinfo, bool geodetic)
@@ -320,7 +320,7 @@ frechet_reach_geography(PG_FUNCTION_ARGS)
 	return geo_reach(fcinfo, true);
 }
 
-/* The test behind &~ on curve argument argno: its summary within the reach of the route's. */
+/* The test behind |~~| on curve argument argno: its summary within the reach of the route's. */
 static bool
 geo_within_reach(FunctionCallInfo fcinfo, int argno, bool geodetic, const fr_key *reach)
 {
@@ -332,7 +332,7 @@ geo_within_reach(FunctionCallInfo fcinfo, int argno, bool geodetic, const fr_key
 }
 
 PG_FUNCTION_INFO_V1(frechet_within_reach_geometry);
-/* geometry &~ frechet_key */
+/* geometry |~~| frechet_key */
 Datum
 frechet_within_reach_geometry(PG_FUNCTION_ARGS)
 {
@@ -340,7 +340,7 @@ frechet_within_reach_geometry(PG_FUNCTION_ARGS)
 }
 
 PG_FUNCTION_INFO_V1(frechet_reach_within_geometry);
-/* frechet_key &~ geometry */
+/* frechet_key |~~| geometry */
 Datum
 frechet_reach_within_geometry(PG_FUNCTION_ARGS)
 {
@@ -348,7 +348,7 @@ frechet_reach_within_geometry(PG_FUNCTION_ARGS)
 }
 
 PG_FUNCTION_INFO_V1(frechet_within_reach_geography);
-/* geography &~ frechet_key */
+/* geography |~~| frechet_key */
 Datum
 frechet_within_reach_geography(PG_FUNCTION_ARGS)
 {
@@ -356,7 +356,7 @@ frechet_within_reach_geography(PG_FUNCTION_ARGS)
 }
 
 PG_FUNCTION_INFO_V1(frechet_reach_within_geography);
-/* frechet_key &~ geography */
+/* frechet_key |~~| geography */
 Datum
 frechet_reach_within_geography(PG_FUNCTION_ARGS)
 {

@@ -684,9 +684,9 @@ frechet_index_expansion(PG_FUNCTION_ARGS)
 
 /*
  * The lossy index condition for frechet_at_most on an index of our own
- * operator classes (geo_gist.c): key &~ frechet_reach(other, eps), the
+ * operator classes (geo_gist.c): key |~~| frechet_reach(other, eps), the
  * test of first vertices, last vertices and box sides.  NIL when the
- * index's operator family has no &~ for (keytype, frechet_key).
+ * index's operator family has no |~~| for (keytype, frechet_key).
  */
 static List *
 reach_index_condition(SupportRequestIndexCondition *req, Node *key, Node *other,
@@ -758,7 +758,7 @@ at_most_index_condition(SupportRequestIndexCondition *req)
 		return NIL;
 	geodetic = (keytype == geography);
 
-	/* an index of frechet_geometry_ops or frechet_geography_ops: key &~ frechet_reach(other, eps) */
+	/* an index of frechet_geometry_ops or frechet_geography_ops: key |~~| frechet_reach(other, eps) */
 	reach = reach_index_condition(req, key, other, eps, keytype);
 	if (reach != NIL)
 		return reach;

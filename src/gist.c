@@ -3,7 +3,7 @@
  *
  * Each entry is a frechet_key: for a leaf, the summary of one track (first
  * vertex, last vertex, bounding box); for an inner node, the ranges those
- * quantities take under it.  Range queries ("track &~ frechet_reach(route,
+ * quantities take under it.  Range queries ("track |~~| frechet_reach(route,
  * eps)", which the planner support function derives from frechet_at_most)
  * descend into every entry whose lower bound is within eps.  k-nearest
  * queries ("ORDER BY track <-> route") get a lower bound of the Fréchet
@@ -66,7 +66,7 @@ gist_consistent(FunctionCallInfo fcinfo, bool kind_known, frechet_key_kind kind)
 		frechet_key_check_kind(query, kind, 0);
 	if (strategy == FRECHET_STRATEGY_PINGS)
 	{
-		/* exact on a leaf, as for &~; frechet_pings_at_most stays the filter */
+		/* exact on a leaf, as for |~~|; frechet_pings_at_most stays the filter */
 		*recheck = false;
 		PG_RETURN_BOOL(fr_key_ping_bound(key, query) <= frechet_key_reach(query));
 	}
@@ -74,8 +74,8 @@ gist_consistent(FunctionCallInfo fcinfo, bool kind_known, frechet_key_kind kind)
 		elog(ERROR, "frechet_track_ops: unknown strategy number %d", strategy);
 
 	/*
-	 * On a leaf this is the very test of the &~ operator, so no recheck of
-	 * &~ is needed; frechet_at_most itself still runs as the filter.
+	 * On a leaf this is the very test of the |~~| operator, so no recheck of
+	 * |~~| is needed; frechet_at_most itself still runs as the filter.
 	 */
 	*recheck = false;
 	PG_RETURN_BOOL(fr_key_bound(key, query) <= frechet_key_reach(query));

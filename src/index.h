@@ -16,12 +16,12 @@
 
 #include "bounds.h"
 
-/* Strategy of "track &~ frechet_reach(route, epsilon)": the range-query condition. */
+/* Strategy of "track |~~| frechet_reach(route, epsilon)": the range-query condition. */
 #define FRECHET_STRATEGY_REACH 1
 /* Strategy of "track <-> route" in ORDER BY: k-nearest tracks. */
 #define FRECHET_STRATEGY_DISTANCE 15
 /*
- * Strategy of "track &~> frechet_reach(route, epsilon)": the range-query
+ * Strategy of "track |~~~| frechet_reach(route, epsilon)": the range-query
  * condition of frechet_pings_at_most (fr_key_ping_bound).  Numbered far
  * from the R-tree numbers PostGIS's planner support asks of every GiST
  * index on a column (see below), so no box strategy can ever reach it.

@@ -164,7 +164,7 @@ frechet_pings_distance_geography(PG_FUNCTION_ARGS)
 }
 
 /*
- * track &~> reach: the index condition of frechet_pings_at_most, the test
+ * track |~~~| reach: the index condition of frechet_pings_at_most, the test
  * of fr_key_ping_bound on the track's summary (necessary, not sufficient).
  */
 static Datum
@@ -187,7 +187,7 @@ pings_within_reach(FunctionCallInfo fcinfo, ping_input input)
 }
 
 PG_FUNCTION_INFO_V1(frechet_pings_within_reach_point_array);
-/* point[] &~> frechet_key */
+/* point[] |~~~| frechet_key */
 Datum
 frechet_pings_within_reach_point_array(PG_FUNCTION_ARGS)
 {
@@ -195,7 +195,7 @@ frechet_pings_within_reach_point_array(PG_FUNCTION_ARGS)
 }
 
 PG_FUNCTION_INFO_V1(frechet_pings_within_reach_geometry);
-/* geometry &~> frechet_key */
+/* geometry |~~~| frechet_key */
 Datum
 frechet_pings_within_reach_geometry(PG_FUNCTION_ARGS)
 {
@@ -203,7 +203,7 @@ frechet_pings_within_reach_geometry(PG_FUNCTION_ARGS)
 }
 
 PG_FUNCTION_INFO_V1(frechet_pings_within_reach_geography);
-/* geography &~> frechet_key */
+/* geography |~~~| frechet_key */
 Datum
 frechet_pings_within_reach_geography(PG_FUNCTION_ARGS)
 {

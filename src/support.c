@@ -4,7 +4,7 @@
  * with a frechet_track_ops GiST index, the planner asks this function for
  * an index condition.  We hand it
  *
- *     column &~ frechet_reach(other, epsilon)
+ *     column |~~| frechet_reach(other, epsilon)
  *
  * which is necessary but not sufficient (lossy): the index returns every
  * track whose first vertex, last vertex and bounding-box sides lie within
@@ -31,7 +31,7 @@
 #include "glue.h"
 #include "index.h"
 
-/* Builds "indexed &~ frechet_reach(route, eps)" if the index's opfamily is ours. */
+/* Builds "indexed |~~| frechet_reach(route, eps)" if the index's opfamily is ours. */
 static List *
 reach_index_condition(SupportRequestIndexCondition *req)
 {
@@ -118,7 +118,7 @@ frechet_at_most_support(PG_FUNCTION_ARGS)
 }
 
 /*
- * "trip &~> frechet_reach(route, epsilon)" for frechet_pings_at_most(trip,
+ * "trip |~~~| frechet_reach(route, epsilon)" for frechet_pings_at_most(trip,
  * route, epsilon[, max_gap]) when trip has an index of ours, on any input
  * type: frechet_reach for the route's type is looked up in the schema of
  * the function being planned (never by search_path), and the operator in

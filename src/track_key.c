@@ -1,6 +1,6 @@
 /*
  * track_key.c - the frechet_key type (summaries of tracks, and the reach of
- * a range query), its text form, and the operator &~ that the planner
+ * a range query), its text form, and the operator |~~| that the planner
  * support function hands to the index: "this track may lie within epsilon
  * of that route".  The operator is necessary, not sufficient: the exact
  * frechet_at_most call always runs after it.
@@ -239,7 +239,7 @@ frechet_reach_point_array(PG_FUNCTION_ARGS)
 	PG_RETURN_POINTER(key);
 }
 
-/* The test behind &~: the track's summary lies within the reach's epsilon of the route's. */
+/* The test behind |~~|: the track's summary lies within the reach's epsilon of the route's. */
 static bool
 within_reach(ArrayType *arr, int argno, const fr_key *reach)
 {
@@ -253,7 +253,7 @@ within_reach(ArrayType *arr, int argno, const fr_key *reach)
 }
 
 PG_FUNCTION_INFO_V1(frechet_within_reach_point_array);
-/* track &~ reach */
+/* track |~~| reach */
 Datum
 frechet_within_reach_point_array(PG_FUNCTION_ARGS)
 {
@@ -265,7 +265,7 @@ frechet_within_reach_point_array(PG_FUNCTION_ARGS)
 }
 
 PG_FUNCTION_INFO_V1(frechet_reach_within_point_array);
-/* reach &~ track, the commutator */
+/* reach |~~| track, the commutator */
 Datum
 frechet_reach_within_point_array(PG_FUNCTION_ARGS)
 {

@@ -92,6 +92,35 @@ for control in "$ROOT"/*.control; do
 	done
 done
 
+# Indexes built under 0.1 answer the same queries after the update, through
+# the renamed operators (the strategies and support functions are kept):
+# range and nearest-neighbour on point[] and geometry, index against a
+# sequential scan.
+if rpsql -d "$DB" -c "SELECT 1 FROM pg_available_extension_versions WHERE name = 'frechet_ext_postgis' AND version = '0.1'" | grep -q 1; then
+	rpsql -d postgres -c "SET client_min_messages = warning" -c "DROP DATABASE IF EXISTS $DB" -c "CREATE DATABASE $DB" >/dev/null
+	got=$(rpsql -d "$DB" -c "SET client_min_messages = warning" \
+		-c "CREATE EXTENSION postgis" -c "CREATE EXTENSION frechet_ext VERSION '0.1'" \
+		-c "CREATE EXTENSION frechet_ext_postgis VERSION '0.1'" \
+		-c "CREATE TABLE u AS SELECT i, array[point(i % 97, i % 89), point(i % 97 + 3, i % 89 + 4)] AS tr,
+			ST_MakeLine(ST_MakePoint(i % 97, i % 89), ST_MakePoint(i % 97 + 3, i % 89 + 4)) AS g FROM generate_series(1, 5000) i" \
+		-c "CREATE INDEX u_tr ON u USING gist (tr)" -c "CREATE INDEX u_g ON u USING gist (g frechet_geometry_ops)" \
+		-c "ALTER EXTENSION frechet_ext UPDATE" -c "ALTER EXTENSION frechet_ext_postgis UPDATE" \
+		-c "CREATE TEMP TABLE q AS SELECT 'tr' AS what, array_agg(i ORDER BY i) AS ids FROM u WHERE frechet_at_most(tr, '{\"(10,10)\",\"(13,14)\"}', 2)
+			UNION ALL SELECT 'g', array_agg(i ORDER BY i) FROM u WHERE frechet_at_most(g, 'LINESTRING(10 10, 13 14)'::geometry, 2)
+			UNION ALL SELECT 'knn', array_agg(i) FROM (SELECT i FROM u ORDER BY g <~~> 'LINESTRING(10 10, 13 14)'::geometry, i LIMIT 5) k" \
+		-c "SET enable_indexscan = off" -c "SET enable_bitmapscan = off" \
+		-c "SELECT count(*) FILTER (WHERE q.ids = s.ids) || ' of ' || count(*) FROM q JOIN (
+			SELECT 'tr' AS what, array_agg(i ORDER BY i) AS ids FROM u WHERE frechet_at_most(tr, '{\"(10,10)\",\"(13,14)\"}', 2)
+			UNION ALL SELECT 'g', array_agg(i ORDER BY i) FROM u WHERE frechet_at_most(g, 'LINESTRING(10 10, 13 14)'::geometry, 2)
+			UNION ALL SELECT 'knn', array_agg(i) FROM (SELECT i FROM u ORDER BY frechet_distance(g, 'LINESTRING(10 10, 13 14)'::geometry), i LIMIT 5) k) s USING (what)
+			WHERE cardinality(q.ids) > 0" 2>&1 | tail -1)
+	if [ "$got" = "3 of 3" ]; then
+		tap 0 "upgrade: indexes built under 0.1 (point[] and geometry) give a sequential scan's answers after the update"
+	else
+		tap 1 "upgrade: indexes built under 0.1 after the update: $got of the queries equal a sequential scan"
+	fi
+fi
+
 # The comparison tested on a synthetic older version of frechet_ext.
 ext=frechet_ext
 default=$(sed -n "s/^default_version *= *'\(.*\)'.*/\1/p" "$ROOT/$ext.control")

@@ -40,9 +40,9 @@ SELECT 'start=(0,0)..(0,0) end=(0,0)..(1,1) min=(0,0)..(0,0) max=(1,1)..(1,1) re
 SELECT frechet_reach('{"(0,0)"}', -1);
 SELECT frechet_reach('{}', 1);
 
--- &~ is the necessary condition: start, end and box sides within the reach.
-SELECT '{"(0,0)","(10,0)"}'::point[] &~ frechet_reach('{"(0,1)","(10,1)"}', 1) AS sides_at_reach,
-       '{"(0,0)","(10,0)"}'::point[] &~ frechet_reach('{"(0,1)","(10,1)"}', 0.999) AS sides_beyond,
-       frechet_reach('{"(0,1)","(10,1)"}', 1) &~ '{"(0,0)","(10,0)"}'::point[] AS commuted,
-       '{"(0,0)","(5,4)","(10,0)"}'::point[] &~ frechet_reach('{"(0,0)","(10,0)"}', 3) AS box_too_tall,
-       '{"(0,0)","(5,4)","(10,0)"}'::point[] &~ frechet_reach('{"(0,0)","(10,0)"}', 4) AS box_within;
+-- |~~| is the necessary condition: start, end and box sides within the reach.
+SELECT '{"(0,0)","(10,0)"}'::point[] |~~| frechet_reach('{"(0,1)","(10,1)"}', 1) AS sides_at_reach,
+       '{"(0,0)","(10,0)"}'::point[] |~~| frechet_reach('{"(0,1)","(10,1)"}', 0.999) AS sides_beyond,
+       frechet_reach('{"(0,1)","(10,1)"}', 1) |~~| '{"(0,0)","(10,0)"}'::point[] AS commuted,
+       '{"(0,0)","(5,4)","(10,0)"}'::point[] |~~| frechet_reach('{"(0,0)","(10,0)"}', 3) AS box_too_tall,
+       '{"(0,0)","(5,4)","(10,0)"}'::point[] |~~| frechet_reach('{"(0,0)","(10,0)"}', 4) AS box_within;

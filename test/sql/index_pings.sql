@@ -1,5 +1,5 @@
 -- Range queries of frechet_pings_at_most through a GiST index: the planner
--- support function hands the index "trip &~> frechet_reach(route, eps)"
+-- support function hands the index "trip |~~~| frechet_reach(route, eps)"
 -- (first and last pings near the route's ends, the trip's box inside the
 -- route's widened by eps), and the index never drops a trip that the
 -- function keeps.  100,000 generated sparse-ping trips around x = 1e7 (a
@@ -88,7 +88,7 @@ SELECT t.kind, count(*) FILTER (WHERE frechet_pings_at_most(t.pings, r.route, 25
 FROM ip_trips t JOIN ip_routes r USING (rid) WHERE r.rid = 1 GROUP BY t.kind ORDER BY t.kind;
 
 -- What the index passes on to the function, and what it keeps (route 1, eps 25).
-SELECT count(*) FILTER (WHERE pings &~> frechet_reach(r.route, 25)) AS index_candidates,
+SELECT count(*) FILTER (WHERE pings |~~~| frechet_reach(r.route, 25)) AS index_candidates,
        count(*) FILTER (WHERE frechet_pings_at_most(pings, r.route, 25)) AS rows_kept,
        count(*) AS table_rows
 FROM ip_trips, ip_routes r WHERE r.rid = 1;

@@ -129,7 +129,7 @@ FROM idx_join_index j;
 -- The index condition alone never drops a row that frechet_at_most keeps.
 SELECT count(*) AS missed
 FROM idx_queries q JOIN idx_tracks t ON frechet_at_most(t.track, q.route, q.eps)
-WHERE NOT (t.track &~ frechet_reach(q.route, q.eps));
+WHERE NOT (t.track |~~| frechet_reach(q.route, q.eps));
 
 -- Rows the SQL functions reject (empty, NULL element, NaN, 2-D) still index;
 -- a query that reaches them fails with the same error with or without the index.

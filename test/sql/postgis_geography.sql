@@ -49,7 +49,7 @@ FROM (SELECT ST_MakeLine(array(SELECT ST_SetSRID(ST_MakePoint(-180 + 30 * i, -89
 SELECT frechet_at_most(a, b, d) AS at_d, frechet_at_most(a, b, d * (1 - 1e-9)) AS just_below,
        frechet_at_most(a, b, 'Infinity') AS infinite,
        round(d::numeric, 3) AS d, round(discrete_frechet_distance(a, b)::numeric, 3) AS discrete,
-       round((a <~> b)::numeric, 3) AS operator
+       round((a <~~> b)::numeric, 3) AS operator
 FROM (SELECT a, b, frechet_distance(a, b) AS d
       FROM (SELECT 'SRID=4326;LINESTRING(-7.72 41.88,-7.73 41.89,-7.74 41.88)'::geography AS a,
                    'SRID=4326;LINESTRING(-7.7201 41.8801,-7.7305 41.8898,-7.7399 41.8802)'::geography AS b) s) t;

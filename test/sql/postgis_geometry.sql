@@ -23,7 +23,7 @@ $$ SELECT ST_MakeLine(array(SELECT ST_MakePoint(q[0], 0, q[1]) FROM unnest(p || 
 SELECT count(*) AS pairs,
        count(*) FILTER (WHERE frechet_distance(pg_temp.geom(pa), pg_temp.geom(pb)) = frechet_distance(pa, pb)) AS distance_same,
        count(*) FILTER (WHERE discrete_frechet_distance(pg_temp.geom(pa), pg_temp.geom(pb)) = discrete_frechet_distance(pa, pb)) AS discrete_same,
-       count(*) FILTER (WHERE (pg_temp.geom(pa) <~> pg_temp.geom(pb)) = (pa <-> pb)) AS operator_same,
+       count(*) FILTER (WHERE (pg_temp.geom(pa) <~~> pg_temp.geom(pb)) = (pa <-> pb)) AS operator_same,
        count(*) FILTER (WHERE frechet_at_most(pg_temp.geom(pa), pg_temp.geom(pb), 55) = frechet_at_most(pa, pb, 55)) AS at_most_same,
        count(*) FILTER (WHERE frechet_at_most(pa, pb, 55)) AS within_55,
        count(*) FILTER (WHERE frechet_distance(pg_temp.geom_xz(pa), pg_temp.geom_xz(pb)) = frechet_distance(pa || pa[cardinality(pa)], pb || pb[cardinality(pb)])) AS xz_same

@@ -1,8 +1,8 @@
 -- Our own GiST operator classes on PostGIS columns: frechet_geometry_ops and
--- frechet_geography_ops.  ORDER BY track <~> route LIMIT k walks the index
+-- frechet_geography_ops.  ORDER BY track <~~> route LIMIT k walks the index
 -- by a lower bound of the Fréchet distance (recheck on, the executor
 -- reorders by the exact distance), and frechet_at_most(track, route, eps)
--- gets the lossy condition track &~ frechet_reach(route, eps) from its
+-- gets the lossy condition track |~~| frechet_reach(route, eps) from its
 -- planner support function.  Answers must equal those of sequential scans.
 -- A bound above an exact distance would show as different answers here, or
 -- as the executor's "index returned tuples in wrong order" error.
@@ -80,7 +80,7 @@ ANALYZE gk_tracks;
 
 -- The geometry distance is the point[] distance on the same coordinates.
 SELECT count(*) AS pairs,
-       count(*) FILTER (WHERE pg_temp.geom(a.track) <~> pg_temp.geom(b.track) IS DISTINCT FROM a.track <-> b.track) AS differ
+       count(*) FILTER (WHERE pg_temp.geom(a.track) <~~> pg_temp.geom(b.track) IS DISTINCT FROM a.track <-> b.track) AS differ
 FROM gk_arrays a JOIN gk_arrays b ON b.id = a.id + 1 WHERE a.id % 50 = 0;
 
 -- k-nearest.  Queries: stored tracks (duplicates tie at distance 0), lines,
@@ -96,24 +96,24 @@ SELECT count(*) AS routes FROM gk_routes;
 
 SET enable_seqscan = off;
 EXPLAIN (COSTS OFF)
-SELECT id FROM gk_tracks ORDER BY geom <~> 'SRID=3857;LINESTRING(10000000 0,10000100 0)'::geometry LIMIT 10;
+SELECT id FROM gk_tracks ORDER BY geom <~~> 'SRID=3857;LINESTRING(10000000 0,10000100 0)'::geometry LIMIT 10;
 EXPLAIN (COSTS OFF)
-SELECT id FROM gk_tracks ORDER BY 'SRID=3857;LINESTRING(10000000 0,10000100 0)'::geometry <~> geom LIMIT 10;
+SELECT id FROM gk_tracks ORDER BY 'SRID=3857;LINESTRING(10000000 0,10000100 0)'::geometry <~~> geom LIMIT 10;
 CREATE TABLE gk_knn_index AS
 SELECT r.rid, n.ord, n.id, n.d
 FROM gk_routes r,
      LATERAL (SELECT row_number() OVER () AS ord, id, d
-              FROM (SELECT id, geom <~> r.route AS d FROM gk_tracks ORDER BY geom <~> r.route LIMIT r.k) s) n;
+              FROM (SELECT id, geom <~~> r.route AS d FROM gk_tracks ORDER BY geom <~~> r.route LIMIT r.k) s) n;
 RESET enable_seqscan;
 SET enable_indexscan = off;
 SET enable_bitmapscan = off;
 EXPLAIN (COSTS OFF)
-SELECT id FROM gk_tracks ORDER BY geom <~> 'SRID=3857;LINESTRING(10000000 0,10000100 0)'::geometry LIMIT 10;
+SELECT id FROM gk_tracks ORDER BY geom <~~> 'SRID=3857;LINESTRING(10000000 0,10000100 0)'::geometry LIMIT 10;
 CREATE TABLE gk_knn_seq AS
 SELECT r.rid, n.ord, n.id, n.d
 FROM gk_routes r,
      LATERAL (SELECT row_number() OVER () AS ord, id, d
-              FROM (SELECT id, geom <~> r.route AS d FROM gk_tracks ORDER BY geom <~> r.route, id LIMIT r.k) s) n;
+              FROM (SELECT id, geom <~~> r.route AS d FROM gk_tracks ORDER BY geom <~~> r.route, id LIMIT r.k) s) n;
 RESET enable_indexscan;
 RESET enable_bitmapscan;
 
@@ -127,7 +127,7 @@ SELECT count(*) AS queries,
        count(*) FILTER (WHERE (SELECT array_agg(id ORDER BY id) FROM gk_knn_index x WHERE x.rid = w.rid AND x.d < w.dk)
                    IS DISTINCT FROM (SELECT array_agg(id ORDER BY id) FROM gk_knn_seq y WHERE y.rid = w.rid AND y.d < w.dk))
            AS rows_differ,
-       count(*) FILTER (WHERE (SELECT count(*) FROM gk_tracks t, gk_routes r WHERE r.rid = w.rid AND t.geom <~> r.route = w.dk) > 1)
+       count(*) FILTER (WHERE (SELECT count(*) FROM gk_tracks t, gk_routes r WHERE r.rid = w.rid AND t.geom <~~> r.route = w.dk) > 1)
            AS ties_at_kth,
        count(*) FILTER (WHERE w.ds[1] = 0) AS nearest_at_zero
 FROM w JOIN o USING (rid);
@@ -136,13 +136,13 @@ FROM w JOIN o USING (rid);
 SET enable_seqscan = off;
 CREATE TABLE gk_full AS
 SELECT row_number() OVER () AS ord, d
-FROM (SELECT geom <~> 'SRID=3857;LINESTRING(10000300 300,10000500 320,10000600 250)'::geometry AS d
-      FROM gk_tracks ORDER BY geom <~> 'SRID=3857;LINESTRING(10000300 300,10000500 320,10000600 250)'::geometry) s;
+FROM (SELECT geom <~~> 'SRID=3857;LINESTRING(10000300 300,10000500 320,10000600 250)'::geometry AS d
+      FROM gk_tracks ORDER BY geom <~~> 'SRID=3857;LINESTRING(10000300 300,10000500 320,10000600 250)'::geometry) s;
 RESET enable_seqscan;
 SELECT count(*) AS ranked, count(*) FILTER (WHERE f.d IS DISTINCT FROM s.d) AS differ
 FROM gk_full f
 JOIN (SELECT row_number() OVER (ORDER BY d) AS ord, d
-      FROM (SELECT geom <~> 'SRID=3857;LINESTRING(10000300 300,10000500 320,10000600 250)'::geometry AS d FROM gk_tracks) x) s USING (ord);
+      FROM (SELECT geom <~~> 'SRID=3857;LINESTRING(10000300 300,10000500 320,10000600 250)'::geometry AS d FROM gk_tracks) x) s USING (ord);
 
 -- Range queries through frechet_at_most's support function: stored tracks
 -- as routes (duplicates and distance-0 copies match at eps = 0), lines, a
@@ -152,7 +152,7 @@ CREATE TABLE gk_queries AS
 SELECT rid, route, eps, NULL::int AS boundary_id
 FROM gk_routes, unnest(ARRAY[0, 1, 2.5, 6, 15, 60]::float8[]) eps WHERE k = 10
 UNION ALL
-SELECT rid, route, t.geom <~> r.route, t.id
+SELECT rid, route, t.geom <~~> r.route, t.id
 FROM gk_routes r
 JOIN LATERAL (SELECT id, geom FROM gk_tracks t WHERE t.id % 1000 = r.rid ORDER BY id LIMIT 2) t ON true
 WHERE r.k = 10;
@@ -190,16 +190,16 @@ JOIN gk_range_seq o ON o.rid = w.rid AND o.eps = w.eps AND o.boundary_id IS NOT 
 -- The index condition alone never drops a row that frechet_at_most keeps.
 SELECT count(*) AS missed
 FROM gk_queries q JOIN gk_tracks t ON frechet_at_most(t.geom, q.route, q.eps)
-WHERE NOT (t.geom &~ frechet_reach(q.route, q.eps));
+WHERE NOT (t.geom |~~| frechet_reach(q.route, q.eps));
 
 -- With PostGIS's own index on the same column too: k-nearest still uses
--- ours (PostGIS's has no <~>); frechet_at_most may use either, and the
+-- ours (PostGIS's has no <~~>); frechet_at_most may use either, and the
 -- answers stay the same whichever the planner takes.
 CREATE INDEX gk_tracks_postgis ON gk_tracks USING gist (geom);
 ANALYZE gk_tracks;
 SET enable_seqscan = off;
 EXPLAIN (COSTS OFF)
-SELECT id FROM gk_tracks ORDER BY geom <~> 'SRID=3857;LINESTRING(10000000 0,10000100 0)'::geometry LIMIT 10;
+SELECT id FROM gk_tracks ORDER BY geom <~~> 'SRID=3857;LINESTRING(10000000 0,10000100 0)'::geometry LIMIT 10;
 SELECT count(*) AS queries,
        count(*) FILTER (WHERE o.ids IS DISTINCT FROM array(SELECT t.id FROM gk_tracks t WHERE frechet_at_most(t.geom, q.route, q.eps) ORDER BY t.id)) AS differ
 FROM gk_queries q JOIN gk_range_seq o ON o.rid = q.rid AND o.eps = q.eps AND o.boundary_id IS NOT DISTINCT FROM q.boundary_id;
@@ -221,7 +221,7 @@ CREATE TABLE gk_3d_index AS
 SELECT q.id AS qid, n.ord, n.d
 FROM (SELECT id, geom FROM gk_3d WHERE id % 400 = 5) q,
      LATERAL (SELECT row_number() OVER () AS ord, d
-              FROM (SELECT t.geom <~> q.geom AS d FROM gk_3d t ORDER BY t.geom <~> q.geom LIMIT 10) s) n;
+              FROM (SELECT t.geom <~~> q.geom AS d FROM gk_3d t ORDER BY t.geom <~~> q.geom LIMIT 10) s) n;
 RESET enable_seqscan;
 SET enable_indexscan = off;
 SET enable_bitmapscan = off;
@@ -229,7 +229,7 @@ CREATE TABLE gk_3d_seq AS
 SELECT q.id AS qid, n.ord, n.d
 FROM (SELECT id, geom FROM gk_3d WHERE id % 400 = 5) q,
      LATERAL (SELECT row_number() OVER () AS ord, d
-              FROM (SELECT t.geom <~> q.geom AS d FROM gk_3d t ORDER BY t.geom <~> q.geom LIMIT 10) s) n;
+              FROM (SELECT t.geom <~~> q.geom AS d FROM gk_3d t ORDER BY t.geom <~~> q.geom LIMIT 10) s) n;
 RESET enable_indexscan;
 RESET enable_bitmapscan;
 SELECT count(*) AS rows, count(DISTINCT qid) AS queries,
@@ -256,19 +256,19 @@ EXCEPTION WHEN OTHERS THEN
 END $$;
 SET enable_seqscan = off;
 SELECT pg_temp.outcome($$SELECT string_agg(id::text, ',' ORDER BY id) FROM gk_bad WHERE frechet_at_most(geom, 'LINESTRING(0 0,10 0)', 1)$$) AS range_with_index;
-SELECT pg_temp.outcome($$SELECT string_agg(id::text, ',') FROM (SELECT id FROM gk_bad ORDER BY geom <~> 'LINESTRING(0 0,10 0)' LIMIT 3) s$$) AS knn_with_index;
+SELECT pg_temp.outcome($$SELECT string_agg(id::text, ',') FROM (SELECT id FROM gk_bad ORDER BY geom <~~> 'LINESTRING(0 0,10 0)' LIMIT 3) s$$) AS knn_with_index;
 SELECT pg_temp.outcome($$SELECT string_agg(id::text, ',' ORDER BY id) FROM gk_bad WHERE id IN (1, 5, 6) AND frechet_at_most(geom, 'LINESTRING(0 0,10 0)', 1)$$) AS good_rows_only;
 RESET enable_seqscan;
 SET enable_indexscan = off;
 SET enable_bitmapscan = off;
 SELECT pg_temp.outcome($$SELECT string_agg(id::text, ',' ORDER BY id) FROM gk_bad WHERE frechet_at_most(geom, 'LINESTRING(0 0,10 0)', 1)$$) AS range_without_index;
-SELECT pg_temp.outcome($$SELECT string_agg(id::text, ',') FROM (SELECT id FROM gk_bad ORDER BY geom <~> 'LINESTRING(0 0,10 0)' LIMIT 3) s$$) AS knn_without_index;
+SELECT pg_temp.outcome($$SELECT string_agg(id::text, ',') FROM (SELECT id FROM gk_bad ORDER BY geom <~~> 'LINESTRING(0 0,10 0)' LIMIT 3) s$$) AS knn_without_index;
 RESET enable_indexscan;
 RESET enable_bitmapscan;
 -- Bad query routes and tolerances.
 SELECT frechet_reach('POLYGON((0 0,1 0,1 1,0 0))'::geometry, 1);
 SELECT frechet_reach('LINESTRING(0 0,1 1)'::geometry, -1);
-SELECT id FROM gk_bad ORDER BY geom <~> 'LINESTRING EMPTY'::geometry LIMIT 1;
+SELECT id FROM gk_bad ORDER BY geom <~~> 'LINESTRING EMPTY'::geometry LIMIT 1;
 
 -- Geography: 10,000 trips of 20 routes (150 m steps) in places chosen to
 -- strain the key (it keeps Earth-centred x and y): the Wrenmere latitude,
@@ -306,14 +306,14 @@ FROM (SELECT 1 AS src, id AS n, geog, 10 AS k FROM gg_routes
       UNION ALL SELECT 3, 0, 'SRID=4326;POINT(-1.49 53.41)'::geography, 5) s;
 SET enable_seqscan = off;
 EXPLAIN (COSTS OFF)
-SELECT id FROM gg_trips ORDER BY geog <~> 'SRID=4326;LINESTRING(-1.5 53.4,-1.49 53.41)'::geography LIMIT 10;
+SELECT id FROM gg_trips ORDER BY geog <~~> 'SRID=4326;LINESTRING(-1.5 53.4,-1.49 53.41)'::geography LIMIT 10;
 EXPLAIN (COSTS OFF)
 SELECT id FROM gg_trips WHERE frechet_at_most(geog, 'SRID=4326;LINESTRING(-1.5 53.4,-1.49 53.41)'::geography, 50);
 CREATE TABLE gg_knn_index AS
 SELECT q.qid, n.ord, n.id, n.d
 FROM gg_queries q,
      LATERAL (SELECT row_number() OVER () AS ord, id, d
-              FROM (SELECT id, geog <~> q.geog AS d FROM gg_trips ORDER BY geog <~> q.geog LIMIT q.k) s) n;
+              FROM (SELECT id, geog <~~> q.geog AS d FROM gg_trips ORDER BY geog <~~> q.geog LIMIT q.k) s) n;
 CREATE TABLE gg_range_index AS
 SELECT q.qid, e.eps,
        array(SELECT t.id FROM gg_trips t WHERE frechet_at_most(t.geog, q.geog, e.eps) ORDER BY t.id) AS ids
@@ -325,7 +325,7 @@ CREATE TABLE gg_knn_seq AS
 SELECT q.qid, n.ord, n.id, n.d
 FROM gg_queries q,
      LATERAL (SELECT row_number() OVER () AS ord, id, d
-              FROM (SELECT id, geog <~> q.geog AS d FROM gg_trips ORDER BY geog <~> q.geog, id LIMIT q.k) s) n;
+              FROM (SELECT id, geog <~~> q.geog AS d FROM gg_trips ORDER BY geog <~~> q.geog, id LIMIT q.k) s) n;
 CREATE TABLE gg_range_seq AS
 SELECT q.qid, e.eps,
        array(SELECT t.id FROM gg_trips t WHERE frechet_at_most(t.geog, q.geog, e.eps) ORDER BY t.id) AS ids
@@ -355,7 +355,7 @@ SET search_path = pg_catalog;
 EXPLAIN (COSTS OFF)
 SELECT id FROM public.gg_trips WHERE public.frechet_at_most(geog, 'SRID=4326;POINT(0 0)'::public.geography, 50);
 SELECT count(*) FROM (SELECT id FROM public.gg_trips
-                      ORDER BY geog OPERATOR(public.<~>) 'SRID=4326;POINT(-1.49 53.41)'::public.geography LIMIT 3) s;
+                      ORDER BY geog OPERATOR(public.<~~>) 'SRID=4326;POINT(-1.49 53.41)'::public.geography LIMIT 3) s;
 RESET search_path;
 
 DROP TABLE gk_lines, gk_arrays, gk_tracks, gk_routes, gk_knn_index, gk_knn_seq, gk_full, gk_queries,

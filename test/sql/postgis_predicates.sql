@@ -236,16 +236,16 @@ CREATE TABLE pl AS SELECT id, geom FROM pp WHERE ST_GeometryType(geom) = 'ST_Lin
 ANALYZE pl;
 CREATE TABLE pl_reference AS
 SELECT pg_temp.answer($$SELECT id FROM pl WHERE frechet_at_most(geom, (SELECT geom FROM pl WHERE id = 42), 30)$$) AS range,
-       (SELECT array_agg(id) FROM (SELECT id FROM pl ORDER BY geom <~> (SELECT geom FROM pl WHERE id = 42), id LIMIT 5) s) AS knn;
+       (SELECT array_agg(id) FROM (SELECT id FROM pl ORDER BY geom <~~> (SELECT geom FROM pl WHERE id = 42), id LIMIT 5) s) AS knn;
 CREATE INDEX pl_frechet ON pl USING gist (geom frechet_geometry_ops);
 SET enable_seqscan = off;
 EXPLAIN (COSTS OFF)
 SELECT id FROM pl WHERE frechet_at_most(geom, 'LINESTRING(0 0,100 100)'::geometry, 30);
 EXPLAIN (COSTS OFF)
-SELECT id FROM pl ORDER BY geom <~> 'LINESTRING(0 0,100 100)'::geometry LIMIT 5;
+SELECT id FROM pl ORDER BY geom <~~> 'LINESTRING(0 0,100 100)'::geometry LIMIT 5;
 SELECT pg_temp.answer($$SELECT id FROM pl WHERE frechet_at_most(geom, (SELECT geom FROM pl WHERE id = 42), 30)$$) = range AS range_same,
        split_part(range, ' ', 1)::int AS range_rows,
-       (SELECT array_agg(id) FROM (SELECT id FROM pl ORDER BY geom <~> (SELECT geom FROM pl WHERE id = 42), id LIMIT 5) s) = knn AS knn_same
+       (SELECT array_agg(id) FROM (SELECT id FROM pl ORDER BY geom <~~> (SELECT geom FROM pl WHERE id = 42), id LIMIT 5) s) = knn AS knn_same
 FROM pl_reference;
 RESET enable_seqscan;
 

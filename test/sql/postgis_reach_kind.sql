@@ -1,7 +1,7 @@
 -- frechet_key's kind of coordinates on PostGIS values: frechet_reach and
 -- frechet_track_key of a geography are Earth-centred (text ending in
 -- "earth"), of a geometry planar.  Mixing them is refused with 22023 by
--- frechet_within_reach / &~ and by both index operator classes, with and
+-- frechet_within_reach / |~~| and by both index operator classes, with and
 -- without an index, instead of answering false.
 CREATE EXTENSION IF NOT EXISTS postgis;
 CREATE EXTENSION frechet_ext_postgis;
@@ -44,8 +44,8 @@ SELECT frechet_within_reach(frechet_reach('LINESTRING(0 0,1 1)'::geography, 1), 
 SELECT pg_temp.try($$SELECT frechet_within_reach(frechet_reach('LINESTRING(0 0,1 1)'::geography, 1), 'LINESTRING(0 0,1 1)'::geometry)::text$$) AS geog_key_geom;
 SELECT pg_temp.try($$SELECT frechet_within_reach('LINESTRING(0 0,1 1)'::geometry, frechet_reach('LINESTRING(0 0,1 1)'::geography, 1))::text$$) AS geom_geog_key;
 SELECT pg_temp.try($$SELECT frechet_within_reach('LINESTRING(0 0,1 1)'::geography, frechet_reach('LINESTRING(0 0,1 1)'::geometry, 1e7))::text$$) AS geog_geom_key;
-SELECT pg_temp.try($$SELECT (frechet_reach('{"(0,0)","(1,1)"}'::point[], 1e7) &~ 'LINESTRING(0 0,1 1)'::geography)::text$$) AS point_array_key_geog;
-SELECT pg_temp.try($$SELECT ('{"(0,0)","(1,1)"}'::point[] &~ frechet_reach('LINESTRING(0 0,1 1)'::geography, 1))::text$$) AS point_array_geog_key;
+SELECT pg_temp.try($$SELECT (frechet_reach('{"(0,0)","(1,1)"}'::point[], 1e7) |~~| 'LINESTRING(0 0,1 1)'::geography)::text$$) AS point_array_key_geog;
+SELECT pg_temp.try($$SELECT ('{"(0,0)","(1,1)"}'::point[] |~~| frechet_reach('LINESTRING(0 0,1 1)'::geography, 1))::text$$) AS point_array_geog_key;
 
 -- the indexes: the same refusal with and without them
 CREATE TABLE rkg AS
@@ -57,12 +57,12 @@ CREATE INDEX rkg_geog ON rkg USING gist (geog frechet_geography_ops);
 ANALYZE rkg;
 CREATE TEMP TABLE rk_queries (label text, q text);
 INSERT INTO rk_queries VALUES
-	('geog &~ geog key', $$SELECT count(*)::text FROM rkg WHERE geog &~ frechet_reach('LINESTRING(1 0,1.1 0.01)'::geography, 2000)$$),
-	('geog &~ geom key', $$SELECT count(*)::text FROM rkg WHERE geog &~ frechet_reach('LINESTRING(1 0,1.1 0.01)'::geometry, 0.02)$$),
-	('geog &~ geom key, no row near', $$SELECT count(*)::text FROM rkg WHERE geog &~ frechet_reach('LINESTRING(100 0,100.1 0.01)'::geometry, 0.02)$$),
-	('geom &~ geom key', $$SELECT count(*)::text FROM rkg WHERE geom &~ frechet_reach('LINESTRING(1 0,1.1 0.01)'::geometry, 0.02)$$),
-	('geom &~ geog key', $$SELECT count(*)::text FROM rkg WHERE geom &~ frechet_reach('LINESTRING(1 0,1.1 0.01)'::geography, 2000)$$),
-	('geom &~ geog key, no row near', $$SELECT count(*)::text FROM rkg WHERE geom &~ frechet_reach('LINESTRING(100 0,100.1 0.01)'::geography, 2000)$$);
+	('geog |~~| geog key', $$SELECT count(*)::text FROM rkg WHERE geog |~~| frechet_reach('LINESTRING(1 0,1.1 0.01)'::geography, 2000)$$),
+	('geog |~~| geom key', $$SELECT count(*)::text FROM rkg WHERE geog |~~| frechet_reach('LINESTRING(1 0,1.1 0.01)'::geometry, 0.02)$$),
+	('geog |~~| geom key, no row near', $$SELECT count(*)::text FROM rkg WHERE geog |~~| frechet_reach('LINESTRING(100 0,100.1 0.01)'::geometry, 0.02)$$),
+	('geom |~~| geom key', $$SELECT count(*)::text FROM rkg WHERE geom |~~| frechet_reach('LINESTRING(1 0,1.1 0.01)'::geometry, 0.02)$$),
+	('geom |~~| geog key', $$SELECT count(*)::text FROM rkg WHERE geom |~~| frechet_reach('LINESTRING(1 0,1.1 0.01)'::geography, 2000)$$),
+	('geom |~~| geog key, no row near', $$SELECT count(*)::text FROM rkg WHERE geom |~~| frechet_reach('LINESTRING(100 0,100.1 0.01)'::geography, 2000)$$);
 SET enable_seqscan = off;
 CREATE TEMP TABLE rk_index AS SELECT label, pg_temp.uses_index(q) AS index_used, pg_temp.try(q) AS result FROM rk_queries;
 RESET enable_seqscan;

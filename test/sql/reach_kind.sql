@@ -31,7 +31,7 @@ SELECT frechet_within_reach('{"(0,0)","(4,3)"}'::point[],
 SELECT pg_temp.try($$SELECT frechet_within_reach('{"(0,0)","(4,3)"}'::point[],
     'start=(0,0.5)..(0,0.5) end=(4,3)..(4,3) min=(0,0.5)..(0,0.5) max=(4,3)..(4,3) reach=1 earth'::frechet_key)::text$$) AS earth_key_on_point_array,
        pg_temp.try($$SELECT ('start=(0,0.5)..(0,0.5) end=(4,3)..(4,3) min=(0,0.5)..(0,0.5) max=(4,3)..(4,3) reach=1000 earth'::frechet_key
-    &~ '{"(0,0)","(4,3)"}'::point[])::text$$) AS earth_key_swapped;
+    |~~| '{"(0,0)","(4,3)"}'::point[])::text$$) AS earth_key_swapped;
 
 -- the index: the same refusal, also when no row would qualify
 CREATE TABLE rk_tracks AS
@@ -41,18 +41,18 @@ ANALYZE rk_tracks;
 SET enable_seqscan = off;
 EXPLAIN (COSTS OFF)
 SELECT count(*) FROM rk_tracks
-WHERE track &~ 'start=(0,0)..(0,0) end=(4,3)..(4,3) min=(0,0)..(0,0) max=(4,3)..(4,3) reach=1 earth'::frechet_key;
+WHERE track |~~| 'start=(0,0)..(0,0) end=(4,3)..(4,3) min=(0,0)..(0,0) max=(4,3)..(4,3) reach=1 earth'::frechet_key;
 SELECT pg_temp.try($$SELECT count(*) FROM rk_tracks
-    WHERE track &~ 'start=(0,0)..(0,0) end=(4,3)..(4,3) min=(0,0)..(0,0) max=(4,3)..(4,3) reach=1 earth'::frechet_key$$) AS index_earth_key,
+    WHERE track |~~| 'start=(0,0)..(0,0) end=(4,3)..(4,3) min=(0,0)..(0,0) max=(4,3)..(4,3) reach=1 earth'::frechet_key$$) AS index_earth_key,
        pg_temp.try($$SELECT count(*) FROM rk_tracks
-    WHERE track &~ 'start=(100,0)..(100,0) end=(110,1)..(110,1) min=(100,0)..(100,0) max=(110,1)..(110,1) reach=1'::frechet_key$$) AS index_planar_key;
+    WHERE track |~~| 'start=(100,0)..(100,0) end=(110,1)..(110,1) min=(100,0)..(100,0) max=(110,1)..(110,1) reach=1'::frechet_key$$) AS index_planar_key;
 RESET enable_seqscan;
 SET enable_indexscan = off;
 SET enable_bitmapscan = off;
 SELECT pg_temp.try($$SELECT count(*) FROM rk_tracks
-    WHERE track &~ 'start=(0,0)..(0,0) end=(4,3)..(4,3) min=(0,0)..(0,0) max=(4,3)..(4,3) reach=1 earth'::frechet_key$$) AS seq_earth_key,
+    WHERE track |~~| 'start=(0,0)..(0,0) end=(4,3)..(4,3) min=(0,0)..(0,0) max=(4,3)..(4,3) reach=1 earth'::frechet_key$$) AS seq_earth_key,
        pg_temp.try($$SELECT count(*) FROM rk_tracks
-    WHERE track &~ 'start=(100,0)..(100,0) end=(110,1)..(110,1) min=(100,0)..(100,0) max=(110,1)..(110,1) reach=1'::frechet_key$$) AS seq_planar_key;
+    WHERE track |~~| 'start=(100,0)..(100,0) end=(110,1)..(110,1) min=(100,0)..(100,0) max=(110,1)..(110,1) reach=1'::frechet_key$$) AS seq_planar_key;
 RESET enable_indexscan;
 RESET enable_bitmapscan;
 DROP TABLE rk_tracks;
