@@ -20,6 +20,7 @@
 #include "catalog/indexing.h"
 #include "catalog/pg_extension.h"
 #include "catalog/pg_type.h"
+#include "executor/spi.h"
 #include "fmgr.h"
 #include "nodes/makefuncs.h"
 #include "nodes/nodeFuncs.h"
@@ -47,6 +48,8 @@ struct postgis_calls
 	FmgrInfo	to_geometry;	/* geometry(geography), for geography input */
 	FmgrInfo	from_ewkb;		/* ST_GeomFromEWKB(bytea), for results */
 	FmgrInfo	to_geography;	/* geography(geometry), for geography results */
+	Oid			nsp;			/* the postgis schema */
+	int32		srid_checked;	/* last SRID whose units were looked up (0: none) */
 };
 
 /* Schema of the installed postgis extension; ERROR when it is not installed. */
@@ -116,6 +119,7 @@ geo_postgis_calls_new(MemoryContext mcxt)
 				  &calls->from_ewkb, mcxt);
 	fmgr_info_cxt(schema_function(nsp, "geography", 1, &geometry),
 				  &calls->to_geography, mcxt);
+	calls->nsp = nsp;
 	return calls;
 }
 
@@ -206,13 +210,65 @@ to_ecef(const ewkb_curve *c, int argno)
 	return lonlat_to_ecef(c, &rep);
 }
 
-/* Decodes both EWKB arguments into engine curves, keeping the decoded input. */
+/* Does spatial_ref_sys say that srid's coordinates are longitude and latitude? */
+static bool
+srid_in_degrees(Oid nsp, int32 srid)
+{
+	bool		degrees = false;
+	char	   *sql = psprintf("SELECT proj4text ~ '[+]proj=(longlat|latlong)' OR srtext ~ '^(GEOGCS|GEOGCRS|GEODCRS)'"
+							   " FROM %s.spatial_ref_sys WHERE srid = %d",
+							   quote_identifier(get_namespace_name(nsp)), srid);
+
+	if (SPI_connect() != SPI_OK_CONNECT)
+		elog(ERROR, "SPI_connect failed");
+	if (SPI_execute(sql, true, 1) == SPI_OK_SELECT && SPI_processed == 1)
+	{
+		bool		isnull;
+		Datum		v = SPI_getbinval(SPI_tuptable->vals[0], SPI_tuptable->tupdesc, 1, &isnull);
+
+		degrees = !isnull && DatumGetBool(v);
+	}
+	SPI_finish();
+	pfree(sql);
+	return degrees;
+}
+
+/*
+ * A planar (geometry) function given coordinates in degrees answers in
+ * degrees, so a tolerance meant as metres never fires: a NOTICE, once per
+ * call site and SRID (the look-up is kept in fn_extra).
+ */
 static void
-decode_curves(bytea *a, bytea *b, bool geodetic, geo_curves *gc)
+note_planar_degrees(FunctionCallInfo fcinfo, int32 srid)
+{
+	postgis_calls *calls;
+
+	if (fcinfo == NULL || srid <= 0)
+		return;
+	calls = geo_calls_for(fcinfo);
+	if (calls->srid_checked == srid)
+		return;
+	calls->srid_checked = srid;
+	if (srid_in_degrees(calls->nsp, srid))
+		ereport(NOTICE,
+				(errmsg("SRID %d measures in degrees, so this geometry function answers in degrees", srid),
+				 errdetail("Distances and tolerances of the geometry functions are in the units of the SRID."),
+				 errhint("For metres use geography (a::geography, b::geography), or ST_Transform both to a projected SRID.")));
+}
+
+/*
+ * Decodes both EWKB arguments into engine curves, keeping the decoded
+ * input; fcinfo (NULL for the raw EWKB functions) is the call site of a
+ * planar function that may note degrees.
+ */
+static void
+decode_curves(bytea *a, bytea *b, bool geodetic, geo_curves *gc, FunctionCallInfo fcinfo)
 {
 	ewkb_decode((const uint8 *) VARDATA_ANY(a), VARSIZE_ANY_EXHDR(a), 1, &gc->a);
 	ewkb_decode((const uint8 *) VARDATA_ANY(b), VARSIZE_ANY_EXHDR(b), 2, &gc->b);
 	check_compatible(&gc->a, &gc->b, geodetic);
+	if (!geodetic)
+		note_planar_degrees(fcinfo, gc->a.srid);
 	gc->geodetic = geodetic;
 	gc->p.n = gc->a.n;
 	gc->q.n = gc->b.n;
@@ -232,11 +288,11 @@ decode_curves(bytea *a, bytea *b, bool geodetic, geo_curves *gc)
 
 /* Decodes both EWKB arguments into engine curves, geodetic: lon/lat to ECEF. */
 static void
-decode_pair(bytea *a, bytea *b, bool geodetic, fr_curve *p, fr_curve *q)
+decode_pair(bytea *a, bytea *b, bool geodetic, fr_curve *p, fr_curve *q, FunctionCallInfo fcinfo)
 {
 	geo_curves	gc;
 
-	decode_curves(a, b, geodetic, &gc);
+	decode_curves(a, b, geodetic, &gc, fcinfo);
 	*p = gc.p;
 	*q = gc.q;
 }
@@ -246,7 +302,7 @@ void
 geo_decode_args(FunctionCallInfo fcinfo, bool geodetic, geo_curves *gc)
 {
 	decode_curves(argument_ewkb(fcinfo, 0, geodetic), argument_ewkb(fcinfo, 1, geodetic),
-				  geodetic, gc);
+				  geodetic, gc, fcinfo);
 }
 
 /* Decodes the first argument alone (the curve of a one-curve function), as both a and b. */
@@ -255,7 +311,7 @@ geo_decode_one(FunctionCallInfo fcinfo, bool geodetic, geo_curves *gc)
 {
 	bytea	   *a = argument_ewkb(fcinfo, 0, geodetic);
 
-	decode_curves(a, a, geodetic, gc);
+	decode_curves(a, a, geodetic, gc, fcinfo);
 }
 
 /*
@@ -529,7 +585,7 @@ geo_engine_epsilon(const geo_curves *gc, double eps)
 
 /* Continuous distance of two encoded curves; in metres when geodetic. */
 static double
-distance_of(bytea *a, bytea *b, bool geodetic)
+distance_of(bytea *a, bytea *b, bool geodetic, FunctionCallInfo fcinfo)
 {
 	fr_curve	p,
 				q;
@@ -537,7 +593,7 @@ distance_of(bytea *a, bytea *b, bool geodetic)
 	double		d;
 	fr_status	st;
 
-	decode_pair(a, b, geodetic, &p, &q);
+	decode_pair(a, b, geodetic, &p, &q, fcinfo);
 	glue_env_begin(&g, fr_scratch_bytes(p.n, q.n), "frechet_distance");
 	st = fr_distance(&g.env, &p, &q, &d, NULL);
 	glue_env_end(&g);
@@ -547,7 +603,7 @@ distance_of(bytea *a, bytea *b, bool geodetic)
 
 /* Decision on two encoded curves; eps in metres when geodetic. */
 static bool
-at_most_of(bytea *a, bytea *b, double eps, bool geodetic)
+at_most_of(bytea *a, bytea *b, double eps, bool geodetic, FunctionCallInfo fcinfo)
 {
 	fr_curve	p,
 				q;
@@ -555,7 +611,7 @@ at_most_of(bytea *a, bytea *b, double eps, bool geodetic)
 	bool		yes;
 	fr_status	st;
 
-	decode_pair(a, b, geodetic, &p, &q);
+	decode_pair(a, b, geodetic, &p, &q, fcinfo);
 	glue_check_epsilon(eps, 3);
 	glue_env_begin(&g, fr_scratch_bytes(p.n, q.n), "frechet_at_most");
 	st = fr_decide(&g.env, &p, &q, geodetic ? fr_metres_to_chord(eps) : eps, &yes, NULL);
@@ -566,7 +622,7 @@ at_most_of(bytea *a, bytea *b, double eps, bool geodetic)
 
 /* Discrete distance of two encoded curves; in metres when geodetic. */
 static double
-discrete_of(bytea *a, bytea *b, bool geodetic)
+discrete_of(bytea *a, bytea *b, bool geodetic, FunctionCallInfo fcinfo)
 {
 	fr_curve	p,
 				q;
@@ -574,7 +630,7 @@ discrete_of(bytea *a, bytea *b, bool geodetic)
 	double		d;
 	fr_status	st;
 
-	decode_pair(a, b, geodetic, &p, &q);
+	decode_pair(a, b, geodetic, &p, &q, fcinfo);
 	glue_env_begin(&g, fr_scratch_bytes(p.n, q.n), "discrete_frechet_distance");
 	st = fr_discrete_distance(&g.env, &p, &q, &d);
 	glue_env_end(&g);
@@ -588,7 +644,7 @@ Datum
 frechet_distance_ewkb(PG_FUNCTION_ARGS)
 {
 	PG_RETURN_FLOAT8(distance_of(PG_GETARG_BYTEA_PP(0), PG_GETARG_BYTEA_PP(1),
-								 PG_GETARG_BOOL(2)));
+								 PG_GETARG_BOOL(2), NULL));
 }
 
 PG_FUNCTION_INFO_V1(frechet_at_most_ewkb);
@@ -597,7 +653,7 @@ Datum
 frechet_at_most_ewkb(PG_FUNCTION_ARGS)
 {
 	PG_RETURN_BOOL(at_most_of(PG_GETARG_BYTEA_PP(0), PG_GETARG_BYTEA_PP(1),
-							  PG_GETARG_FLOAT8(2), PG_GETARG_BOOL(3)));
+							  PG_GETARG_FLOAT8(2), PG_GETARG_BOOL(3), NULL));
 }
 
 PG_FUNCTION_INFO_V1(discrete_frechet_distance_ewkb);
@@ -606,7 +662,7 @@ Datum
 discrete_frechet_distance_ewkb(PG_FUNCTION_ARGS)
 {
 	PG_RETURN_FLOAT8(discrete_of(PG_GETARG_BYTEA_PP(0), PG_GETARG_BYTEA_PP(1),
-								 PG_GETARG_BOOL(2)));
+								 PG_GETARG_BOOL(2), NULL));
 }
 
 PG_FUNCTION_INFO_V1(frechet_distance_geometry);
@@ -615,7 +671,7 @@ Datum
 frechet_distance_geometry(PG_FUNCTION_ARGS)
 {
 	PG_RETURN_FLOAT8(distance_of(argument_ewkb(fcinfo, 0, false),
-								 argument_ewkb(fcinfo, 1, false), false));
+								 argument_ewkb(fcinfo, 1, false), false, fcinfo));
 }
 
 PG_FUNCTION_INFO_V1(frechet_at_most_geometry);
@@ -625,7 +681,7 @@ frechet_at_most_geometry(PG_FUNCTION_ARGS)
 {
 	PG_RETURN_BOOL(at_most_of(argument_ewkb(fcinfo, 0, false),
 							  argument_ewkb(fcinfo, 1, false),
-							  PG_GETARG_FLOAT8(2), false));
+							  PG_GETARG_FLOAT8(2), false, fcinfo));
 }
 
 PG_FUNCTION_INFO_V1(discrete_frechet_distance_geometry);
@@ -634,7 +690,7 @@ Datum
 discrete_frechet_distance_geometry(PG_FUNCTION_ARGS)
 {
 	PG_RETURN_FLOAT8(discrete_of(argument_ewkb(fcinfo, 0, false),
-								 argument_ewkb(fcinfo, 1, false), false));
+								 argument_ewkb(fcinfo, 1, false), false, fcinfo));
 }
 
 PG_FUNCTION_INFO_V1(frechet_distance_geography);
@@ -643,7 +699,7 @@ Datum
 frechet_distance_geography(PG_FUNCTION_ARGS)
 {
 	PG_RETURN_FLOAT8(distance_of(argument_ewkb(fcinfo, 0, true),
-								 argument_ewkb(fcinfo, 1, true), true));
+								 argument_ewkb(fcinfo, 1, true), true, fcinfo));
 }
 
 PG_FUNCTION_INFO_V1(frechet_at_most_geography);
@@ -653,7 +709,7 @@ frechet_at_most_geography(PG_FUNCTION_ARGS)
 {
 	PG_RETURN_BOOL(at_most_of(argument_ewkb(fcinfo, 0, true),
 							  argument_ewkb(fcinfo, 1, true),
-							  PG_GETARG_FLOAT8(2), true));
+							  PG_GETARG_FLOAT8(2), true, fcinfo));
 }
 
 PG_FUNCTION_INFO_V1(discrete_frechet_distance_geography);
@@ -662,7 +718,7 @@ Datum
 discrete_frechet_distance_geography(PG_FUNCTION_ARGS)
 {
 	PG_RETURN_FLOAT8(discrete_of(argument_ewkb(fcinfo, 0, true),
-								 argument_ewkb(fcinfo, 1, true), true));
+								 argument_ewkb(fcinfo, 1, true), true, fcinfo));
 }
 
 PG_FUNCTION_INFO_V1(frechet_index_expansion);

@@ -35,3 +35,6 @@ FROM (SELECT DISTINCT oprname FROM op_owner WHERE owner IN ('frechet_ext', 'frec
 WHERE oprname IN ('<#>', '<=>', '<+>', '<~>', '<%>');
 
 DROP EXTENSION btree_gist, intarray, ltree, hstore, earthdistance, cube, pg_trgm;
+
+DROP EXTENSION frechet_ext_postgis;
+DROP EXTENSION postgis;

@@ -73,6 +73,18 @@ SELECT round(frechet_distance('LINESTRING Z(10 50 100, 10.01 50 140, 10.02 50.00
 -- geometry still needs both 2-D or both 3-D
 SELECT pg_temp.error_of($$SELECT frechet_distance('LINESTRING Z(0 0 1, 1 1 1)'::geometry, 'LINESTRING(0 0, 1 1)'::geometry)$$);
 
+-- A geometry in lon/lat degrees given to a planar function: its answers
+-- are in degrees, so a 50 "m" tolerance never fires.  One NOTICE per call
+-- site (not per row); none for a projected SRID, SRID 0 or geography.
+SELECT count(*) FILTER (WHERE frechet_at_most(g, 'SRID=4326;LINESTRING(10 50, 10.01 50)'::geometry, 50)) AS within_50_degrees
+FROM (SELECT ST_SetSRID(ST_MakeLine(ST_MakePoint(10, 50 + i * 0.001), ST_MakePoint(10.01, 50 + i * 0.001)), 4326) AS g
+      FROM generate_series(1, 5) i) s;
+SELECT count(*) AS matching_rows FROM frechet_matching('SRID=4269;LINESTRING(-80 40, -80.01 40)'::geometry,
+                                                       'SRID=4269;LINESTRING(-80 40.001, -80.01 40)'::geometry);
+SELECT round(frechet_distance('SRID=27700;LINESTRING(0 0, 10 0)'::geometry, 'SRID=27700;LINESTRING(0 1, 10 1)'::geometry)::numeric, 6) AS projected,
+       round(frechet_distance('LINESTRING(0 0, 10 0)'::geometry, 'LINESTRING(0 1, 10 1)'::geometry)::numeric, 6) AS srid_0,
+       round(frechet_distance('SRID=4326;LINESTRING(10 50, 10.01 50)'::geography, 'SRID=4326;LINESTRING(10 50.001, 10.01 50)'::geography)::numeric, 1) AS geography_m;
+
 -- The batch: 8 routes in UTM 33N, 100,000 trips through every stop within
 -- 8 m (one in 50 within 40 m); every 100th row bad.
 CREATE TABLE gbatch_routes AS
@@ -144,3 +156,7 @@ SELECT pg_temp.error_of($$SELECT count(*) FROM gbatch_trips t JOIN gbatch_routes
                           WHERE NOT frechet_at_most(t.track, route, 25) AND t.id BETWEEN 150 AND 250$$) AS first_error;
 
 DROP TABLE gbatch_trips, gbatch_routes;
+
+DROP TABLE gsamples, multis;
+DROP EXTENSION frechet_ext_postgis;
+DROP EXTENSION postgis;
