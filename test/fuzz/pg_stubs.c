@@ -185,3 +185,39 @@ stub_palloc_reset(void)
 	while (stub_nallocs > 0)
 		free(stub_allocs[--stub_nallocs]);
 }
+
+/* repalloc as realloc, keeping the block in the outstanding list. */
+void *
+repalloc(void *pointer, Size size)
+{
+	void	   *p = realloc(pointer, size > 0 ? size : 1);
+
+	if (p == NULL)
+		abort();
+	for (int i = 0; i < stub_nallocs; i++)
+		if (stub_allocs[i] == pointer)
+		{
+			stub_allocs[i] = p;
+			return p;
+		}
+	abort();					/* not a block of ours */
+}
+
+/* The server's snprintf family (port.h maps the names), as the C library's. */
+int
+pg_vsnprintf(char *str, size_t count, const char *fmt, va_list args)
+{
+	return vsnprintf(str, count, fmt, args);
+}
+
+int
+pg_snprintf(char *str, size_t count, const char *fmt,...)
+{
+	va_list		ap;
+	int			r;
+
+	va_start(ap, fmt);
+	r = vsnprintf(str, count, fmt, ap);
+	va_end(ap);
+	return r;
+}
