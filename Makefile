@@ -8,7 +8,8 @@ EXTVERSION = 0.2
 
 CORE_OBJS = src/core/freespace.o src/core/reach.o src/core/decide.o src/core/distance.o \
 	src/core/discrete.o src/core/matching.o src/core/partial.o \
-	src/core/excursions.o src/core/prune.o src/core/simplify.o src/core/pings.o
+	src/core/excursions.o src/core/prune.o src/core/simplify.o src/core/pings.o \
+	src/core/progress.o
 OBJS = $(CORE_OBJS) src/frechet_ext.o src/point_array.o src/track_report.o src/witness.o
 
 # Index: cheap bounds in the engine, GiST operator class, planner support.
@@ -42,8 +43,8 @@ OBJS += src/geo_gist.o
 # Maps and dashboards: track pieces and GeoJSON (SQL bodies in the install
 # scripts); frechet_track_check, the bad-row filter of batches.
 OBJS += src/track_piece.o src/track_check.o
-# Sparse pings matched in order to a route, on every input type.
-OBJS += src/ping_glue.o
+# Sparse pings matched in order to a route, and trips in progress, on every input type.
+OBJS += src/ping_glue.o src/progress_glue.o
 
 # Debian installs several majors side by side; prefer 15, the supported one.
 PG_CONFIG ?= $(firstword $(wildcard /usr/lib/postgresql/15/bin/pg_config) pg_config)

@@ -136,3 +136,12 @@ COMMENT ON FUNCTION @extschema@.frechet_reach(pg_catalog.point[], pg_catalog.flo
 'the route''s summary with epsilon as its reach: the right operand of |~~| in range queries';
 COMMENT ON FUNCTION @extschema@.frechet_at_most_support(internal) IS
 'planner support for frechet_at_most: derives the lossy index condition track |~~| frechet_reach(route, epsilon)';
+
+CREATE FUNCTION @extschema@.frechet_progress(trip pg_catalog.point[], route pg_catalog.point[], epsilon pg_catalog.float8,
+	OUT route_pos pg_catalog.float8, OUT route_fraction pg_catalog.float8, OUT route_point pg_catalog.point)
+RETURNS SETOF pg_catalog.record
+AS 'MODULE_PATHNAME', 'frechet_progress_point_array'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 5000 ROWS 1;
+
+COMMENT ON FUNCTION @extschema@.frechet_progress(pg_catalog.point[], pg_catalog.point[], pg_catalog.float8) IS
+'a trip in progress: one row when all of the trip so far is within Fréchet distance epsilon of a prefix of the route (from its start), with where on the route it is now (position k + t, share of the length, the point); no row otherwise';

@@ -413,3 +413,12 @@ LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 10;
 
 COMMENT ON FUNCTION @extschema@.frechet_track_check(pg_catalog.point[]) IS
 'NULL when every function accepts the track; otherwise what is wrong and where, in the words of the error the functions would raise; never raises an error (for the bad rows of a batch and a partial index)';
+
+CREATE FUNCTION @extschema@.frechet_progress(trip pg_catalog.point[], route pg_catalog.point[], epsilon pg_catalog.float8,
+	OUT route_pos pg_catalog.float8, OUT route_fraction pg_catalog.float8, OUT route_point pg_catalog.point)
+RETURNS SETOF pg_catalog.record
+AS 'MODULE_PATHNAME', 'frechet_progress_point_array'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 5000 ROWS 1;
+
+COMMENT ON FUNCTION @extschema@.frechet_progress(pg_catalog.point[], pg_catalog.point[], pg_catalog.float8) IS
+'a trip in progress: one row when all of the trip so far is within Fréchet distance epsilon of a prefix of the route (from its start), with where on the route it is now (position k + t, share of the length, the point); no row otherwise';

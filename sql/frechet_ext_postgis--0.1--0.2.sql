@@ -411,3 +411,21 @@ COMMENT ON FUNCTION @extschema@.frechet_reach(geometry, pg_catalog.float8) IS
 'the route''s summary with epsilon (units of the SRID) as its reach: the right operand of |~~| in range queries';
 COMMENT ON FUNCTION @extschema@.frechet_reach(geography, pg_catalog.float8) IS
 'the route''s summary with epsilon (metres, kept as the largest chord within them) as its reach: the right operand of |~~|';
+
+CREATE FUNCTION @extschema@.frechet_progress(trip geometry, route geometry, epsilon pg_catalog.float8,
+	OUT route_pos pg_catalog.float8, OUT route_fraction pg_catalog.float8, OUT route_point geometry)
+RETURNS SETOF pg_catalog.record
+AS 'MODULE_PATHNAME', 'frechet_progress_geometry'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 5000 ROWS 1;
+
+COMMENT ON FUNCTION @extschema@.frechet_progress(geometry, geometry, pg_catalog.float8) IS
+'a trip in progress (units of the SRID): one row when all of the trip so far is within epsilon of a prefix of the route, with where on the route it is now; no row otherwise';
+
+CREATE FUNCTION @extschema@.frechet_progress(trip geography, route geography, epsilon pg_catalog.float8,
+	OUT route_pos pg_catalog.float8, OUT route_fraction pg_catalog.float8, OUT route_point geography)
+RETURNS SETOF pg_catalog.record
+AS 'MODULE_PATHNAME', 'frechet_progress_geography'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 5000 ROWS 1;
+
+COMMENT ON FUNCTION @extschema@.frechet_progress(geography, geography, pg_catalog.float8) IS
+'a trip in progress (metres): one row when all of the trip so far is within epsilon of a prefix of the route, with where on the route it is now; no row otherwise';

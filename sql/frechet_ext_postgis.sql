@@ -797,3 +797,21 @@ LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 50;
 
 COMMENT ON FUNCTION @extschema@.frechet_track_check(geography, pg_catalog.int4) IS
 'as frechet_track_check(track), and the track''s SRID must be srid';
+
+CREATE FUNCTION @extschema@.frechet_progress(trip geometry, route geometry, epsilon pg_catalog.float8,
+	OUT route_pos pg_catalog.float8, OUT route_fraction pg_catalog.float8, OUT route_point geometry)
+RETURNS SETOF pg_catalog.record
+AS 'MODULE_PATHNAME', 'frechet_progress_geometry'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 5000 ROWS 1;
+
+COMMENT ON FUNCTION @extschema@.frechet_progress(geometry, geometry, pg_catalog.float8) IS
+'a trip in progress (units of the SRID): one row when all of the trip so far is within epsilon of a prefix of the route, with where on the route it is now; no row otherwise';
+
+CREATE FUNCTION @extschema@.frechet_progress(trip geography, route geography, epsilon pg_catalog.float8,
+	OUT route_pos pg_catalog.float8, OUT route_fraction pg_catalog.float8, OUT route_point geography)
+RETURNS SETOF pg_catalog.record
+AS 'MODULE_PATHNAME', 'frechet_progress_geography'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 5000 ROWS 1;
+
+COMMENT ON FUNCTION @extschema@.frechet_progress(geography, geography, pg_catalog.float8) IS
+'a trip in progress (metres): one row when all of the trip so far is within epsilon of a prefix of the route, with where on the route it is now; no row otherwise';

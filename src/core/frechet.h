@@ -252,6 +252,20 @@ fr_status	fr_pings_excursions(const fr_env *env, const fr_curve *pings, const fr
 /* Scratch bytes of fr_pings_excursions. */
 size_t		fr_pings_excursions_scratch_bytes(size_t n, size_t m);
 
+/*
+ * A trip in progress (progress.c): is all of the trip within Fréchet
+ * distance eps of a prefix of the route (its first point near the route's
+ * start)?  *found says so; *route_pos (0-based k + t) is where the trip is
+ * now: in the first connected stretch of places where such a prefix can
+ * end, the place nearest the trip's last point; *fraction is its share of
+ * the route's length (0 for a one-point route).
+ */
+fr_status	fr_progress(const fr_env *env, const fr_curve *trip, const fr_curve *route, double eps,
+						bool *found, double *route_pos, double *fraction);
+
+/* Scratch bytes of fr_progress. */
+size_t		fr_progress_scratch_bytes(size_t n, size_t m);
+
 /* The point at position pos (k + t, 0-based) of a curve, into out[dim]. */
 void		fr_curve_point(const fr_curve *c, double pos, double *out);
 

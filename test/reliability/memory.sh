@@ -78,6 +78,8 @@ measure_srf "frechet_matching" "frechet_matching($A, $B)" 30000
 measure_srf "frechet_excursions" "frechet_excursions($A, $B, 1.5)" 30000
 measure_srf "frechet_partial_match" "frechet_partial_match($B, $A, 1.5)" 30000
 measure_srf "frechet_bottleneck" "frechet_bottleneck($A, $B)" 30000
+measure_srf "frechet_progress" "frechet_progress($A, $B, 1.5)" 30000
+measure_srf "frechet_pings_excursions" "frechet_pings_excursions($A, $B, 1.5)" 30000
 
 # The same on geometry and geography, when PostGIS is installed.
 if rpsql -c "SET client_min_messages = warning" -c "CREATE EXTENSION frechet_ext_postgis CASCADE" >/dev/null 2>&1; then
@@ -89,6 +91,7 @@ if rpsql -c "SET client_min_messages = warning" -c "CREATE EXTENSION frechet_ext
 	measure_srf "frechet_bottleneck(geometry)" "frechet_bottleneck($GA, $GB)" 20000
 	measure_srf "frechet_matching(geography)" "frechet_matching(($GA)::geography, ($GB)::geography)" 20000
 	measure_srf "frechet_excursions(geography)" "frechet_excursions(($GA)::geography, ($GB)::geography, 150000)" 20000
+	measure_srf "frechet_progress(geography)" "frechet_progress(($GA)::geography, ($GB)::geography, 150000)" 20000
 else
 	tap 0 "memory: # SKIP PostGIS is not installed: no geometry or geography runs"
 fi
