@@ -7,7 +7,9 @@
  *   - the excursions are empty exactly when the decision accepts eps;
  *   - a partial match's route part is within eps of the trip (the decider
  *     on the part, up to the rounding of the part's two positions), and the
- *     partial distance is at most the distance.
+ *     partial distance is at most the distance;
+ *   - a trip in progress is found whenever the whole route matches, and
+ *     the route's prefix up to the place found is within eps.
  */
 #include "fuzz_case.h"
 
@@ -117,11 +119,62 @@ check_partial(fuzz_case *c)
 		fail(c, "partial matching leaked %ld blocks", h.live);
 }
 
+/*
+ * A trip in progress (the first curve on the second): found whenever the
+ * whole route matches, and then the route's prefix up to the place found
+ * is within eps of the trip (up to the rounding of the interpolated end).
+ */
+static void
+check_progress(fuzz_case *c)
+{
+	static double prefix[FUZZ_MAX_VERTICES * 3 + 3];
+	fuzz_heap	h;
+	fr_env		e = heap_env(&h);
+	bool		found = false,
+				yes = false;
+	double		pos = -1,
+				frac = -1;
+	size_t		k;
+	fr_curve	pre;
+	fr_status	st;
+
+	if (c->large || isinf(c->eps))
+		return;
+	st = fr_progress(&e, &c->p, &c->q, c->eps, &found, &pos, &frac);
+	if (st != FR_OK)
+		fail(c, "fr_progress returned %s", fr_status_text(st));
+	if (h.live != 0)
+		fail(c, "fr_progress leaked %ld blocks", h.live);
+	if (!found)
+	{
+		if (decide(c, c->eps, true))
+			fail(c, "the whole route is within eps %.17g, but fr_progress found no prefix", c->eps);
+		return;
+	}
+	if (!(pos >= 0 && pos <= (double) (c->q.n - 1)) || !(frac >= 0 && frac <= 1))
+		fail(c, "fr_progress place %.17g, fraction %.17g", pos, frac);
+	k = (size_t) floor(pos);
+	memcpy(prefix, c->q.coords, (k + 1) * c->q.dim * sizeof(double));
+	pre.coords = prefix;
+	pre.dim = c->q.dim;
+	pre.n = k + 1;
+	if (pos > (double) k)
+	{
+		fr_curve_point(&c->q, pos, prefix + (k + 1) * c->q.dim);
+		pre.n++;
+	}
+	st = fr_decide_plain(&e, &c->p, &pre, c->eps * (1 + REL_TOL) + 4 * DBL_EPSILON * c->scale + SUBNORMAL_SLACK,
+						 &yes, NULL);
+	if (st == FR_OK && !yes)
+		fail(c, "the route's prefix up to %.17g is not within eps %.17g of the trip", pos, c->eps);
+}
+
 static const fuzz_check fuzz_checks[] = {
 	check_distance,
 	check_matching,
 	check_excursions,
 	check_partial,
+	check_progress,
 };
 
 int			LLVMFuzzerTestOneInput(const uint8_t *data, size_t size);
