@@ -78,7 +78,7 @@ LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
 
 CREATE FUNCTION @extschema@.frechet_pings_excursions(trip pg_catalog.point[], route pg_catalog.point[], epsilon pg_catalog.float8,
 	OUT ping_from pg_catalog.int4, OUT ping_to pg_catalog.int4, OUT route_from pg_catalog.float8, OUT route_to pg_catalog.float8,
-	OUT max_leash pg_catalog.float8, OUT trip_length pg_catalog.float8)
+	OUT max_leash pg_catalog.float8, OUT trip_length pg_catalog.float8, OUT route_length pg_catalog.float8)
 RETURNS SETOF pg_catalog.record
 AS 'MODULE_PATHNAME', 'frechet_pings_excursions_point_array'
 LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 2000 ROWS 2;
@@ -145,3 +145,75 @@ LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 5000 ROWS 1;
 
 COMMENT ON FUNCTION @extschema@.frechet_progress(pg_catalog.point[], pg_catalog.point[], pg_catalog.float8) IS
 'a trip in progress: one row when all of the trip so far is within Fréchet distance epsilon of a prefix of the route (from its start), with where on the route it is now (position k + t, share of the length, the point); no row otherwise';
+
+-- Excursions gain route_length (the route between where the trip left and
+-- rejoined it).  A function's result columns cannot change in place, so
+-- it is dropped and made again, with frechet_geojson that reads it.
+DROP FUNCTION @extschema@.frechet_geojson(pg_catalog.point[], pg_catalog.point[], pg_catalog.float8);
+DROP FUNCTION @extschema@.frechet_excursions(pg_catalog.point[], pg_catalog.point[], pg_catalog.float8);
+
+CREATE FUNCTION @extschema@.frechet_excursions(trip pg_catalog.point[], route pg_catalog.point[],
+	epsilon pg_catalog.float8)
+RETURNS TABLE (trip_from pg_catalog.float8, trip_to pg_catalog.float8,
+	route_from pg_catalog.float8, route_to pg_catalog.float8,
+	max_leash pg_catalog.float8, trip_length pg_catalog.float8, route_length pg_catalog.float8)
+AS 'MODULE_PATHNAME', 'frechet_excursions_point_array'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 100000 ROWS 2;
+
+COMMENT ON FUNCTION @extschema@.frechet_excursions(pg_catalog.point[], pg_catalog.point[], pg_catalog.float8) IS
+'stretches of the trip (vertex numbers) that an order-preserving matching cannot keep within epsilon of the route, with where on the route it left and rejoined, the stretch''s length and the length of route between; no rows exactly when frechet_at_most is true';
+
+CREATE FUNCTION @extschema@.frechet_geojson(a pg_catalog.point[], b pg_catalog.point[],
+	epsilon pg_catalog.float8 DEFAULT NULL)
+RETURNS pg_catalog.jsonb
+LANGUAGE sql IMMUTABLE PARALLEL SAFE COST 300000
+BEGIN ATOMIC
+	SELECT pg_catalog.jsonb_build_object(
+		'type', 'FeatureCollection',
+		'frechet', pg_catalog.jsonb_build_object(
+			'distance', dd.d,
+			'epsilon', epsilon,
+			'within_epsilon', @extschema@.frechet_at_most(a, b, epsilon),
+			'excursions', pg_catalog.jsonb_array_length(ex.features)),
+		'features', pg_catalog.jsonb_build_array(
+			pg_catalog.jsonb_build_object('type', 'Feature',
+				'properties', pg_catalog.jsonb_build_object('role', 'a', 'vertices', pg_catalog.cardinality(a),
+					'distance', dd.d, 'epsilon', epsilon),
+				'geometry', @extschema@.frechet_track_geojson(a)),
+			pg_catalog.jsonb_build_object('type', 'Feature',
+				'properties', pg_catalog.jsonb_build_object('role', 'b', 'vertices', pg_catalog.cardinality(b),
+					'distance', dd.d, 'epsilon', epsilon),
+				'geometry', @extschema@.frechet_track_geojson(b)),
+			pg_catalog.jsonb_build_object('type', 'Feature',
+				'properties', pg_catalog.jsonb_build_object('role', 'leashes', 'count', ls.n),
+				'geometry', pg_catalog.jsonb_build_object('type', 'MultiLineString',
+					'coordinates', ls.lines)),
+			pg_catalog.jsonb_build_object('type', 'Feature',
+				'properties', pg_catalog.jsonb_build_object('role', 'bottleneck', 'leash', bn.leash,
+					'a_pos', bn.a_pos, 'b_pos', bn.b_pos),
+				'geometry', pg_catalog.jsonb_build_object('type', 'LineString',
+					'coordinates', pg_catalog.jsonb_build_array(
+						pg_catalog.jsonb_build_array(bn.a_point[0], bn.a_point[1]),
+						pg_catalog.jsonb_build_array(bn.b_point[0], bn.b_point[1])))))
+			OPERATOR(pg_catalog.||) ex.features)
+	FROM (SELECT @extschema@.frechet_distance(a, b) AS d) AS dd,
+		@extschema@.frechet_bottleneck(a, b) AS bn,
+		LATERAL (SELECT pg_catalog.count(*) AS n,
+				pg_catalog.jsonb_agg(pg_catalog.jsonb_build_array(
+					pg_catalog.jsonb_build_array(m.a_point[0], m.a_point[1]),
+					pg_catalog.jsonb_build_array(m.b_point[0], m.b_point[1])) ORDER BY m.step) AS lines
+			FROM @extschema@.frechet_matching(a, b) AS m) AS ls,
+		LATERAL (SELECT COALESCE(pg_catalog.jsonb_agg(pg_catalog.jsonb_build_object('type', 'Feature',
+					'properties', pg_catalog.jsonb_build_object('role', 'excursion', 'number', x.n,
+						'trip_from', x.trip_from, 'trip_to', x.trip_to,
+						'route_from', x.route_from, 'route_to', x.route_to,
+						'max_leash', x.max_leash, 'trip_length', x.trip_length, 'route_length', x.route_length),
+					'geometry', @extschema@.frechet_track_geojson(
+						@extschema@.frechet_track_piece(a, x.trip_from, x.trip_to))) ORDER BY x.n),
+				'[]'::pg_catalog.jsonb) AS features
+			FROM @extschema@.frechet_excursions(a, b, epsilon) WITH ORDINALITY AS x(trip_from, trip_to,
+				route_from, route_to, max_leash, trip_length, route_length, n)) AS ex;
+END;
+
+COMMENT ON FUNCTION @extschema@.frechet_geojson(pg_catalog.point[], pg_catalog.point[], pg_catalog.float8) IS
+'a GeoJSON FeatureCollection of a pair for a map: both tracks (roles a, b), the leashes of an optimal matching, the bottleneck leash and, with epsilon, the excursions of a from b; a foreign member frechet with distance and epsilon (a FeatureCollection may not have properties); coordinates as stored';

@@ -85,12 +85,12 @@ CREATE FUNCTION @extschema@.frechet_excursions(trip pg_catalog.point[], route pg
 	epsilon pg_catalog.float8)
 RETURNS TABLE (trip_from pg_catalog.float8, trip_to pg_catalog.float8,
 	route_from pg_catalog.float8, route_to pg_catalog.float8,
-	max_leash pg_catalog.float8, trip_length pg_catalog.float8)
+	max_leash pg_catalog.float8, trip_length pg_catalog.float8, route_length pg_catalog.float8)
 AS 'MODULE_PATHNAME', 'frechet_excursions_point_array'
 LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 100000 ROWS 2;
 
 COMMENT ON FUNCTION @extschema@.frechet_excursions(pg_catalog.point[], pg_catalog.point[], pg_catalog.float8) IS
-'stretches of the trip (vertex numbers) that an order-preserving matching cannot keep within epsilon of the route, with where on the route it left and rejoined; no rows exactly when frechet_at_most is true';
+'stretches of the trip (vertex numbers) that an order-preserving matching cannot keep within epsilon of the route, with where on the route it left and rejoined, the stretch''s length and the length of route between; no rows exactly when frechet_at_most is true';
 -- Index support: a GiST operator class on point[] for range queries
 -- (frechet_at_most, through its planner support function) and k-nearest
 -- queries (ORDER BY track <-> route).  See src/gist.c and src/support.c.
@@ -334,12 +334,12 @@ BEGIN ATOMIC
 					'properties', pg_catalog.jsonb_build_object('role', 'excursion', 'number', x.n,
 						'trip_from', x.trip_from, 'trip_to', x.trip_to,
 						'route_from', x.route_from, 'route_to', x.route_to,
-						'max_leash', x.max_leash, 'trip_length', x.trip_length),
+						'max_leash', x.max_leash, 'trip_length', x.trip_length, 'route_length', x.route_length),
 					'geometry', @extschema@.frechet_track_geojson(
 						@extschema@.frechet_track_piece(a, x.trip_from, x.trip_to))) ORDER BY x.n),
 				'[]'::pg_catalog.jsonb) AS features
 			FROM @extschema@.frechet_excursions(a, b, epsilon) WITH ORDINALITY AS x(trip_from, trip_to,
-				route_from, route_to, max_leash, trip_length, n)) AS ex;
+				route_from, route_to, max_leash, trip_length, route_length, n)) AS ex;
 END;
 
 COMMENT ON FUNCTION @extschema@.frechet_geojson(pg_catalog.point[], pg_catalog.point[], pg_catalog.float8) IS
@@ -398,7 +398,7 @@ ALTER OPERATOR FAMILY @extschema@.frechet_track_ops USING gist ADD
 
 CREATE FUNCTION @extschema@.frechet_pings_excursions(trip pg_catalog.point[], route pg_catalog.point[], epsilon pg_catalog.float8,
 	OUT ping_from pg_catalog.int4, OUT ping_to pg_catalog.int4, OUT route_from pg_catalog.float8, OUT route_to pg_catalog.float8,
-	OUT max_leash pg_catalog.float8, OUT trip_length pg_catalog.float8)
+	OUT max_leash pg_catalog.float8, OUT trip_length pg_catalog.float8, OUT route_length pg_catalog.float8)
 RETURNS SETOF pg_catalog.record
 AS 'MODULE_PATHNAME', 'frechet_pings_excursions_point_array'
 LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 2000 ROWS 2;

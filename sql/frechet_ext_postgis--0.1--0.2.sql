@@ -126,11 +126,43 @@ LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
 COMMENT ON FUNCTION @extschema@.frechet_geojson_check_srid(pg_catalog.int4, pg_catalog.bool) IS
 'internal: true when known, else an error saying that GeoJSON cannot be written for a geometry of this SRID (not in spatial_ref_sys)';
 
+-- Excursions gain route_length and times: a function's result columns cannot
+-- change in place, so they are dropped and made again, with the GeoJSON
+-- functions that read them (rebuilt below).
+DROP FUNCTION @extschema@.frechet_geojson(geometry, geometry, pg_catalog.float8);
+DROP FUNCTION @extschema@.frechet_geojson(geography, geography, pg_catalog.float8);
+DROP FUNCTION @extschema@.frechet_excursions(geometry, geometry, pg_catalog.float8);
+DROP FUNCTION @extschema@.frechet_excursions(geography, geography, pg_catalog.float8);
+
+CREATE FUNCTION @extschema@.frechet_excursions(trip geometry, route geometry, epsilon pg_catalog.float8)
+RETURNS TABLE (trip_from pg_catalog.float8, trip_to pg_catalog.float8,
+	route_from pg_catalog.float8, route_to pg_catalog.float8,
+	max_leash pg_catalog.float8, trip_length pg_catalog.float8, trip_piece geometry,
+	route_length pg_catalog.float8, time_from pg_catalog.float8, time_to pg_catalog.float8)
+AS 'MODULE_PATHNAME', 'frechet_excursions_geometry'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 100000 ROWS 2;
+
+COMMENT ON FUNCTION @extschema@.frechet_excursions(geometry, geometry, pg_catalog.float8) IS
+'stretches of the trip that no order-preserving matching keeps within epsilon (units of the SRID) of the route, with the trip piece as a LineString (Z and M kept), the length of route between where it left and rejoined, and the times (M) where the stretch begins and ends (NULL without M); no rows exactly when frechet_at_most is true';
+
+CREATE FUNCTION @extschema@.frechet_excursions(trip geography, route geography, epsilon pg_catalog.float8)
+RETURNS TABLE (trip_from pg_catalog.float8, trip_to pg_catalog.float8,
+	route_from pg_catalog.float8, route_to pg_catalog.float8,
+	max_leash pg_catalog.float8, trip_length pg_catalog.float8, trip_piece geography,
+	route_length pg_catalog.float8, time_from pg_catalog.float8, time_to pg_catalog.float8)
+AS 'MODULE_PATHNAME', 'frechet_excursions_geography'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 100000 ROWS 2;
+
+COMMENT ON FUNCTION @extschema@.frechet_excursions(geography, geography, pg_catalog.float8) IS
+'stretches of the trip that no order-preserving matching keeps within epsilon (metres on WGS84) of the route, with the trip piece as a LineString (Z and M kept), the length of route between where it left and rejoined (metres), and the times (M) where the stretch begins and ends (NULL without M); no rows exactly when frechet_at_most is true';
+
+-- (the GeoJSON functions follow, after the SRID check they call)
+
 -- The GeoJSON functions of 0.1 named PostGIS's functions unqualified in
 -- their standard SQL bodies, so an install into a schema where others can
 -- create objects could bind look-alikes planted there.  Rebuilt as the
 -- install script builds them, each PostGIS name qualified with PostGIS's
--- schema; OR REPLACE keeps each function's OID, comment and dependants.
+-- schema (the GeoJSON functions anew, as excursions changed above).
 DO $do$
 DECLARE
 	gis pg_catalog.text := (SELECT n.nspname FROM pg_catalog.pg_extension e
@@ -147,7 +179,7 @@ RETURN %1$I.st_asgeojson(CASE WHEN %1$I.st_srid(g) OPERATOR(pg_catalog.=) ANY ('
 	THEN %1$I.st_transform(g, 4326) END, 9, 0)::pg_catalog.jsonb;
 $sql$, gis);
 	EXECUTE pg_catalog.format($sql$
-CREATE OR REPLACE FUNCTION @extschema@.frechet_geojson(a %1$I.geometry, b %1$I.geometry, epsilon pg_catalog.float8 DEFAULT NULL)
+CREATE FUNCTION @extschema@.frechet_geojson(a %1$I.geometry, b %1$I.geometry, epsilon pg_catalog.float8 DEFAULT NULL)
 RETURNS pg_catalog.jsonb
 LANGUAGE sql IMMUTABLE PARALLEL SAFE COST 300000
 BEGIN ATOMIC
@@ -180,18 +212,19 @@ BEGIN ATOMIC
 		@extschema@.frechet_bottleneck(a, b) AS bn,
 		LATERAL (SELECT @extschema@.frechet_matching_leashes(a, b) AS g) AS ls,
 		LATERAL (SELECT COALESCE(pg_catalog.jsonb_agg(pg_catalog.jsonb_build_object('type', 'Feature',
-					'properties', pg_catalog.jsonb_build_object('role', 'excursion', 'number', x.n,
+					'properties', pg_catalog.jsonb_strip_nulls(pg_catalog.jsonb_build_object('role', 'excursion', 'number', x.n,
 						'trip_from', x.trip_from, 'trip_to', x.trip_to,
 						'route_from', x.route_from, 'route_to', x.route_to,
-						'max_leash', x.max_leash, 'trip_length', x.trip_length),
+						'max_leash', x.max_leash, 'trip_length', x.trip_length, 'route_length', x.route_length,
+						'time_from', x.time_from, 'time_to', x.time_to)),
 					'geometry', @extschema@.frechet_geometry_geojson(x.trip_piece)) ORDER BY x.n),
 				'[]'::pg_catalog.jsonb) AS features
 			FROM @extschema@.frechet_excursions(a, b, epsilon) WITH ORDINALITY AS x(trip_from, trip_to,
-				route_from, route_to, max_leash, trip_length, trip_piece, n)) AS ex;
+				route_from, route_to, max_leash, trip_length, trip_piece, route_length, time_from, time_to, n)) AS ex;
 END;
 $sql$, gis);
 	EXECUTE pg_catalog.format($sql$
-CREATE OR REPLACE FUNCTION @extschema@.frechet_geojson(a %1$I.geography, b %1$I.geography, epsilon pg_catalog.float8 DEFAULT NULL)
+CREATE FUNCTION @extschema@.frechet_geojson(a %1$I.geography, b %1$I.geography, epsilon pg_catalog.float8 DEFAULT NULL)
 RETURNS pg_catalog.jsonb
 LANGUAGE sql IMMUTABLE PARALLEL SAFE COST 300000
 BEGIN ATOMIC
@@ -224,17 +257,25 @@ BEGIN ATOMIC
 		@extschema@.frechet_bottleneck(a, b) AS bn,
 		LATERAL (SELECT @extschema@.frechet_matching_leashes(a, b) AS g) AS ls,
 		LATERAL (SELECT COALESCE(pg_catalog.jsonb_agg(pg_catalog.jsonb_build_object('type', 'Feature',
-					'properties', pg_catalog.jsonb_build_object('role', 'excursion', 'number', x.n,
+					'properties', pg_catalog.jsonb_strip_nulls(pg_catalog.jsonb_build_object('role', 'excursion', 'number', x.n,
 						'trip_from', x.trip_from, 'trip_to', x.trip_to,
 						'route_from', x.route_from, 'route_to', x.route_to,
-						'max_leash', x.max_leash, 'trip_length', x.trip_length),
+						'max_leash', x.max_leash, 'trip_length', x.trip_length, 'route_length', x.route_length,
+						'time_from', x.time_from, 'time_to', x.time_to)),
 					'geometry', %1$I.st_asgeojson(x.trip_piece, 9, 0)::pg_catalog.jsonb) ORDER BY x.n),
 				'[]'::pg_catalog.jsonb) AS features
 			FROM @extschema@.frechet_excursions(a, b, epsilon) WITH ORDINALITY AS x(trip_from, trip_to,
-				route_from, route_to, max_leash, trip_length, trip_piece, n)) AS ex;
+				route_from, route_to, max_leash, trip_length, trip_piece, route_length, time_from, time_to, n)) AS ex;
 END;
 $sql$, gis);
 END $do$;
+
+-- GeoJSON comments, lost with the drop above:
+COMMENT ON FUNCTION @extschema@.frechet_geojson(geometry, geometry, pg_catalog.float8) IS
+'a GeoJSON FeatureCollection of a pair for a map: both curves (roles a, b), the leashes of an optimal matching, the bottleneck and, with epsilon, the excursions of a from b; distances in units of the SRID, coordinates in WGS84 lon/lat (transformed when the SRID is another known system; as stored when it is 0)';
+
+COMMENT ON FUNCTION @extschema@.frechet_geojson(geography, geography, pg_catalog.float8) IS
+'a GeoJSON FeatureCollection of a pair for a map: both curves (roles a, b), the leashes of an optimal matching, the bottleneck and, with epsilon, the excursions of a from b; distances in metres on WGS84, coordinates lon/lat';
 
 -- frechet_key records its kind of coordinates (planar or Earth-centred);
 -- the operator classes' consistent functions now refuse a query key of
@@ -263,23 +304,25 @@ END $do$;
 
 CREATE FUNCTION @extschema@.frechet_pings_excursions(trip geometry, route geometry, epsilon pg_catalog.float8,
 	OUT ping_from pg_catalog.int4, OUT ping_to pg_catalog.int4, OUT route_from pg_catalog.float8, OUT route_to pg_catalog.float8,
-	OUT max_leash pg_catalog.float8, OUT trip_length pg_catalog.float8)
+	OUT max_leash pg_catalog.float8, OUT trip_length pg_catalog.float8, OUT route_length pg_catalog.float8,
+	OUT time_from pg_catalog.float8, OUT time_to pg_catalog.float8)
 RETURNS SETOF pg_catalog.record
 AS 'MODULE_PATHNAME', 'frechet_pings_excursions_geometry'
 LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 2000 ROWS 2;
 
 COMMENT ON FUNCTION @extschema@.frechet_pings_excursions(geometry, geometry, pg_catalog.float8) IS
-'where sparse pings left the route (units of the SRID): the runs of off-route pings of an in-order plan with the fewest; no rows exactly when frechet_pings_at_most is true';
+'where sparse pings left the route (units of the SRID): the runs of off-route pings of an in-order plan with the fewest, the route length around each run and the times (M) of its first and last pings; no rows exactly when frechet_pings_at_most is true';
 
 CREATE FUNCTION @extschema@.frechet_pings_excursions(trip geography, route geography, epsilon pg_catalog.float8,
 	OUT ping_from pg_catalog.int4, OUT ping_to pg_catalog.int4, OUT route_from pg_catalog.float8, OUT route_to pg_catalog.float8,
-	OUT max_leash pg_catalog.float8, OUT trip_length pg_catalog.float8)
+	OUT max_leash pg_catalog.float8, OUT trip_length pg_catalog.float8, OUT route_length pg_catalog.float8,
+	OUT time_from pg_catalog.float8, OUT time_to pg_catalog.float8)
 RETURNS SETOF pg_catalog.record
 AS 'MODULE_PATHNAME', 'frechet_pings_excursions_geography'
 LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 2000 ROWS 2;
 
 COMMENT ON FUNCTION @extschema@.frechet_pings_excursions(geography, geography, pg_catalog.float8) IS
-'where sparse pings left the route (metres): the runs of off-route pings of an in-order plan with the fewest; no rows exactly when frechet_pings_at_most is true';
+'where sparse pings left the route (metres): the runs of off-route pings of an in-order plan with the fewest, the route length around each run and the times (M) of its first and last pings; no rows exactly when frechet_pings_at_most is true';
 
 CREATE FUNCTION @extschema@.frechet_track_check(track geometry)
 RETURNS pg_catalog.text
@@ -429,3 +472,23 @@ LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 5000 ROWS 1;
 
 COMMENT ON FUNCTION @extschema@.frechet_progress(geography, geography, pg_catalog.float8) IS
 'a trip in progress (metres): one row when all of the trip so far is within epsilon of a prefix of the route, with where on the route it is now; no row otherwise';
+
+-- The piece of a track between two positions (k + t, 1-based), as a map
+-- draws an excursion: Z and M kept, interpolated at the ends.
+CREATE FUNCTION @extschema@.frechet_track_piece(track geometry, pos_from pg_catalog.float8,
+	pos_to pg_catalog.float8)
+RETURNS geometry
+AS 'MODULE_PATHNAME', 'frechet_track_piece_geometry'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 10;
+
+COMMENT ON FUNCTION @extschema@.frechet_track_piece(geometry, pg_catalog.float8, pg_catalog.float8) IS
+'the part of a track between two positions (k + t, 1-based) as a LineString, or a Point when they are equal; SRID, Z and M kept, interpolated at fractional positions';
+
+CREATE FUNCTION @extschema@.frechet_track_piece(track geography, pos_from pg_catalog.float8,
+	pos_to pg_catalog.float8)
+RETURNS geography
+AS 'MODULE_PATHNAME', 'frechet_track_piece_geography'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 10;
+
+COMMENT ON FUNCTION @extschema@.frechet_track_piece(geography, pg_catalog.float8, pg_catalog.float8) IS
+'the part of a track between two positions (k + t, 1-based; a fraction of an edge''s Earth-centred chord) as a LineString, or a Point when they are equal; Z and M kept, interpolated at fractional positions';

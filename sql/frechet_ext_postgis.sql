@@ -186,12 +186,13 @@ COMMENT ON FUNCTION @extschema@.frechet_partial_match(geometry, geometry, pg_cat
 CREATE FUNCTION @extschema@.frechet_excursions(trip geometry, route geometry, epsilon pg_catalog.float8)
 RETURNS TABLE (trip_from pg_catalog.float8, trip_to pg_catalog.float8,
 	route_from pg_catalog.float8, route_to pg_catalog.float8,
-	max_leash pg_catalog.float8, trip_length pg_catalog.float8, trip_piece geometry)
+	max_leash pg_catalog.float8, trip_length pg_catalog.float8, trip_piece geometry,
+	route_length pg_catalog.float8, time_from pg_catalog.float8, time_to pg_catalog.float8)
 AS 'MODULE_PATHNAME', 'frechet_excursions_geometry'
 LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 100000 ROWS 2;
 
 COMMENT ON FUNCTION @extschema@.frechet_excursions(geometry, geometry, pg_catalog.float8) IS
-'stretches of the trip that no order-preserving matching keeps within epsilon (units of the SRID) of the route, with the trip piece as a LineString; no rows exactly when frechet_at_most is true';
+'stretches of the trip that no order-preserving matching keeps within epsilon (units of the SRID) of the route, with the trip piece as a LineString (Z and M kept), the length of route between where it left and rejoined, and the times (M) where the stretch begins and ends (NULL without M); no rows exactly when frechet_at_most is true';
 
 -- Witnesses on geography (metres on WGS84); results for maps keep the inputs' SRID.
 CREATE FUNCTION @extschema@.frechet_matching(a geography, b geography, epsilon pg_catalog.float8 DEFAULT NULL)
@@ -240,12 +241,33 @@ COMMENT ON FUNCTION @extschema@.frechet_partial_match(geography, geography, pg_c
 CREATE FUNCTION @extschema@.frechet_excursions(trip geography, route geography, epsilon pg_catalog.float8)
 RETURNS TABLE (trip_from pg_catalog.float8, trip_to pg_catalog.float8,
 	route_from pg_catalog.float8, route_to pg_catalog.float8,
-	max_leash pg_catalog.float8, trip_length pg_catalog.float8, trip_piece geography)
+	max_leash pg_catalog.float8, trip_length pg_catalog.float8, trip_piece geography,
+	route_length pg_catalog.float8, time_from pg_catalog.float8, time_to pg_catalog.float8)
 AS 'MODULE_PATHNAME', 'frechet_excursions_geography'
 LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 100000 ROWS 2;
 
 COMMENT ON FUNCTION @extschema@.frechet_excursions(geography, geography, pg_catalog.float8) IS
-'stretches of the trip that no order-preserving matching keeps within epsilon (metres on WGS84) of the route, with the trip piece as a LineString; no rows exactly when frechet_at_most is true';
+'stretches of the trip that no order-preserving matching keeps within epsilon (metres on WGS84) of the route, with the trip piece as a LineString (Z and M kept), the length of route between where it left and rejoined (metres), and the times (M) where the stretch begins and ends (NULL without M); no rows exactly when frechet_at_most is true';
+
+-- The piece of a track between two positions (k + t, 1-based), as a map
+-- draws an excursion: Z and M kept, interpolated at the ends.
+CREATE FUNCTION @extschema@.frechet_track_piece(track geometry, pos_from pg_catalog.float8,
+	pos_to pg_catalog.float8)
+RETURNS geometry
+AS 'MODULE_PATHNAME', 'frechet_track_piece_geometry'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 10;
+
+COMMENT ON FUNCTION @extschema@.frechet_track_piece(geometry, pg_catalog.float8, pg_catalog.float8) IS
+'the part of a track between two positions (k + t, 1-based) as a LineString, or a Point when they are equal; SRID, Z and M kept, interpolated at fractional positions';
+
+CREATE FUNCTION @extschema@.frechet_track_piece(track geography, pos_from pg_catalog.float8,
+	pos_to pg_catalog.float8)
+RETURNS geography
+AS 'MODULE_PATHNAME', 'frechet_track_piece_geography'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 10;
+
+COMMENT ON FUNCTION @extschema@.frechet_track_piece(geography, pg_catalog.float8, pg_catalog.float8) IS
+'the part of a track between two positions (k + t, 1-based; a fraction of an edge''s Earth-centred chord) as a LineString, or a Point when they are equal; Z and M kept, interpolated at fractional positions';
 
 -- Simplification within a Fréchet tolerance, keeping the SRID.
 CREATE FUNCTION @extschema@.frechet_simplify(track geometry, tolerance pg_catalog.float8)
@@ -597,14 +619,15 @@ BEGIN ATOMIC
 		@extschema@.frechet_bottleneck(a, b) AS bn,
 		LATERAL (SELECT @extschema@.frechet_matching_leashes(a, b) AS g) AS ls,
 		LATERAL (SELECT COALESCE(pg_catalog.jsonb_agg(pg_catalog.jsonb_build_object('type', 'Feature',
-					'properties', pg_catalog.jsonb_build_object('role', 'excursion', 'number', x.n,
+					'properties', pg_catalog.jsonb_strip_nulls(pg_catalog.jsonb_build_object('role', 'excursion', 'number', x.n,
 						'trip_from', x.trip_from, 'trip_to', x.trip_to,
 						'route_from', x.route_from, 'route_to', x.route_to,
-						'max_leash', x.max_leash, 'trip_length', x.trip_length),
+						'max_leash', x.max_leash, 'trip_length', x.trip_length, 'route_length', x.route_length,
+						'time_from', x.time_from, 'time_to', x.time_to)),
 					'geometry', @extschema@.frechet_geometry_geojson(x.trip_piece)) ORDER BY x.n),
 				'[]'::pg_catalog.jsonb) AS features
 			FROM @extschema@.frechet_excursions(a, b, epsilon) WITH ORDINALITY AS x(trip_from, trip_to,
-				route_from, route_to, max_leash, trip_length, trip_piece, n)) AS ex;
+				route_from, route_to, max_leash, trip_length, trip_piece, route_length, time_from, time_to, n)) AS ex;
 END;
 $sql$, gis);
 	EXECUTE pg_catalog.format($sql$
@@ -641,14 +664,15 @@ BEGIN ATOMIC
 		@extschema@.frechet_bottleneck(a, b) AS bn,
 		LATERAL (SELECT @extschema@.frechet_matching_leashes(a, b) AS g) AS ls,
 		LATERAL (SELECT COALESCE(pg_catalog.jsonb_agg(pg_catalog.jsonb_build_object('type', 'Feature',
-					'properties', pg_catalog.jsonb_build_object('role', 'excursion', 'number', x.n,
+					'properties', pg_catalog.jsonb_strip_nulls(pg_catalog.jsonb_build_object('role', 'excursion', 'number', x.n,
 						'trip_from', x.trip_from, 'trip_to', x.trip_to,
 						'route_from', x.route_from, 'route_to', x.route_to,
-						'max_leash', x.max_leash, 'trip_length', x.trip_length),
+						'max_leash', x.max_leash, 'trip_length', x.trip_length, 'route_length', x.route_length,
+						'time_from', x.time_from, 'time_to', x.time_to)),
 					'geometry', %1$I.st_asgeojson(x.trip_piece, 9, 0)::pg_catalog.jsonb) ORDER BY x.n),
 				'[]'::pg_catalog.jsonb) AS features
 			FROM @extschema@.frechet_excursions(a, b, epsilon) WITH ORDINALITY AS x(trip_from, trip_to,
-				route_from, route_to, max_leash, trip_length, trip_piece, n)) AS ex;
+				route_from, route_to, max_leash, trip_length, trip_piece, route_length, time_from, time_to, n)) AS ex;
 END;
 $sql$, gis);
 END $do$;
@@ -748,23 +772,25 @@ ALTER OPERATOR FAMILY @extschema@.frechet_geography_ops USING gist ADD
 
 CREATE FUNCTION @extschema@.frechet_pings_excursions(trip geometry, route geometry, epsilon pg_catalog.float8,
 	OUT ping_from pg_catalog.int4, OUT ping_to pg_catalog.int4, OUT route_from pg_catalog.float8, OUT route_to pg_catalog.float8,
-	OUT max_leash pg_catalog.float8, OUT trip_length pg_catalog.float8)
+	OUT max_leash pg_catalog.float8, OUT trip_length pg_catalog.float8, OUT route_length pg_catalog.float8,
+	OUT time_from pg_catalog.float8, OUT time_to pg_catalog.float8)
 RETURNS SETOF pg_catalog.record
 AS 'MODULE_PATHNAME', 'frechet_pings_excursions_geometry'
 LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 2000 ROWS 2;
 
 COMMENT ON FUNCTION @extschema@.frechet_pings_excursions(geometry, geometry, pg_catalog.float8) IS
-'where sparse pings left the route (units of the SRID): the runs of off-route pings of an in-order plan with the fewest; no rows exactly when frechet_pings_at_most is true';
+'where sparse pings left the route (units of the SRID): the runs of off-route pings of an in-order plan with the fewest, the route length around each run and the times (M) of its first and last pings; no rows exactly when frechet_pings_at_most is true';
 
 CREATE FUNCTION @extschema@.frechet_pings_excursions(trip geography, route geography, epsilon pg_catalog.float8,
 	OUT ping_from pg_catalog.int4, OUT ping_to pg_catalog.int4, OUT route_from pg_catalog.float8, OUT route_to pg_catalog.float8,
-	OUT max_leash pg_catalog.float8, OUT trip_length pg_catalog.float8)
+	OUT max_leash pg_catalog.float8, OUT trip_length pg_catalog.float8, OUT route_length pg_catalog.float8,
+	OUT time_from pg_catalog.float8, OUT time_to pg_catalog.float8)
 RETURNS SETOF pg_catalog.record
 AS 'MODULE_PATHNAME', 'frechet_pings_excursions_geography'
 LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 2000 ROWS 2;
 
 COMMENT ON FUNCTION @extschema@.frechet_pings_excursions(geography, geography, pg_catalog.float8) IS
-'where sparse pings left the route (metres): the runs of off-route pings of an in-order plan with the fewest; no rows exactly when frechet_pings_at_most is true';
+'where sparse pings left the route (metres): the runs of off-route pings of an in-order plan with the fewest, the route length around each run and the times (M) of its first and last pings; no rows exactly when frechet_pings_at_most is true';
 
 CREATE FUNCTION @extschema@.frechet_track_check(track geometry)
 RETURNS pg_catalog.text

@@ -254,14 +254,14 @@ read_header(wkb_reader *r, wkb_header *h)
 }
 
 /*
- * Reads npoints vertices of stride doubles into coords (dim a vertex, M
- * dropped), after the `done` vertices already there; vertices are
- * numbered from 1 across the whole track in messages.  The bytes were
- * checked by the caller.
+ * Reads npoints vertices of stride doubles into coords (dim a vertex) and,
+ * when m is not NULL, their M (the last of the stride) into m, after the
+ * `done` vertices already there; vertices are numbered from 1 across the
+ * whole track in messages.  The bytes were checked by the caller.
  */
 static bool
 read_vertices(wkb_reader *r, uint32 base, uint32 npoints, int stride, int dim,
-			  double *coords, size_t done)
+			  double *coords, double *m, size_t done)
 {
 	r->rep->n = done + npoints;
 	r->rep->dim = dim;
@@ -277,6 +277,8 @@ read_vertices(wkb_reader *r, uint32 base, uint32 npoints, int stride, int dim,
 								 "curve must have at least one point", "no points (an empty Point)");
 		for (int k = 0; k < dim; k++)
 			coords[i * dim + k] = v[k];
+		if (m)
+			m[i] = v[stride - 1];
 		if (i == 0)
 			r->rep->start = coords;
 		for (int k = 0; k < dim; k++)
@@ -306,12 +308,14 @@ vertices_fit(wkb_reader *r, uint32 npoints, int stride)
  * segment (a GPS gap).  Empty parts add nothing.  Coordinates palloc'd.
  */
 static double *
-read_multi(wkb_reader *r, const wkb_header *h, size_t *total)
+read_multi(wkb_reader *r, const wkb_header *h, size_t *total, double **m)
 {
 	int			stride = 2 + (h->has_z ? 1 : 0) + (h->has_m ? 1 : 0),
 				dim = h->has_z ? 3 : 2;
 	uint32		nparts = read_u32(r, "number of parts");
 	double	   *coords = NULL;
+
+	*m = NULL;
 
 	*total = 0;
 	for (uint32 part = 0; part < nparts && !r->failed; part++)
@@ -336,8 +340,12 @@ read_multi(wkb_reader *r, const wkb_header *h, size_t *total)
 		coords = coords == NULL
 			? palloc(sizeof(double) * dim * (size_t) npoints)
 			: repalloc(coords, sizeof(double) * dim * (*total + npoints));
+		if (h->has_m)
+			*m = *m == NULL
+				? palloc(sizeof(double) * (size_t) npoints)
+				: repalloc(*m, sizeof(double) * (*total + npoints));
 		r->rep->start = coords;
-		if (!read_vertices(r, WKB_LINESTRING, npoints, stride, dim, coords, *total))
+		if (!read_vertices(r, WKB_LINESTRING, npoints, stride, dim, coords, *m, *total))
 			break;
 		*total += npoints;
 	}
@@ -346,6 +354,9 @@ read_multi(wkb_reader *r, const wkb_header *h, size_t *total)
 		r->rep->start = NULL;
 		if (coords)
 			pfree(coords);
+		if (*m)
+			pfree(*m);
+		*m = NULL;
 		return NULL;
 	}
 	return coords;
@@ -354,7 +365,7 @@ read_multi(wkb_reader *r, const wkb_header *h, size_t *total)
 /*
  * Decodes one EWKB or ISO WKB Point, LineString or MultiLineString (its
  * parts joined in order) from the reader's bytes into out: coordinates
- * palloc'd, X Y [Z] per vertex, M dropped.  Bad input goes to the
+ * palloc'd, X Y [Z] per vertex, and M apart.  Bad input goes to the
  * reader's report (an ERROR naming the argument, or in check mode a
  * recorded problem) and returns false.
  */
@@ -366,7 +377,8 @@ decode(wkb_reader *r, ewkb_curve *out)
 				dim;
 	uint32		npoints;
 	size_t		n;
-	double	   *coords;
+	double	   *coords,
+			   *m = NULL;
 
 	if (!read_header(r, &h))
 		return false;
@@ -379,7 +391,7 @@ decode(wkb_reader *r, ewkb_curve *out)
 	dim = h.has_z ? 3 : 2;
 	if (h.base == WKB_MULTILINESTRING)
 	{
-		coords = read_multi(r, &h, &n);
+		coords = read_multi(r, &h, &n, &m);
 		if (coords == NULL && (r->failed || r->rep->problem != NULL))
 			return false;
 		if (n == 0)
@@ -398,10 +410,14 @@ decode(wkb_reader *r, ewkb_curve *out)
 		if (!vertices_fit(r, npoints, stride))
 			return false;
 		coords = palloc(sizeof(double) * dim * (size_t) npoints);
-		if (!read_vertices(r, h.base, npoints, stride, dim, coords, 0))
+		if (h.has_m)
+			m = palloc(sizeof(double) * (size_t) npoints);
+		if (!read_vertices(r, h.base, npoints, stride, dim, coords, m, 0))
 		{
 			r->rep->start = NULL;
 			pfree(coords);
+			if (m)
+				pfree(m);
 			return false;
 		}
 		n = npoints;
@@ -409,12 +425,15 @@ decode(wkb_reader *r, ewkb_curve *out)
 	if (r->pos != r->len)
 	{
 		pfree(coords);
+		if (m)
+			pfree(m);
 		r->rep->start = NULL;
 		return track_problem(r->rep, ERRCODE_INVALID_BINARY_REPRESENTATION, NULL,
 							 "invalid EWKB: trailing bytes after the geometry",
 							 "%zu bytes; the geometry ends at byte %zu", r->len, r->pos);
 	}
 	out->coords = coords;
+	out->m = m;
 	out->n = n;
 	out->dim = dim;
 	out->has_m = h.has_m;
@@ -449,4 +468,37 @@ ewkb_decode_quiet(const uint8 *buf, size_t len, ewkb_curve *out)
 	if (rep.problem)
 		pfree(rep.problem);
 	return ok;
+}
+
+/*
+ * M read as time (the trajectory convention of PostGIS, seconds): finite,
+ * and never decreasing from one vertex to the next.  A fault goes to rep
+ * in the words of the ERROR the time-reporting functions raise.
+ */
+bool
+ewkb_check_times(const ewkb_curve *c, track_report *rep)
+{
+	static const char hint[] =
+		"M is read as the time of each vertex (seconds, increasing along the track); "
+		"ST_Force2D or ST_Force3DZ drops M for the functions that do not need it.";
+
+	if (c->m == NULL)
+		return true;
+	rep->start = c->coords;
+	rep->dim = c->dim;
+	rep->n = c->n;
+	for (size_t i = 0; i < c->n; i++)
+	{
+		if (!isfinite(c->m[i]))
+			return track_problem(rep, ERRCODE_INVALID_PARAMETER_VALUE, hint,
+								 "M values (times) must be finite",
+								 "M %g at vertex %zu", c->m[i], i + 1);
+		if (i > 0 && c->m[i] < c->m[i - 1])
+			return track_problem(rep, ERRCODE_INVALID_PARAMETER_VALUE, hint,
+								 "M values (times) must not decrease along the track",
+								 "M %.15g at vertex %zu after M %.15g at vertex %zu",
+								 c->m[i], i + 1, c->m[i - 1], i);
+	}
+	rep->start = NULL;
+	return true;
 }

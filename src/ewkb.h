@@ -8,10 +8,14 @@
 
 #include "glue.h"
 
-/* A decoded curve: n vertices of dim (2 or 3) coordinates, M dropped. */
+/*
+ * A decoded curve: n vertices of dim (2 or 3) coordinates X Y [Z], and
+ * with has_m their M values apart in m (NULL without M).
+ */
 typedef struct ewkb_curve
 {
 	double	   *coords;
+	double	   *m;
 	size_t		n;
 	int			dim;
 	bool		has_m;
@@ -27,5 +31,12 @@ bool		ewkb_decode_track(const uint8 *buf, size_t len, track_report *rep, ewkb_cu
 
 /* The same, returning false instead of raising an ERROR (for index keys of stored rows). */
 bool		ewkb_decode_quiet(const uint8 *buf, size_t len, ewkb_curve *out);
+
+/*
+ * M read as time: finite and non-decreasing along the curve, as functions
+ * that report times or interpolate M require; a fault goes to rep (false).
+ * True for a curve without M.
+ */
+bool		ewkb_check_times(const ewkb_curve *c, track_report *rep);
 
 #endif							/* FRECHET_EWKB_H */

@@ -305,13 +305,17 @@ geo_decode_args(FunctionCallInfo fcinfo, bool geodetic, geo_curves *gc)
 				  geodetic, gc, fcinfo);
 }
 
-/* Decodes the first argument alone (the curve of a one-curve function), as both a and b. */
+/*
+ * Decodes the first argument alone (the curve of a one-curve function), as
+ * both a and b; measures says whether the function measures in the
+ * coordinates' units (then a planar call in degrees gets its NOTICE).
+ */
 void
-geo_decode_one(FunctionCallInfo fcinfo, bool geodetic, geo_curves *gc)
+geo_decode_one(FunctionCallInfo fcinfo, bool geodetic, bool measures, geo_curves *gc)
 {
 	bytea	   *a = argument_ewkb(fcinfo, 0, geodetic);
 
-	decode_curves(a, a, geodetic, gc, fcinfo);
+	decode_curves(a, a, geodetic, gc, measures ? fcinfo : NULL);
 }
 
 /*
@@ -332,6 +336,11 @@ geo_datum_track(postgis_calls *calls, Datum g, bool geodetic, track_report *rep,
 	pfree(ewkb);
 	if (!ok)
 		return false;
+	/* frechet_track_check also answers for the functions that read M as time */
+	if (rep->check && !ewkb_check_times(&c, rep))
+		return false;
+	if (c.m)
+		pfree(c.m);
 	if (srid)
 		*srid = c.srid;
 	out->n = c.n;
@@ -377,22 +386,75 @@ put_f64(StringInfo buf, double d)
 		appendStringInfoChar(buf, (char) ((u >> (8 * i)) & 0xff));
 }
 
-/* Output coordinates of position pos (0-based k + t) of curve which (0: a, 1: b). */
+/* What an output point carries besides X and Y: Z, M, or both. */
+typedef struct geo_layout
+{
+	bool		z,
+				m;
+} geo_layout;
+
+/* Doubles per output vertex. */
+static int
+layout_dim(geo_layout l)
+{
+	return 2 + (l.z ? 1 : 0) + (l.m ? 1 : 0);
+}
+
+/* A point of curve which alone keeps that curve's Z and M. */
+static geo_layout
+curve_layout(const geo_curves *gc, int which)
+{
+	const ewkb_curve *c = which ? &gc->b : &gc->a;
+	geo_layout	l = {c->dim == 3, c->m != NULL};
+
+	return l;
+}
+
+/* A shape joining points of both curves keeps what both have. */
+static geo_layout
+pair_layout(const geo_curves *gc)
+{
+	geo_layout	l = {gc->a.dim == 3 && gc->b.dim == 3, gc->a.m != NULL && gc->b.m != NULL};
+
+	return l;
+}
+
+/*
+ * One per-vertex value (stride apart) at position pos (0-based k + t),
+ * linear in t between vertices and held at the ends.
+ */
+static double
+value_at(const double *v, size_t stride, size_t n, double pos)
+{
+	size_t		k;
+	double		t;
+
+	if (!(pos > 0))
+		return v[0];
+	if (pos >= (double) (n - 1))
+		return v[(n - 1) * stride];
+	k = (size_t) pos;
+	t = pos - (double) k;
+	return t == 0 ? v[k * stride] : v[k * stride] + t * (v[(k + 1) * stride] - v[k * stride]);
+}
+
+/*
+ * Output coordinates of position pos (0-based k + t) of curve which (0: a,
+ * 1: b): X Y, then Z and M as the layout asks.  At a vertex they are the
+ * input's own; between vertices X Y follow the engine's segment (the
+ * Earth-centred chord for geography), and Z and M are linear in t.
+ */
 static void
-output_point(const geo_curves *gc, int which, double pos, double *out)
+output_point(const geo_curves *gc, int which, double pos, geo_layout l, double *out)
 {
 	const fr_curve *c = which ? &gc->q : &gc->p;
 	const ewkb_curve *orig = which ? &gc->b : &gc->a;
-	int			odim = geo_output_dim(gc);
 	double		k = floor(pos);
+	int			at = 2;
 
 	if (pos == k && k >= 0 && k < (double) orig->n)
-	{
-		/* a vertex: the input's own coordinates, exactly */
-		memcpy(out, orig->coords + (size_t) k * orig->dim, odim * sizeof(double));
-		return;
-	}
-	if (gc->geodetic)
+		memcpy(out, orig->coords + (size_t) k * orig->dim, 2 * sizeof(double));
+	else if (gc->geodetic)
 	{
 		double		xyz[3];
 
@@ -400,21 +462,48 @@ output_point(const geo_curves *gc, int which, double pos, double *out)
 		fr_ecef_to_geo(xyz, &out[0], &out[1]);
 	}
 	else
-		fr_curve_point(c, pos, out);
+	{
+		double		xyz[3];
+
+		fr_curve_point(c, pos, xyz);
+		memcpy(out, xyz, 2 * sizeof(double));
+	}
+	if (l.z)
+		out[at++] = value_at(orig->coords + 2, orig->dim, orig->n, pos);
+	if (l.m)
+		out[at++] = value_at(orig->m, 1, orig->n, pos);
 }
 
-/* Coordinates per output vertex: 2 for geography, else the input's. */
-int
-geo_output_dim(const geo_curves *gc)
+/* The time (M) at position pos of curve which; false when it has no M. */
+bool
+geo_time_at(const geo_curves *gc, int which, double pos, double *time)
 {
-	return gc->geodetic ? 2 : gc->a.dim;
+	const ewkb_curve *orig = which ? &gc->b : &gc->a;
+
+	if (orig->m == NULL)
+		return false;
+	*time = value_at(orig->m, 1, orig->n, pos);
+	return true;
 }
 
-/* Starts an EWKB geometry of the given OGC type with the inputs' SRID. */
+/*
+ * A function that reports times or M between vertices needs curve
+ * which's M to be time: finite and non-decreasing (else an ERROR naming
+ * the argument).  Nothing to check without M.
+ */
+void
+geo_check_times(const geo_curves *gc, int which)
+{
+	track_report rep = {.argno = which + 1};
+
+	ewkb_check_times(which ? &gc->b : &gc->a, &rep);
+}
+
+/* Starts an EWKB geometry of the given OGC type and layout with the inputs' SRID. */
 static void
-begin_ewkb(StringInfo buf, const geo_curves *gc, uint32 type)
+begin_ewkb(StringInfo buf, const geo_curves *gc, uint32 type, geo_layout l)
 {
-	uint32		flags = 0x20000000u | (geo_output_dim(gc) == 3 ? 0x80000000u : 0);
+	uint32		flags = 0x20000000u | (l.z ? 0x80000000u : 0) | (l.m ? 0x40000000u : 0);
 
 	initStringInfo(buf);
 	appendBinaryStringInfo(buf, "\x00\x00\x00\x00", VARHDRSZ);
@@ -423,12 +512,10 @@ begin_ewkb(StringInfo buf, const geo_curves *gc, uint32 type)
 	put_u32(buf, (uint32) gc->a.srid);
 }
 
-/* Appends a LineString body (no header) through the given output points. */
+/* Appends a LineString body (no header) through n output points of odim doubles. */
 static void
-put_points(StringInfo buf, const geo_curves *gc, const double *pts, size_t n)
+put_points(StringInfo buf, const double *pts, size_t n, int odim)
 {
-	int			odim = geo_output_dim(gc);
-
 	put_u32(buf, (uint32) n);
 	for (size_t i = 0; i < n * odim; i++)
 		put_f64(buf, pts[i]);
@@ -448,61 +535,64 @@ finish_ewkb(FunctionCallInfo fcinfo, const geo_curves *gc, StringInfo buf)
 	return g;
 }
 
-/* A Point at position pos of curve which, as geometry or geography. */
+/* A Point at position pos of curve which, as geometry or geography, with its Z and M. */
 Datum
 geo_point_datum(FunctionCallInfo fcinfo, const geo_curves *gc, int which, double pos)
 {
 	StringInfoData buf;
-	double		pt[3];
+	geo_layout	l = curve_layout(gc, which);
+	double		pt[4];
 
-	output_point(gc, which, pos, pt);
-	begin_ewkb(&buf, gc, 1);
-	for (int i = 0; i < geo_output_dim(gc); i++)
+	output_point(gc, which, pos, l, pt);
+	begin_ewkb(&buf, gc, 1, l);
+	for (int i = 0; i < layout_dim(l); i++)
 		put_f64(&buf, pt[i]);
 	return finish_ewkb(fcinfo, gc, &buf);
 }
 
-/* The part of curve which between positions from <= to, as a LineString. */
+/* The part of curve which between positions from <= to, as a LineString with its Z and M. */
 Datum
 geo_subline_datum(FunctionCallInfo fcinfo, const geo_curves *gc, int which,
 				  double from, double to)
 {
 	StringInfoData buf;
-	int			odim = geo_output_dim(gc);
+	geo_layout	l = curve_layout(gc, which);
+	int			odim = layout_dim(l);
 	size_t		first = (size_t) floor(from) + 1,
 				n = 0;
 	double	   *pts = palloc(sizeof(double) * odim * ((size_t) (to - from) + 3));
 
-	output_point(gc, which, from, pts);
+	output_point(gc, which, from, l, pts);
 	n = 1;
 	for (size_t k = first; (double) k < to; k++)
-		output_point(gc, which, (double) k, pts + odim * n++);
-	output_point(gc, which, to, pts + odim * n++);
-	begin_ewkb(&buf, gc, 2);
-	put_points(&buf, gc, pts, n);
+		output_point(gc, which, (double) k, l, pts + odim * n++);
+	output_point(gc, which, to, l, pts + odim * n++);
+	begin_ewkb(&buf, gc, 2, l);
+	put_points(&buf, pts, n, odim);
 	return finish_ewkb(fcinfo, gc, &buf);
 }
 
-/* A LineString through the given vertices (0-based indices) of curve a. */
+/* A LineString through the given vertices (0-based indices) of curve a, with their Z and M. */
 Datum
 geo_vertices_datum(FunctionCallInfo fcinfo, const geo_curves *gc, const size_t *keep, size_t count)
 {
 	StringInfoData buf;
-	int			odim = geo_output_dim(gc);
+	geo_layout	l = curve_layout(gc, 0);
+	int			odim = layout_dim(l);
 	double	   *pts = palloc(sizeof(double) * odim * (count > 1 ? count : 2));
 
 	for (size_t k = 0; k < count; k++)
-		output_point(gc, 0, (double) keep[k], pts + odim * k);
+		output_point(gc, 0, (double) keep[k], l, pts + odim * k);
 	if (count == 1)
 	{
 		/* a one-point curve stays a point: a Point body is its coordinates */
-		begin_ewkb(&buf, gc, 1);
+		begin_ewkb(&buf, gc, 1, l);
 		for (int d = 0; d < odim; d++)
 			put_f64(&buf, pts[d]);
 		return finish_ewkb(fcinfo, gc, &buf);
 	}
-	begin_ewkb(&buf, gc, 2);
-	put_points(&buf, gc, pts, count);
+	begin_ewkb(&buf, gc, 2, l);
+	put_points(&buf, pts, count, odim);
 	return finish_ewkb(fcinfo, gc, &buf);
 }
 
@@ -539,22 +629,26 @@ geo_lonlat_antipodal(const double *a, const double *b)
 	return true;
 }
 
-/* A MultiLineString of the leashes at the given breakpoints of a matching. */
+/*
+ * A MultiLineString of the leashes at the given breakpoints of a matching,
+ * with the Z and M that both curves have.
+ */
 Datum
 geo_leashes_datum(FunctionCallInfo fcinfo, const geo_curves *gc,
 				  const fr_match_pt *pts, size_t count)
 {
 	StringInfoData buf;
-	int			odim = geo_output_dim(gc);
+	geo_layout	l = pair_layout(gc);
+	int			odim = layout_dim(l);
 
-	begin_ewkb(&buf, gc, 5);
+	begin_ewkb(&buf, gc, 5, l);
 	put_u32(&buf, (uint32) count);
 	for (size_t k = 0; k < count; k++)
 	{
-		double		seg[6];
+		double		seg[8];
 
-		output_point(gc, 0, pts[k].a_pos, seg);
-		output_point(gc, 1, pts[k].b_pos, seg + odim);
+		output_point(gc, 0, pts[k].a_pos, l, seg);
+		output_point(gc, 1, pts[k].b_pos, l, seg + odim);
 		if (gc->geodetic && geo_lonlat_antipodal(seg, seg + odim))
 			ereport(ERROR,
 					(errcode(ERRCODE_INVALID_PARAMETER_VALUE),
@@ -563,8 +657,8 @@ geo_leashes_datum(FunctionCallInfo fcinfo, const geo_curves *gc,
 							   k + 1, seg[0], seg[1], seg[odim], seg[odim + 1]),
 					 errhint("frechet_matching and frechet_bottleneck give the leashes' points; the geometry versions draw them as straight lines.")));
 		appendStringInfoChar(&buf, 1);
-		put_u32(&buf, 2 | (odim == 3 ? 0x80000000u : 0));
-		put_points(&buf, gc, seg, 2);
+		put_u32(&buf, 2 | (l.z ? 0x80000000u : 0) | (l.m ? 0x40000000u : 0));
+		put_points(&buf, seg, 2, odim);
 	}
 	return finish_ewkb(fcinfo, gc, &buf);
 }

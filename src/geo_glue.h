@@ -37,10 +37,11 @@ void		geo_datum_curve(postgis_calls *calls, Datum g, bool geodetic, int argno,
 							fr_curve *out);
 
 void		geo_decode_args(FunctionCallInfo fcinfo, bool geodetic, geo_curves *gc);
-void		geo_decode_one(FunctionCallInfo fcinfo, bool geodetic, geo_curves *gc);
+void		geo_decode_one(FunctionCallInfo fcinfo, bool geodetic, bool measures, geo_curves *gc);
 Datum		geo_vertices_datum(FunctionCallInfo fcinfo, const geo_curves *gc,
 							   const size_t *keep, size_t count);
-int			geo_output_dim(const geo_curves *gc);
+bool		geo_time_at(const geo_curves *gc, int which, double pos, double *time);
+void		geo_check_times(const geo_curves *gc, int which);
 Datum		geo_point_datum(FunctionCallInfo fcinfo, const geo_curves *gc, int which, double pos);
 Datum		geo_subline_datum(FunctionCallInfo fcinfo, const geo_curves *gc, int which,
 							  double from, double to);

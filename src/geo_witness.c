@@ -2,9 +2,12 @@
  * geo_witness.c - the matching, bottleneck, partial matching and
  * excursions on PostGIS geometry (units of the SRID) and geography (metres
  * on WGS84), with geometry results for maps: points, leash segments, route
- * parts and trip pieces, all with the inputs' SRID.  Positions are k + t
- * with 1-based vertex numbers, as for point[]; for geography they are
- * fractions of the straight (Earth-centred) chord of an edge.
+ * parts and trip pieces, all with the inputs' SRID, Z and M.  Positions
+ * are k + t with 1-based vertex numbers, as for point[]; for geography
+ * they are fractions of the straight (Earth-centred) chord of an edge.  M
+ * is time (PostGIS's trajectory convention): between vertices it is
+ * linear in t, and a function that returns it checks that it never
+ * decreases.
  */
 #include "postgres.h"
 
@@ -45,6 +48,8 @@ matching_rows(FunctionCallInfo fcinfo, bool geodetic)
 		return (Datum) 0;
 	geo_decode_args(fcinfo, geodetic, &gc);
 	eps = optional_epsilon(fcinfo, &gc);
+	geo_check_times(&gc, 0);
+	geo_check_times(&gc, 1);
 	pts = glue_matching(&gc.p, &gc.q, eps, &count, "frechet_matching");
 	for (size_t k = 0; k < count; k++)
 	{
@@ -75,6 +80,8 @@ matching_leashes(FunctionCallInfo fcinfo, bool geodetic)
 		PG_RETURN_NULL();
 	geo_decode_args(fcinfo, geodetic, &gc);
 	eps = optional_epsilon(fcinfo, &gc);
+	geo_check_times(&gc, 0);
+	geo_check_times(&gc, 1);
 	pts = glue_matching(&gc.p, &gc.q, eps, &count, "frechet_matching_leashes");
 	if (count == 0)
 		PG_RETURN_NULL();
@@ -95,6 +102,8 @@ bottleneck_row(FunctionCallInfo fcinfo, bool geodetic)
 
 	glue_srf_materialize(fcinfo);
 	geo_decode_args(fcinfo, geodetic, &gc);
+	geo_check_times(&gc, 0);
+	geo_check_times(&gc, 1);
 	pts = glue_matching(&gc.p, &gc.q, -1, &count, "frechet_bottleneck");
 	if (count == 0)
 		elog(ERROR, "frechet_bottleneck found no optimal matching");
@@ -136,6 +145,7 @@ partial_match_row(FunctionCallInfo fcinfo, bool geodetic)
 	glue_srf_materialize(fcinfo);
 	geo_decode_args(fcinfo, geodetic, &gc);
 	glue_check_epsilon(eps, 3);
+	geo_check_times(&gc, 1);
 	glue_partial_match(&gc.p, &gc.q, geo_engine_epsilon(&gc, eps), &found, &from, &to, &d);
 	if (found)
 	{
@@ -164,11 +174,13 @@ excursion_rows(FunctionCallInfo fcinfo, bool geodetic)
 	glue_srf_materialize(fcinfo);
 	geo_decode_args(fcinfo, geodetic, &gc);
 	glue_check_epsilon(eps, 3);
+	geo_check_times(&gc, 0);
 	copy = glue_excursions(&gc.p, &gc.q, geo_engine_epsilon(&gc, eps), &count);
 	for (size_t k = 0; k < count; k++)
 	{
-		Datum		values[7];
-		bool		nulls[7] = {false};
+		Datum		values[10];
+		bool		nulls[10] = {false};
+		double		time;
 
 		values[0] = Float8GetDatum(copy[k].trip_from + 1);
 		values[1] = Float8GetDatum(copy[k].trip_to + 1);
@@ -178,6 +190,12 @@ excursion_rows(FunctionCallInfo fcinfo, bool geodetic)
 		/* chord lengths; metres along the surface differ by below 1e-7 for edges under 10 km */
 		values[5] = Float8GetDatum(copy[k].trip_length);
 		values[6] = geo_subline_datum(fcinfo, &gc, 0, copy[k].trip_from, copy[k].trip_to);
+		values[7] = Float8GetDatum(copy[k].route_length);
+		/* the trip's M (time) where the stretch begins and ends; NULL without M */
+		nulls[8] = !geo_time_at(&gc, 0, copy[k].trip_from, &time);
+		values[8] = Float8GetDatum(nulls[8] ? 0 : time);
+		nulls[9] = !geo_time_at(&gc, 0, copy[k].trip_to, &time);
+		values[9] = Float8GetDatum(nulls[9] ? 0 : time);
 		tuplestore_putvalues(rsinfo->setResult, rsinfo->setDesc, values, nulls);
 	}
 	return (Datum) 0;
@@ -222,7 +240,7 @@ simplify_line(FunctionCallInfo fcinfo, bool geodetic)
 				count = 0;
 	fr_status	st;
 
-	geo_decode_one(fcinfo, geodetic, &gc);
+	geo_decode_one(fcinfo, geodetic, true, &gc);
 	if (isnan(tol) || tol < 0)
 		ereport(ERROR,
 				(errcode(ERRCODE_INVALID_PARAMETER_VALUE),
@@ -242,6 +260,26 @@ simplify_line(FunctionCallInfo fcinfo, bool geodetic)
 	return geo_vertices_datum(fcinfo, &gc, copy, count);
 }
 
+/*
+ * frechet_track_piece(track, pos_from, pos_to): the track between two
+ * positions (k + t, 1-based), with its Z and M interpolated at the ends;
+ * a Point when the two are equal.
+ */
+static Datum
+track_piece(FunctionCallInfo fcinfo, bool geodetic)
+{
+	geo_curves	gc;
+	double		from = PG_GETARG_FLOAT8(1),
+				to = PG_GETARG_FLOAT8(2);
+
+	geo_decode_one(fcinfo, geodetic, false, &gc);
+	glue_check_piece(from, to, gc.a.n);
+	geo_check_times(&gc, 0);
+	if (from == to)
+		return geo_point_datum(fcinfo, &gc, 0, from - 1);
+	return geo_subline_datum(fcinfo, &gc, 0, from - 1, to - 1);
+}
+
 #define GEO_PAIR(sqlname, impl) \
 PG_FUNCTION_INFO_V1(sqlname##_geometry); \
 Datum sqlname##_geometry(PG_FUNCTION_ARGS) { return impl(fcinfo, false); } \
@@ -256,3 +294,4 @@ GEO_PAIR(frechet_partial_distance, partial_distance)
 GEO_PAIR(frechet_partial_match, partial_match_row)
 GEO_PAIR(frechet_excursions, excursion_rows)
 GEO_PAIR(frechet_simplify, simplify_line)
+GEO_PAIR(frechet_track_piece, track_piece)

@@ -67,6 +67,9 @@ void		glue_partial_match(const fr_curve *trip, const fr_curve *route, double eps
 fr_excursion *glue_excursions(const fr_curve *p, const fr_curve *q, double eps,
 							  size_t *count);
 
+/* Validates the positions of frechet_track_piece on a track of n vertices; see track_piece.c. */
+void		glue_check_piece(double from, double to, size_t n);
+
 /* A set-returning call's tuple store and descriptor, nothing else left per call. */
 void		glue_srf_materialize(FunctionCallInfo fcinfo);
 

@@ -31,6 +31,7 @@ typedef struct ping_args
 				route;
 	bool		geodetic;
 	double		max_gap;		/* engine units; -1 for no limit */
+	geo_curves	gc;				/* geometry and geography: as decoded */
 } ping_args;
 
 /*
@@ -50,12 +51,10 @@ ping_decode(FunctionCallInfo fcinfo, ping_input input, int gap_argno, ping_args 
 	}
 	else
 	{
-		geo_curves	gc;
-
-		geo_decode_args(fcinfo, input == PING_GEOGRAPHY, &gc);
-		pa->trip = gc.p;
-		pa->route = gc.q;
-		pa->geodetic = gc.geodetic;
+		geo_decode_args(fcinfo, input == PING_GEOGRAPHY, &pa->gc);
+		pa->trip = pa->gc.p;
+		pa->route = pa->gc.q;
+		pa->geodetic = pa->gc.geodetic;
 	}
 	pa->max_gap = -1;
 	if (gap_argno < PG_NARGS() && !PG_ARGISNULL(gap_argno))
@@ -231,6 +230,8 @@ pings_excursions(FunctionCallInfo fcinfo, ping_input input)
 	ping_decode(fcinfo, input, PG_NARGS(), &pa);
 	eps = PG_GETARG_FLOAT8(2);
 	glue_check_epsilon(eps, 3);
+	if (input != PING_POINTS)
+		geo_check_times(&pa.gc, 0);
 	if (pa.geodetic)
 		eps = fr_metres_to_chord(eps);
 	glue_env_begin(&g, fr_pings_excursions_scratch_bytes(pa.trip.n, pa.route.n),
@@ -240,8 +241,9 @@ pings_excursions(FunctionCallInfo fcinfo, ping_input input)
 	{
 		for (size_t k = 0; k < count; k++)
 		{
-			Datum		values[6];
-			bool		nulls[6] = {false};
+			Datum		values[9];
+			bool		nulls[9] = {false};
+			double		time;
 
 			values[0] = Int32GetDatum((int32) x[k].trip_from + 1);
 			values[1] = Int32GetDatum((int32) x[k].trip_to + 1);
@@ -249,6 +251,15 @@ pings_excursions(FunctionCallInfo fcinfo, ping_input input)
 			values[3] = Float8GetDatum(x[k].route_to + 1);
 			values[4] = Float8GetDatum(pa.geodetic ? fr_chord_to_metres(x[k].max_leash) : x[k].max_leash);
 			values[5] = Float8GetDatum(x[k].trip_length);
+			values[6] = Float8GetDatum(x[k].route_length);
+			if (input != PING_POINTS)
+			{
+				/* the times of the run's first and last pings; NULL without M */
+				nulls[7] = !geo_time_at(&pa.gc, 0, x[k].trip_from, &time);
+				values[7] = Float8GetDatum(nulls[7] ? 0 : time);
+				nulls[8] = !geo_time_at(&pa.gc, 0, x[k].trip_to, &time);
+				values[8] = Float8GetDatum(nulls[8] ? 0 : time);
+			}
 			tuplestore_putvalues(rsinfo->setResult, rsinfo->setDesc, values, nulls);
 		}
 	}

@@ -75,7 +75,11 @@ progress(FunctionCallInfo fcinfo, progress_input input)
 			values[2] = PointPGetDatum(pt);
 		}
 		else
+		{
+			/* with the route's Z and M: M of a timetabled route is the time due there */
+			geo_check_times(&gc, 1);
 			values[2] = geo_point_datum(fcinfo, &gc, 1, pos);
+		}
 		tuplestore_putvalues(rsinfo->setResult, rsinfo->setDesc, values, nulls);
 	}
 	return (Datum) 0;

@@ -1,7 +1,8 @@
 /*
  * track_piece.c - the piece of a point[] track between two positions k + t
  * (1-based, like array subscripts): what a map draws for an excursion or
- * for the part of a route a partial trip followed.
+ * for the part of a route a partial trip followed.  The geometry and
+ * geography pieces are in geo_witness.c and share the position checks.
  */
 #include "postgres.h"
 
@@ -25,6 +26,23 @@ check_position(double pos, size_t n, int argno)
 				 errdetail("Argument %d must lie between 1 and the track's %zu vertices.",
 						   argno, n),
 				 errhint("Positions are k + t: t of the way from vertex k to vertex k + 1.")));
+}
+
+/*
+ * Checks the positions of a piece of a track of n vertices: both on it,
+ * pos_from (argument 2) not after pos_to (argument 3).
+ */
+void
+glue_check_piece(double from, double to, size_t n)
+{
+	check_position(from, n, 2);
+	check_position(to, n, 3);
+	if (from > to)
+		ereport(ERROR,
+				(errcode(ERRCODE_INVALID_PARAMETER_VALUE),
+				 errmsg("pos_from %g is after pos_to %g", from, to),
+				 errdetail("Argument 2 must not exceed argument 3."),
+				 errhint("To walk the track backwards, reverse the piece afterwards.")));
 }
 
 /* Appends the point at a 0-based position of a 2-D curve. */
@@ -56,14 +74,7 @@ frechet_track_piece_point_array(PG_FUNCTION_ARGS)
 	ArrayType  *result;
 
 	point_array_curve(arr, 1, &c);
-	check_position(from, c.n, 2);
-	check_position(to, c.n, 3);
-	if (from > to)
-		ereport(ERROR,
-				(errcode(ERRCODE_INVALID_PARAMETER_VALUE),
-				 errmsg("pos_from %g is after pos_to %g", from, to),
-				 errdetail("Argument 2 must not exceed argument 3."),
-				 errhint("To walk the track backwards, reverse the piece afterwards.")));
+	glue_check_piece(from, to, c.n);
 
 	/* the two end points and the vertices strictly between them */
 	pts = palloc(sizeof(Point) * (c.n + 2));

@@ -296,8 +296,8 @@ frechet_excursions_point_array(PG_FUNCTION_ARGS)
 	copy = glue_excursions(&p, &q, eps, &count);
 	for (size_t k = 0; k < count; k++)
 	{
-		Datum		values[6];
-		bool		nulls[6] = {false};
+		Datum		values[7];
+		bool		nulls[7] = {false};
 
 		values[0] = Float8GetDatum(copy[k].trip_from + 1);
 		values[1] = Float8GetDatum(copy[k].trip_to + 1);
@@ -305,6 +305,7 @@ frechet_excursions_point_array(PG_FUNCTION_ARGS)
 		values[3] = Float8GetDatum(copy[k].route_to + 1);
 		values[4] = Float8GetDatum(copy[k].max_leash);
 		values[5] = Float8GetDatum(copy[k].trip_length);
+		values[6] = Float8GetDatum(copy[k].route_length);
 		tuplestore_putvalues(rsinfo->setResult, rsinfo->setDesc, values, nulls);
 	}
 	return (Datum) 0;

@@ -795,6 +795,8 @@ done:
 		{
 			res[i].max_leash = fr_from_local(&t, res[i].max_leash);
 			res[i].trip_length = fr_from_local(&t, res[i].trip_length);
+			res[i].route_length = fr_from_local(&r, fr_prep_length_between(&r, res[i].route_from,
+																		   res[i].route_to));
 		}
 		*out = res;
 		*count = k;

@@ -172,6 +172,7 @@ fr_status	fr_prep_segments(const fr_env *env, fr_prep *out);
 /* Points of a prepared curve at position k + t, or at a position k+t given as a double. */
 fr_pt		fr_prep_point(const fr_prep *c, size_t k, double t);
 fr_pt		fr_prep_point_at(const fr_prep *c, double pos);
+double		fr_prep_length_between(const fr_prep *c, double from, double to);
 
 /* A part of a prepared curve, optionally reversed, with vertex positions on c. */
 fr_status	fr_prep_subcurve(const fr_env *env, const fr_prep *c, double from, double to,

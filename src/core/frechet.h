@@ -204,6 +204,7 @@ typedef struct fr_excursion
 	double		route_to;
 	double		max_leash;
 	double		trip_length;
+	double		route_length;
 } fr_excursion;
 
 /*

@@ -202,6 +202,36 @@ fr_prep_point_at(const fr_prep *c, double pos)
 }
 
 /*
+ * The length along c (local units) between positions from <= to (0-based
+ * k + t, clamped to the curve): the whole segments between them and the
+ * parts of the two they cut.
+ */
+double
+fr_prep_length_between(const fr_prep *c, double from, double to)
+{
+	double		len = 0.0;
+	size_t		kf,
+				kt;
+
+	if (c->n < 2)
+		return 0.0;
+	from = fmin(fmax(from, 0.0), (double) (c->n - 1));
+	to = fmin(fmax(to, 0.0), (double) (c->n - 1));
+	if (!(to > from))
+		return 0.0;
+	kf = (size_t) from;
+	kt = (size_t) to;
+	if (kf == kt)
+		return (to - from) * c->s[kf].len;
+	len = ((double) (kf + 1) - from) * c->s[kf].len;
+	for (size_t k = kf + 1; k < kt; k++)
+		len += c->s[k].len;
+	if (kt + 1 < c->n)
+		len += (to - (double) kt) * c->s[kt].len;
+	return len;
+}
+
+/*
  * The part of c from position `from` to `to` (from <= to) as a prepared
  * curve, optionally reversed; orig[k] receives the position on c of its
  * vertex k, so that sub-position k + t is orig[k] + t (orig[k+1] - orig[k]).

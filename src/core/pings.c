@@ -618,6 +618,7 @@ fr_pings_excursions(const fr_env *env, const fr_curve *pings, const fr_curve *ro
 				(*out)[0].route_to = (double) (pr.n - 1);
 				(*out)[0].max_leash = fr_from_local(&pp, degenerate_distance(&pp, &pr));
 				(*out)[0].trip_length = 0;
+				(*out)[0].route_length = fr_from_local(&pr, fr_prep_length_between(&pr, 0, (double) (pr.n - 1)));
 				*count = 1;
 			}
 		}
@@ -748,6 +749,7 @@ fr_pings_excursions(const fr_env *env, const fr_curve *pings, const fr_curve *ro
 			}
 			x->max_leash = fr_from_local(&pp, x->max_leash);
 			x->trip_length = fr_from_local(&pp, x->trip_length);
+			x->route_length = fr_from_local(&pr, fr_prep_length_between(&pr, x->route_from, x->route_to));
 		}
 	}
 

@@ -95,7 +95,7 @@ SELECT g.id, x.n, (f->'properties'->>'trip_from')::float8 = x.trip_from AS from_
        f->'geometry' = frechet_track_geojson(frechet_track_piece(g.a, x.trip_from, x.trip_to)) AS piece_ok,
        f->'geometry'->>'type' AS geom_type, jsonb_array_length(f->'geometry'->'coordinates') AS positions
 FROM gj g, frechet_excursions(g.a, g.b, g.eps) WITH ORDINALITY
-       AS x(trip_from, trip_to, route_from, route_to, max_leash, trip_length, n),
+       AS x(trip_from, trip_to, route_from, route_to, max_leash, trip_length, route_length, n),
      LATERAL (SELECT j->'features'->(3 + x.n::int) AS f) ff
 ORDER BY g.id, x.n;
 
