@@ -3,9 +3,11 @@
  * must come out as excursions, and every reported plan is checked
  * independently: between excursions the trip must be within eps of the
  * route part it was assigned, in order (the definition of an order-
- * preserving matching within eps).
+ * preserving matching within eps), and the route length reported
+ * between where it left and rejoined is the length of that route part.
  */
 #include <float.h>
+#include <math.h>
 #include <setjmp.h>
 #include <stdarg.h>
 #include <stddef.h>
@@ -63,6 +65,16 @@ check_plan(const fr_curve *t, const fr_curve *r, double eps, const fr_excursion 
 		}
 		if (k < count)
 		{
+			/* route_length: the route part between, measured apart */
+			size_t		np;
+			double	   *pp = test_part_of(r, x[k].route_from, x[k].route_to, &np),
+						len = 0;
+
+			for (size_t i = 0; i + 1 < np; i++)
+				len += hypot(pp[2 * i + 2] - pp[2 * i], pp[2 * i + 3] - pp[2 * i + 1]);
+			free(pp);
+			if (!(fabs(x[k].route_length - len) <= 1e-9 * (1 + len)))
+				fail_msg("excursion %zu: route_length %.17g, the route part is %.17g long", k, x[k].route_length, len);
 			assert_true(x[k].trip_to > x[k].trip_from);
 			assert_true(x[k].route_to >= x[k].route_from);
 			assert_true(x[k].trip_length > 0);
