@@ -42,7 +42,7 @@ EXTRA_CLEAN += sql/frechet_ext_postgis--$(EXTVERSION).sql
 OBJS += src/geo_gist.o
 # Maps and dashboards: track pieces and GeoJSON (SQL bodies in the install
 # scripts); frechet_track_check, the bad-row filter of batches.
-OBJS += src/track_piece.o src/track_check.o
+OBJS += src/track_piece.o src/track_check.o src/geojson_glue.o
 # Sparse pings matched in order to a route, and trips in progress, on every input type.
 OBJS += src/ping_glue.o src/progress_glue.o
 

@@ -290,8 +290,27 @@ RETURN (
 COMMENT ON FUNCTION @extschema@.frechet_track_geojson(pg_catalog.point[]) IS
 'a track as a GeoJSON geometry: a LineString, or a Point for a one-point track; coordinates as stored';
 
+-- Helpers of the GeoJSON functions (here and in frechet_ext_postgis).
+CREATE FUNCTION @extschema@.frechet_geojson_properties(properties pg_catalog.jsonb)
+RETURNS pg_catalog.jsonb
+AS 'MODULE_PATHNAME', 'frechet_geojson_properties'
+LANGUAGE C IMMUTABLE PARALLEL SAFE;
+
+COMMENT ON FUNCTION @extschema@.frechet_geojson_properties(pg_catalog.jsonb) IS
+'internal: the caller''s properties for every feature of frechet_geojson (''{}'' for NULL); an error unless a JSON object';
+
+CREATE FUNCTION @extschema@.frechet_geojson_leash_drawn(step pg_catalog.int4, total pg_catalog.int8,
+	longest pg_catalog.bool, max_leashes pg_catalog.int4)
+RETURNS pg_catalog.bool
+AS 'MODULE_PATHNAME', 'frechet_geojson_leash_drawn'
+LANGUAGE C IMMUTABLE PARALLEL SAFE;
+
+COMMENT ON FUNCTION @extschema@.frechet_geojson_leash_drawn(pg_catalog.int4, pg_catalog.int8, pg_catalog.bool, pg_catalog.int4) IS
+'internal: whether frechet_geojson draws leash step of total under max_leashes (all when NULL): the longest, and the first of each of max_leashes - 1 equal runs of steps; an error when max_leashes < 1';
+
 CREATE FUNCTION @extschema@.frechet_geojson(a pg_catalog.point[], b pg_catalog.point[],
-	epsilon pg_catalog.float8 DEFAULT NULL)
+	epsilon pg_catalog.float8 DEFAULT NULL, properties pg_catalog.jsonb DEFAULT NULL,
+	max_leashes pg_catalog.int4 DEFAULT NULL)
 RETURNS pg_catalog.jsonb
 LANGUAGE sql IMMUTABLE PARALLEL SAFE COST 300000
 BEGIN ATOMIC
@@ -304,35 +323,42 @@ BEGIN ATOMIC
 			'excursions', pg_catalog.jsonb_array_length(ex.features)),
 		'features', pg_catalog.jsonb_build_array(
 			pg_catalog.jsonb_build_object('type', 'Feature',
-				'properties', pg_catalog.jsonb_build_object('role', 'a', 'vertices', pg_catalog.cardinality(a),
-					'distance', dd.d, 'epsilon', epsilon),
+				'properties', o.p OPERATOR(pg_catalog.||) pg_catalog.jsonb_build_object('role', 'a',
+					'vertices', pg_catalog.cardinality(a), 'distance', dd.d, 'epsilon', epsilon),
 				'geometry', @extschema@.frechet_track_geojson(a)),
 			pg_catalog.jsonb_build_object('type', 'Feature',
-				'properties', pg_catalog.jsonb_build_object('role', 'b', 'vertices', pg_catalog.cardinality(b),
-					'distance', dd.d, 'epsilon', epsilon),
+				'properties', o.p OPERATOR(pg_catalog.||) pg_catalog.jsonb_build_object('role', 'b',
+					'vertices', pg_catalog.cardinality(b), 'distance', dd.d, 'epsilon', epsilon),
 				'geometry', @extschema@.frechet_track_geojson(b)),
 			pg_catalog.jsonb_build_object('type', 'Feature',
-				'properties', pg_catalog.jsonb_build_object('role', 'leashes', 'count', ls.n),
+				'properties', o.p OPERATOR(pg_catalog.||) pg_catalog.jsonb_build_object('role', 'leashes',
+					'count', ls.n, 'matching_steps', COALESCE(ls.total, 0)),
 				'geometry', pg_catalog.jsonb_build_object('type', 'MultiLineString',
-					'coordinates', ls.lines)),
+					'coordinates', COALESCE(ls.lines, '[]'::pg_catalog.jsonb))),
 			pg_catalog.jsonb_build_object('type', 'Feature',
-				'properties', pg_catalog.jsonb_build_object('role', 'bottleneck', 'leash', bn.leash,
-					'a_pos', bn.a_pos, 'b_pos', bn.b_pos),
+				'properties', o.p OPERATOR(pg_catalog.||) pg_catalog.jsonb_build_object('role', 'bottleneck',
+					'leash', bn.leash, 'a_pos', bn.a_pos, 'b_pos', bn.b_pos),
 				'geometry', pg_catalog.jsonb_build_object('type', 'LineString',
 					'coordinates', pg_catalog.jsonb_build_array(
 						pg_catalog.jsonb_build_array(bn.a_point[0], bn.a_point[1]),
 						pg_catalog.jsonb_build_array(bn.b_point[0], bn.b_point[1])))))
 			OPERATOR(pg_catalog.||) ex.features)
-	FROM (SELECT @extschema@.frechet_distance(a, b) AS d) AS dd,
+	FROM (SELECT @extschema@.frechet_geojson_properties(properties) AS p,
+			@extschema@.frechet_geojson_leash_drawn(NULL, NULL, NULL, max_leashes) AS cap_checked) AS o,
+		(SELECT @extschema@.frechet_distance(a, b) AS d) AS dd,
 		@extschema@.frechet_bottleneck(a, b) AS bn,
-		LATERAL (SELECT pg_catalog.count(*) AS n,
+		LATERAL (SELECT pg_catalog.count(*) AS n, pg_catalog.max(m.total) AS total,
 				pg_catalog.jsonb_agg(pg_catalog.jsonb_build_array(
 					pg_catalog.jsonb_build_array(m.a_point[0], m.a_point[1]),
 					pg_catalog.jsonb_build_array(m.b_point[0], m.b_point[1])) ORDER BY m.step) AS lines
-			FROM @extschema@.frechet_matching(a, b) AS m) AS ls,
+			FROM (SELECT mm.step, mm.a_point, mm.b_point, pg_catalog.count(*) OVER () AS total,
+					pg_catalog.row_number() OVER (ORDER BY mm.leash DESC, mm.step) AS by_length
+				FROM @extschema@.frechet_matching(a, b) AS mm) AS m
+			WHERE @extschema@.frechet_geojson_leash_drawn(m.step, m.total,
+				m.by_length OPERATOR(pg_catalog.=) 1, max_leashes)) AS ls,
 		LATERAL (SELECT COALESCE(pg_catalog.jsonb_agg(pg_catalog.jsonb_build_object('type', 'Feature',
-					'properties', pg_catalog.jsonb_build_object('role', 'excursion', 'number', x.n,
-						'trip_from', x.trip_from, 'trip_to', x.trip_to,
+					'properties', o.p OPERATOR(pg_catalog.||) pg_catalog.jsonb_build_object('role', 'excursion',
+						'number', x.n, 'trip_from', x.trip_from, 'trip_to', x.trip_to,
 						'route_from', x.route_from, 'route_to', x.route_to,
 						'max_leash', x.max_leash, 'trip_length', x.trip_length, 'route_length', x.route_length),
 					'geometry', @extschema@.frechet_track_geojson(
@@ -342,8 +368,8 @@ BEGIN ATOMIC
 				route_from, route_to, max_leash, trip_length, route_length, n)) AS ex;
 END;
 
-COMMENT ON FUNCTION @extschema@.frechet_geojson(pg_catalog.point[], pg_catalog.point[], pg_catalog.float8) IS
-'a GeoJSON FeatureCollection of a pair for a map: both tracks (roles a, b), the leashes of an optimal matching, the bottleneck leash and, with epsilon, the excursions of a from b; a foreign member frechet with distance and epsilon (a FeatureCollection may not have properties); coordinates as stored';
+COMMENT ON FUNCTION @extschema@.frechet_geojson(pg_catalog.point[], pg_catalog.point[], pg_catalog.float8, pg_catalog.jsonb, pg_catalog.int4) IS
+'a GeoJSON FeatureCollection of a pair for a map: both tracks (roles a, b), the leashes of an optimal matching (at most max_leashes of them, the longest always among them), the bottleneck leash and, with epsilon, the excursions of a from b; the caller''s properties (a JSON object) in every feature''s properties; a foreign member frechet with distance and epsilon (a FeatureCollection may not have properties); coordinates as stored';
 
 CREATE FUNCTION @extschema@.frechet_pings_support(internal)
 RETURNS internal

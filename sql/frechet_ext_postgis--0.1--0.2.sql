@@ -126,6 +126,23 @@ LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
 COMMENT ON FUNCTION @extschema@.frechet_geojson_check_srid(pg_catalog.int4, pg_catalog.bool) IS
 'internal: true when known, else an error saying that GeoJSON cannot be written for a geometry of this SRID (not in spatial_ref_sys)';
 
+-- The times (M) of a track's vertices for the GeoJSON functions, checked.
+CREATE FUNCTION @extschema@.frechet_geojson_times(track geometry, argno pg_catalog.int4)
+RETURNS pg_catalog.float8[]
+AS 'MODULE_PATHNAME', 'frechet_geojson_times_geometry'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+
+COMMENT ON FUNCTION @extschema@.frechet_geojson_times(geometry, pg_catalog.int4) IS
+'internal: the M (time) of each vertex for frechet_geojson, NULL without M; an error naming argument argno when M is not finite or decreases';
+
+CREATE FUNCTION @extschema@.frechet_geojson_times(track geography, argno pg_catalog.int4)
+RETURNS pg_catalog.float8[]
+AS 'MODULE_PATHNAME', 'frechet_geojson_times_geography'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+
+COMMENT ON FUNCTION @extschema@.frechet_geojson_times(geography, pg_catalog.int4) IS
+'internal: the M (time) of each vertex for frechet_geojson, NULL without M; an error naming argument argno when M is not finite or decreases';
+
 -- Excursions gain route_length and times: a function's result columns cannot
 -- change in place, so they are dropped and made again, with the GeoJSON
 -- functions that read them (rebuilt below).
@@ -165,6 +182,9 @@ COMMENT ON FUNCTION @extschema@.frechet_excursions(geography, geography, pg_cata
 -- schema (the GeoJSON functions anew, as excursions changed above).
 DO $do$
 DECLARE
+	fx pg_catalog.text := (SELECT n.nspname FROM pg_catalog.pg_extension e
+		JOIN pg_catalog.pg_namespace n ON n.oid OPERATOR(pg_catalog.=) e.extnamespace
+		WHERE e.extname OPERATOR(pg_catalog.=) 'frechet_ext');
 	gis pg_catalog.text := (SELECT n.nspname FROM pg_catalog.pg_extension e
 		JOIN pg_catalog.pg_namespace n ON n.oid OPERATOR(pg_catalog.=) e.extnamespace
 		WHERE e.extname OPERATOR(pg_catalog.=) 'postgis');
@@ -179,7 +199,8 @@ RETURN %1$I.st_asgeojson(CASE WHEN %1$I.st_srid(g) OPERATOR(pg_catalog.=) ANY ('
 	THEN %1$I.st_transform(g, 4326) END, 9, 0)::pg_catalog.jsonb;
 $sql$, gis);
 	EXECUTE pg_catalog.format($sql$
-CREATE FUNCTION @extschema@.frechet_geojson(a %1$I.geometry, b %1$I.geometry, epsilon pg_catalog.float8 DEFAULT NULL)
+CREATE FUNCTION @extschema@.frechet_geojson(a %1$I.geometry, b %1$I.geometry, epsilon pg_catalog.float8 DEFAULT NULL,
+	properties pg_catalog.jsonb DEFAULT NULL, max_leashes pg_catalog.int4 DEFAULT NULL)
 RETURNS pg_catalog.jsonb
 LANGUAGE sql IMMUTABLE PARALLEL SAFE COST 300000
 BEGIN ATOMIC
@@ -193,27 +214,42 @@ BEGIN ATOMIC
 			'srid', %1$I.st_srid(a)),
 		'features', pg_catalog.jsonb_build_array(
 			pg_catalog.jsonb_build_object('type', 'Feature',
-				'properties', pg_catalog.jsonb_build_object('role', 'a', 'vertices', %1$I.st_npoints(a),
-					'distance', dd.d, 'epsilon', epsilon),
+				'properties', o.p OPERATOR(pg_catalog.||) pg_catalog.jsonb_build_object('role', 'a',
+					'vertices', %1$I.st_npoints(a), 'distance', dd.d, 'epsilon', epsilon)
+					OPERATOR(pg_catalog.||) o.times_a,
 				'geometry', @extschema@.frechet_geometry_geojson(a)),
 			pg_catalog.jsonb_build_object('type', 'Feature',
-				'properties', pg_catalog.jsonb_build_object('role', 'b', 'vertices', %1$I.st_npoints(b),
-					'distance', dd.d, 'epsilon', epsilon),
+				'properties', o.p OPERATOR(pg_catalog.||) pg_catalog.jsonb_build_object('role', 'b',
+					'vertices', %1$I.st_npoints(b), 'distance', dd.d, 'epsilon', epsilon)
+					OPERATOR(pg_catalog.||) o.times_b,
 				'geometry', @extschema@.frechet_geometry_geojson(b)),
 			pg_catalog.jsonb_build_object('type', 'Feature',
-				'properties', pg_catalog.jsonb_build_object('role', 'leashes', 'count', %1$I.st_numgeometries(ls.g)),
+				'properties', o.p OPERATOR(pg_catalog.||) pg_catalog.jsonb_build_object('role', 'leashes',
+					'count', ls.n, 'matching_steps', COALESCE(ls.total, 0)),
 				'geometry', @extschema@.frechet_geometry_geojson(ls.g)),
 			pg_catalog.jsonb_build_object('type', 'Feature',
-				'properties', pg_catalog.jsonb_build_object('role', 'bottleneck', 'leash', bn.leash,
-					'a_pos', bn.a_pos, 'b_pos', bn.b_pos),
+				'properties', o.p OPERATOR(pg_catalog.||) pg_catalog.jsonb_build_object('role', 'bottleneck',
+					'leash', bn.leash, 'a_pos', bn.a_pos, 'b_pos', bn.b_pos),
 				'geometry', @extschema@.frechet_geometry_geojson(%1$I.st_makeline(bn.a_point, bn.b_point))))
 			OPERATOR(pg_catalog.||) ex.features)
-	FROM (SELECT @extschema@.frechet_distance(a, b) AS d) AS dd,
+	FROM (SELECT %2$I.frechet_geojson_properties(properties) AS p,
+			%2$I.frechet_geojson_leash_drawn(NULL, NULL, NULL, max_leashes) AS cap_checked,
+			(SELECT CASE WHEN t.m IS NULL THEN '{}'::pg_catalog.jsonb ELSE pg_catalog.jsonb_build_object('times', t.m) END
+				FROM (SELECT @extschema@.frechet_geojson_times(a, 1) AS m) AS t) AS times_a,
+			(SELECT CASE WHEN t.m IS NULL THEN '{}'::pg_catalog.jsonb ELSE pg_catalog.jsonb_build_object('times', t.m) END
+				FROM (SELECT @extschema@.frechet_geojson_times(b, 2) AS m) AS t) AS times_b) AS o,
+		(SELECT @extschema@.frechet_distance(a, b) AS d) AS dd,
 		@extschema@.frechet_bottleneck(a, b) AS bn,
-		LATERAL (SELECT @extschema@.frechet_matching_leashes(a, b) AS g) AS ls,
+		LATERAL (SELECT pg_catalog.count(*) AS n, pg_catalog.max(m.total) AS total,
+				%1$I.st_collect(%1$I.st_makeline(m.a_point, m.b_point) ORDER BY m.step) AS g
+			FROM (SELECT mm.step, mm.a_point, mm.b_point, pg_catalog.count(*) OVER () AS total,
+					pg_catalog.row_number() OVER (ORDER BY mm.leash DESC, mm.step) AS by_length
+				FROM @extschema@.frechet_matching(a, b) AS mm) AS m
+			WHERE %2$I.frechet_geojson_leash_drawn(m.step, m.total,
+				m.by_length OPERATOR(pg_catalog.=) 1, max_leashes)) AS ls,
 		LATERAL (SELECT COALESCE(pg_catalog.jsonb_agg(pg_catalog.jsonb_build_object('type', 'Feature',
-					'properties', pg_catalog.jsonb_strip_nulls(pg_catalog.jsonb_build_object('role', 'excursion', 'number', x.n,
-						'trip_from', x.trip_from, 'trip_to', x.trip_to,
+					'properties', o.p OPERATOR(pg_catalog.||) pg_catalog.jsonb_strip_nulls(pg_catalog.jsonb_build_object(
+						'role', 'excursion', 'number', x.n, 'trip_from', x.trip_from, 'trip_to', x.trip_to,
 						'route_from', x.route_from, 'route_to', x.route_to,
 						'max_leash', x.max_leash, 'trip_length', x.trip_length, 'route_length', x.route_length,
 						'time_from', x.time_from, 'time_to', x.time_to)),
@@ -222,9 +258,10 @@ BEGIN ATOMIC
 			FROM @extschema@.frechet_excursions(a, b, epsilon) WITH ORDINALITY AS x(trip_from, trip_to,
 				route_from, route_to, max_leash, trip_length, trip_piece, route_length, time_from, time_to, n)) AS ex;
 END;
-$sql$, gis);
+$sql$, gis, fx);
 	EXECUTE pg_catalog.format($sql$
-CREATE FUNCTION @extschema@.frechet_geojson(a %1$I.geography, b %1$I.geography, epsilon pg_catalog.float8 DEFAULT NULL)
+CREATE FUNCTION @extschema@.frechet_geojson(a %1$I.geography, b %1$I.geography, epsilon pg_catalog.float8 DEFAULT NULL,
+	properties pg_catalog.jsonb DEFAULT NULL, max_leashes pg_catalog.int4 DEFAULT NULL)
 RETURNS pg_catalog.jsonb
 LANGUAGE sql IMMUTABLE PARALLEL SAFE COST 300000
 BEGIN ATOMIC
@@ -238,27 +275,42 @@ BEGIN ATOMIC
 			'units', 'metres'),
 		'features', pg_catalog.jsonb_build_array(
 			pg_catalog.jsonb_build_object('type', 'Feature',
-				'properties', pg_catalog.jsonb_build_object('role', 'a', 'vertices', %1$I.st_npoints(a::%1$I.geometry),
-					'distance', dd.d, 'epsilon', epsilon),
+				'properties', o.p OPERATOR(pg_catalog.||) pg_catalog.jsonb_build_object('role', 'a',
+					'vertices', %1$I.st_npoints(a::%1$I.geometry), 'distance', dd.d, 'epsilon', epsilon)
+					OPERATOR(pg_catalog.||) o.times_a,
 				'geometry', %1$I.st_asgeojson(a, 9, 0)::pg_catalog.jsonb),
 			pg_catalog.jsonb_build_object('type', 'Feature',
-				'properties', pg_catalog.jsonb_build_object('role', 'b', 'vertices', %1$I.st_npoints(b::%1$I.geometry),
-					'distance', dd.d, 'epsilon', epsilon),
+				'properties', o.p OPERATOR(pg_catalog.||) pg_catalog.jsonb_build_object('role', 'b',
+					'vertices', %1$I.st_npoints(b::%1$I.geometry), 'distance', dd.d, 'epsilon', epsilon)
+					OPERATOR(pg_catalog.||) o.times_b,
 				'geometry', %1$I.st_asgeojson(b, 9, 0)::pg_catalog.jsonb),
 			pg_catalog.jsonb_build_object('type', 'Feature',
-				'properties', pg_catalog.jsonb_build_object('role', 'leashes', 'count', %1$I.st_numgeometries(ls.g::%1$I.geometry)),
+				'properties', o.p OPERATOR(pg_catalog.||) pg_catalog.jsonb_build_object('role', 'leashes',
+					'count', ls.n, 'matching_steps', COALESCE(ls.total, 0)),
 				'geometry', %1$I.st_asgeojson(ls.g, 9, 0)::pg_catalog.jsonb),
 			pg_catalog.jsonb_build_object('type', 'Feature',
-				'properties', pg_catalog.jsonb_build_object('role', 'bottleneck', 'leash', bn.leash,
-					'a_pos', bn.a_pos, 'b_pos', bn.b_pos),
+				'properties', o.p OPERATOR(pg_catalog.||) pg_catalog.jsonb_build_object('role', 'bottleneck',
+					'leash', bn.leash, 'a_pos', bn.a_pos, 'b_pos', bn.b_pos),
 				'geometry', %1$I.st_asgeojson(%1$I.st_makeline(bn.a_point::%1$I.geometry, bn.b_point::%1$I.geometry), 9, 0)::pg_catalog.jsonb))
 			OPERATOR(pg_catalog.||) ex.features)
-	FROM (SELECT @extschema@.frechet_distance(a, b) AS d) AS dd,
+	FROM (SELECT %2$I.frechet_geojson_properties(properties) AS p,
+			%2$I.frechet_geojson_leash_drawn(NULL, NULL, NULL, max_leashes) AS cap_checked,
+			(SELECT CASE WHEN t.m IS NULL THEN '{}'::pg_catalog.jsonb ELSE pg_catalog.jsonb_build_object('times', t.m) END
+				FROM (SELECT @extschema@.frechet_geojson_times(a, 1) AS m) AS t) AS times_a,
+			(SELECT CASE WHEN t.m IS NULL THEN '{}'::pg_catalog.jsonb ELSE pg_catalog.jsonb_build_object('times', t.m) END
+				FROM (SELECT @extschema@.frechet_geojson_times(b, 2) AS m) AS t) AS times_b) AS o,
+		(SELECT @extschema@.frechet_distance(a, b) AS d) AS dd,
 		@extschema@.frechet_bottleneck(a, b) AS bn,
-		LATERAL (SELECT @extschema@.frechet_matching_leashes(a, b) AS g) AS ls,
+		LATERAL (SELECT pg_catalog.count(*) AS n, pg_catalog.max(m.total) AS total,
+				%1$I.st_collect(%1$I.st_makeline(m.a_point::%1$I.geometry, m.b_point::%1$I.geometry) ORDER BY m.step) AS g
+			FROM (SELECT mm.step, mm.a_point, mm.b_point, pg_catalog.count(*) OVER () AS total,
+					pg_catalog.row_number() OVER (ORDER BY mm.leash DESC, mm.step) AS by_length
+				FROM @extschema@.frechet_matching(a, b) AS mm) AS m
+			WHERE %2$I.frechet_geojson_leash_drawn(m.step, m.total,
+				m.by_length OPERATOR(pg_catalog.=) 1, max_leashes)) AS ls,
 		LATERAL (SELECT COALESCE(pg_catalog.jsonb_agg(pg_catalog.jsonb_build_object('type', 'Feature',
-					'properties', pg_catalog.jsonb_strip_nulls(pg_catalog.jsonb_build_object('role', 'excursion', 'number', x.n,
-						'trip_from', x.trip_from, 'trip_to', x.trip_to,
+					'properties', o.p OPERATOR(pg_catalog.||) pg_catalog.jsonb_strip_nulls(pg_catalog.jsonb_build_object(
+						'role', 'excursion', 'number', x.n, 'trip_from', x.trip_from, 'trip_to', x.trip_to,
 						'route_from', x.route_from, 'route_to', x.route_to,
 						'max_leash', x.max_leash, 'trip_length', x.trip_length, 'route_length', x.route_length,
 						'time_from', x.time_from, 'time_to', x.time_to)),
@@ -267,15 +319,15 @@ BEGIN ATOMIC
 			FROM @extschema@.frechet_excursions(a, b, epsilon) WITH ORDINALITY AS x(trip_from, trip_to,
 				route_from, route_to, max_leash, trip_length, trip_piece, route_length, time_from, time_to, n)) AS ex;
 END;
-$sql$, gis);
+$sql$, gis, fx);
 END $do$;
 
 -- GeoJSON comments, lost with the drop above:
-COMMENT ON FUNCTION @extschema@.frechet_geojson(geometry, geometry, pg_catalog.float8) IS
-'a GeoJSON FeatureCollection of a pair for a map: both curves (roles a, b), the leashes of an optimal matching, the bottleneck and, with epsilon, the excursions of a from b; distances in units of the SRID, coordinates in WGS84 lon/lat (transformed when the SRID is another known system; as stored when it is 0)';
+COMMENT ON FUNCTION @extschema@.frechet_geojson(geometry, geometry, pg_catalog.float8, pg_catalog.jsonb, pg_catalog.int4) IS
+'a GeoJSON FeatureCollection of a pair for a map: both curves (roles a, b; with M their times, one a vertex), the leashes of an optimal matching (at most max_leashes, the longest always among them), the bottleneck and, with epsilon, the excursions of a from b (with their times); the caller''s properties (a JSON object) in every feature''s properties; distances in units of the SRID, coordinates in WGS84 lon/lat (transformed when the SRID is another known system; as stored when it is 0)';
 
-COMMENT ON FUNCTION @extschema@.frechet_geojson(geography, geography, pg_catalog.float8) IS
-'a GeoJSON FeatureCollection of a pair for a map: both curves (roles a, b), the leashes of an optimal matching, the bottleneck and, with epsilon, the excursions of a from b; distances in metres on WGS84, coordinates lon/lat';
+COMMENT ON FUNCTION @extschema@.frechet_geojson(geography, geography, pg_catalog.float8, pg_catalog.jsonb, pg_catalog.int4) IS
+'a GeoJSON FeatureCollection of a pair for a map: both curves (roles a, b; with M their times, one a vertex), the leashes of an optimal matching (at most max_leashes, the longest always among them), the bottleneck and, with epsilon, the excursions of a from b (with their times); the caller''s properties (a JSON object) in every feature''s properties; distances in metres on WGS84, coordinates lon/lat';
 
 -- frechet_key records its kind of coordinates (planar or Earth-centred);
 -- the operator classes' consistent functions now refuse a query key of

@@ -15,6 +15,8 @@
 
 #include "fmgr.h"
 #include "funcapi.h"
+#include "catalog/pg_type.h"
+#include "utils/array.h"
 #include "utils/tuplestore.h"
 
 #include "glue.h"
@@ -280,6 +282,29 @@ track_piece(FunctionCallInfo fcinfo, bool geodetic)
 	return geo_subline_datum(fcinfo, &gc, 0, from - 1, to - 1);
 }
 
+/*
+ * frechet_geojson_times(track, argno): the M (time) of each vertex for the
+ * GeoJSON functions, checked as time in the words of an ERROR that names
+ * argument argno of the caller; NULL when the track has no M.
+ */
+static Datum
+geojson_times(FunctionCallInfo fcinfo, bool geodetic)
+{
+	geo_curves	gc;
+	track_report rep = {.argno = PG_GETARG_INT32(1)};
+	Datum	   *elems;
+
+	geo_decode_one(fcinfo, geodetic, false, &gc);
+	if (gc.a.m == NULL)
+		PG_RETURN_NULL();
+	ewkb_check_times(&gc.a, &rep);
+	elems = palloc(sizeof(Datum) * gc.a.n);
+	for (size_t k = 0; k < gc.a.n; k++)
+		elems[k] = Float8GetDatum(gc.a.m[k]);
+	PG_RETURN_ARRAYTYPE_P(construct_array(elems, (int) gc.a.n, FLOAT8OID, sizeof(float8),
+										  FLOAT8PASSBYVAL, TYPALIGN_DOUBLE));
+}
+
 #define GEO_PAIR(sqlname, impl) \
 PG_FUNCTION_INFO_V1(sqlname##_geometry); \
 Datum sqlname##_geometry(PG_FUNCTION_ARGS) { return impl(fcinfo, false); } \
@@ -295,3 +320,4 @@ GEO_PAIR(frechet_partial_match, partial_match_row)
 GEO_PAIR(frechet_excursions, excursion_rows)
 GEO_PAIR(frechet_simplify, simplify_line)
 GEO_PAIR(frechet_track_piece, track_piece)
+GEO_PAIR(frechet_geojson_times, geojson_times)

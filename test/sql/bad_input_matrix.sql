@@ -40,6 +40,11 @@ INSERT INTO good_values VALUES
 	('double precision', 1, $$1.0::float8$$),
 	('double precision', 2, $$1.0::float8$$),
 	('epsilon', 1, $$4.0::float8$$),
+	('jsonb', 1, $$'{"trip_id": 17}'::jsonb$$),
+	('max_leashes', 1, $$5$$),
+	('integer', 1, $$2$$),
+	('bigint', 1, $$9::int8$$),
+	('boolean', 1, $$false$$),
 	('frechet_key', 1, $$frechet_reach('{"(0,1)","(5,5)","(12,0)"}'::point[], 4)$$);
 
 -- Bad (and borderline good) values: expected is a SQLSTATE, 'ok' (no
@@ -74,7 +79,14 @@ INSERT INTO bad_values VALUES
 	('epsilon', '+Infinity', $$'Infinity'::float8$$, 'ok'),
 	('epsilon', 'zero', $$0::float8$$, 'ok'),
 	('epsilon', 'minus zero', $$'-0'::float8$$, 'ok'),
-	('epsilon', 'NULL', $$NULL::float8$$, 'strict');
+	('epsilon', 'NULL', $$NULL::float8$$, 'strict'),
+	-- the GeoJSON functions' caller properties and leash cap
+	('jsonb', 'array', $$'[1, 2]'::jsonb$$, '22023'),
+	('jsonb', 'scalar', $$'"trip 17"'::jsonb$$, '22023'),
+	('jsonb', 'NULL', $$NULL::jsonb$$, 'strict'),
+	('max_leashes', 'zero', $$0$$, '22023'),
+	('max_leashes', 'negative', $$-3$$, '22023'),
+	('max_leashes', 'NULL', $$NULL::int4$$, 'strict');
 
 -- Call templates: a function in FROM (scalar or set-returning), an operator
 -- between its operands; %s are the arguments in order.
@@ -83,7 +95,7 @@ SELECT p.oid::regprocedure::text AS member, p.proisstrict AS strict, p.proretset
        format('SELECT pg_catalog.array_agg(x::text) FILTER (WHERE x::text IS NOT NULL) FROM %I.%I(%s) AS x',
               n.nspname, p.proname,
               (SELECT string_agg('%s', ', ') FROM unnest(p.proargtypes::oid[]))) AS template,
-       ARRAY(SELECT CASE WHEN coalesce(p.proargnames[a.ord], '') = 'epsilon' THEN 'epsilon'
+       ARRAY(SELECT CASE WHEN coalesce(p.proargnames[a.ord], '') IN ('epsilon', 'max_leashes') THEN p.proargnames[a.ord]
                          ELSE format_type(a.typ, NULL) END
              FROM unnest(p.proargtypes::oid[]) WITH ORDINALITY AS a(typ, ord) ORDER BY a.ord) AS argtypes
 FROM members m JOIN pg_proc p ON m.classid = 'pg_proc'::regclass AND p.oid = m.objid

@@ -105,6 +105,43 @@ SELECT id, bool_and(sqrt(((l->0->>0)::float8 - (l->1->>0)::float8) ^ 2 + ((l->0-
 FROM gj, jsonb_array_elements(j->'features'->2->'geometry'->'coordinates') l
 GROUP BY id ORDER BY id;
 
+-- The caller's properties (a trip id of the invented Kestrel Vale fleet)
+-- are in every feature's properties; ours win on a shared key.
+SELECT id, bool_and(f->'properties'->>'trip_id' = 'KV-0' || id) AS every_feature,
+       bool_and(f->'properties'->>'role' <> 'mine') AS ours_win
+FROM gj, jsonb_array_elements(frechet_geojson(a, b, eps, jsonb_build_object('trip_id', 'KV-0' || id, 'role', 'mine'))->'features') f
+GROUP BY id ORDER BY id;
+
+-- A cap on the leashes drawn: a long zigzag trip against a straight route
+-- has a matching of many steps.  Under a cap of k at most k leashes are
+-- drawn, the longest (the bottleneck's, computed apart) always among them,
+-- and from a cap of 2 the first step's leash too; matching_steps counts
+-- all of them.
+CREATE TABLE gj_long AS
+SELECT array(SELECT point(i, CASE WHEN i % 2 = 0 THEN 0 ELSE 1 + (i % 7) END) FROM generate_series(0, 3000) i) AS a,
+       '{"(0,0)","(3000,0)"}'::point[] AS b;
+SELECT k, (j->'features'->2->'properties'->>'count')::int AS drawn,
+       (j->'features'->2->'properties'->>'count')::int <= k AS within_cap,
+       (j->'features'->2->'properties'->>'matching_steps')::int = (SELECT count(*) FROM frechet_matching(a, b)) AS steps_counted,
+       (SELECT max(sqrt(((l->0->>0)::float8 - (l->1->>0)::float8) ^ 2 + ((l->0->>1)::float8 - (l->1->>1)::float8) ^ 2))
+        FROM jsonb_array_elements(j->'features'->2->'geometry'->'coordinates') l)
+       = (SELECT leash FROM frechet_bottleneck(a, b)) AS longest_drawn,
+       j->'features'->2->'geometry'->'coordinates'->0 = (SELECT jsonb_build_array(jsonb_build_array(m.a_point[0], m.a_point[1]),
+                                                                                   jsonb_build_array(m.b_point[0], m.b_point[1]))
+                                                          FROM frechet_matching(a, b) m WHERE m.step = 1) OR k = 1 AS first_drawn
+FROM gj_long, unnest('{1,2,10,500}'::int[]) k, LATERAL (SELECT frechet_geojson(a, b, NULL, NULL, k) AS j) g
+ORDER BY k;
+SELECT (SELECT count(*) FROM frechet_matching(a, b)) > 500 AS matching_is_long,
+       (frechet_geojson(a, b)->'features'->2->'properties'->>'count')::int = (SELECT count(*) FROM frechet_matching(a, b)) AS all_without_cap,
+       length((frechet_geojson(a, b, NULL, NULL, 100)->'features'->2)::text) * 10
+       < length((frechet_geojson(a, b)->'features'->2)::text) AS capped_is_smaller
+FROM gj_long;
+\set VERBOSITY terse
+SELECT frechet_geojson(a, b, NULL, '[1]'::jsonb) FROM gj_long;
+SELECT frechet_geojson(a, b, NULL, NULL, 0) FROM gj_long;
+\set VERBOSITY default
+DROP TABLE gj_long;
+
 -- The standard SQL bodies are bound when the extension is created: the
 -- functions work with only pg_catalog on the search_path (as in a
 -- postgres_fdw remote session).

@@ -141,6 +141,23 @@ SELECT round(ST_X(p.route_point)::numeric, 6) AS x, round(ST_M(p.route_point)::n
 FROM (SELECT 'LINESTRING M(2 1 1005, 150 3 1100, 300 -2 1200, 396 2 1290)'::geometry AS trip) t,
      frechet_progress(t.trip, 'LINESTRING M(0 0 1000, 400 0 1200, 800 0 1400)'::geometry, 10) p;
 
+-- GeoJSON for dashboards: with M, each track feature carries its times,
+-- one a vertex (ST_M of each vertex, from PostGIS), and each excursion its
+-- time_from and time_to; the caller's properties are in every feature.
+SELECT (j->'features'->0->'properties'->'times')
+       = (SELECT jsonb_agg(ST_M(d.geom) ORDER BY d.path) FROM ST_DumpPoints(tv.trip) d) AS trip_times,
+       j->'features'->1->'properties' ? 'times' AS route_has_times,
+       j->'features'->4->'properties'->>'time_from' AS excursion_from,
+       j->'features'->4->'properties'->>'time_to' AS excursion_to,
+       (SELECT bool_and(f->'properties'->>'bus' = '7') FROM jsonb_array_elements(j->'features') f) AS bus_everywhere
+FROM tv, LATERAL (SELECT frechet_geojson(tv.trip, tv.route, 20, '{"bus": 7}') AS j) g;
+SELECT (frechet_geojson(tv.trip::geography, ST_Transform(tv.route, 4326)::geography, 20)->'features'->0->'properties'->'times')
+       = (SELECT jsonb_agg(ST_M(d.geom) ORDER BY d.path) FROM ST_DumpPoints(tv.trip) d) AS geography_trip_times
+FROM (SELECT ST_Transform(trip, 4326) AS trip, route FROM tv) tv;
+\set VERBOSITY default
+SELECT frechet_geojson('LINESTRING(0 0, 200 0)'::geometry, 'LINESTRING M(0 0 10, 100 50 30, 200 0 20)'::geometry);
+\set VERBOSITY terse
+
 DROP TABLE tv;
 DROP EXTENSION frechet_ext_postgis;
 DROP EXTENSION postgis;

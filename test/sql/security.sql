@@ -48,6 +48,11 @@ INSERT INTO samples VALUES
 	('point[]', 2, $$'{"(0,1)","(5,5)","(6,-1)","(12,0)"}'::pg_catalog.point[]$$),
 	('double precision', 1, $$1.0::pg_catalog.float8$$),
 	('double precision', 2, $$1.0::pg_catalog.float8$$),
+	('jsonb', 1, $$'{"trip_id": 17}'::pg_catalog.jsonb$$),
+	('integer', 1, $$1$$),
+	('integer', 2, $$3$$),
+	('bigint', 1, $$9::pg_catalog.int8$$),
+	('boolean', 1, $$false$$),
 	('frechet_key', 1, $$'start=(0,1)..(0,1) end=(12,0)..(12,0) min=(0,0)..(0,0) max=(12,5)..(12,5) reach=4'::public.frechet_key$$);
 
 -- One statement a member function or operator, calling it schema-qualified.
