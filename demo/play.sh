@@ -21,5 +21,11 @@ load_s=$(awk -v a="$t0" -v b="$t1" 'BEGIN { printf "%.1f", b - a }')
 echo "-- loaded in $load_s s"
 { cat demo/queries.sql; echo; cat demo/report.sql; } |
 	psql -X -q -v ON_ERROR_STOP=1 -v load_s="$load_s" -v outfile="$OUT/report.html"
+# The trajectories part needs PostGIS (installed by .ci/deps.sh).
+if psql -X -q -At -c "SELECT 1 FROM pg_available_extensions WHERE name = 'postgis'" | grep -q 1; then
+	psql -X -q -v ON_ERROR_STOP=1 -v eps=60 <demo/lonlat.sql
+else
+	echo "-- PostGIS is not installed: the trajectories part (demo/lonlat.sql) is skipped"
+fi
 echo
 echo "-- report: $OUT/report.html ($(wc -c <"$OUT/report.html") bytes; open it in a browser)"
