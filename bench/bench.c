@@ -78,11 +78,13 @@ typedef enum method
 	METHOD_DECIDE,
 	METHOD_DECIDE_PLAIN,
 	METHOD_GEOS_DISCRETE,
-	METHOD_DISCRETE
+	METHOD_DISCRETE,
+	METHOD_PROGRESS
 } method;
 
 static const char *const method_names[] = {
-	"fr_distance", "fr_decide", "fr_decide_plain", "GEOS discrete", "fr_discrete_distance"
+	"fr_distance", "fr_decide", "fr_decide_plain", "GEOS discrete", "fr_discrete_distance",
+	"fr_progress"
 };
 
 typedef struct bench_opts
@@ -142,6 +144,8 @@ typedef struct row_result
 	double		ms_discrete;
 	uint64_t	cells_decide[2];
 	uint64_t	cells_plain[2];
+	double		ms_progress;	/* the trip's first half in progress on the route, at 1.05d */
+	bool		progress_found;
 } row_result;
 
 typedef char table_cell[CELL_LEN];
@@ -581,6 +585,16 @@ run_method(method meth, const pair_data *pd, double eps, outcome *out)
 			check_status(fr_discrete_distance(&bench_env, &pd->p, &pd->q, &out->value),
 						 "fr_discrete_distance", pd);
 			break;
+		case METHOD_PROGRESS:
+			{
+				/* a trip in progress: the first half of p, on the route q */
+				fr_curve	half = {pd->p.coords, (pd->p.n + 1) / 2, pd->p.dim};
+				double		frac;
+
+				check_status(fr_progress(&bench_env, &half, &pd->q, eps, &out->decision,
+										 &out->value, &frac), "fr_progress", pd);
+			}
+			break;
 	}
 }
 
@@ -648,6 +662,7 @@ bench_pair(const pair_data *pd, const bench_opts *opts, row_result *row)
 	row->d = row->d_discrete = row->d_geos = NAN;
 	row->ms_distance = row->ms_decide[0] = row->ms_decide[1] = NAN;
 	row->ms_plain[0] = row->ms_plain[1] = row->ms_geos = row->ms_discrete = NAN;
+	row->ms_progress = NAN;
 
 	/* on the adversarial pairs every method is quadratic, the engine's too */
 	if (skip && pd->kind == KIND_ZIGZAG)
@@ -682,6 +697,12 @@ bench_pair(const pair_data *pd, const bench_opts *opts, row_result *row)
 			report_failure("%s n=%zu: fr_decide_plain(%.2f d) = %s but fr_decide = %s",
 						   kind_names[pd->kind], row->n, eps_factor[k],
 						   out.decision ? "true" : "false", ours ? "true" : "false");
+	}
+	if (row->d > 0)
+	{
+		progress(pd, "fr_progress at 1.05d");
+		row->ms_progress = time_method(METHOD_PROGRESS, pd, eps_factor[0] * row->d, &out, opts);
+		row->progress_found = out.decision;
 	}
 	if (skip)
 		return;
@@ -898,6 +919,40 @@ print_values(const row_result *rows, size_t nrows)
 			snprintf(c[6], CELL_LEN, "n/a");
 		else
 			snprintf(c[6], CELL_LEN, "%" PRIu64, r->distance_cells);
+	}
+	table_print(&t);
+	table_free(&t);
+}
+
+/*
+ * Prints the cost of a trip in progress (fr_progress on the first half of
+ * the trip, at 1.05d) beside the decision on the whole pair at 1.05d.
+ */
+static void
+print_progress(const row_result *rows, size_t nrows)
+{
+	text_table	t = {6, 0, 1, NULL};
+	table_cell *c = table_add_row(&t);
+
+	snprintf(c[0], CELL_LEN, "pair");
+	snprintf(c[1], CELL_LEN, "n");
+	snprintf(c[2], CELL_LEN, "m");
+	snprintf(c[3], CELL_LEN, "fr_progress ms");
+	snprintf(c[4], CELL_LEN, "progress/decide");
+	snprintf(c[5], CELL_LEN, "found");
+	for (size_t i = 0; i < nrows; i++)
+	{
+		const row_result *r = &rows[i];
+
+		if (isnan(r->ms_progress))
+			continue;
+		c = table_add_row(&t);
+		snprintf(c[0], CELL_LEN, "%s", kind_names[r->kind]);
+		snprintf(c[1], CELL_LEN, "%zu", r->n);
+		snprintf(c[2], CELL_LEN, "%zu", r->m);
+		fmt_ms(c[3], r->ms_progress);
+		fmt_ratio(c[4], r->ms_progress, r->ms_decide[0]);
+		snprintf(c[5], CELL_LEN, "%s", r->progress_found ? "yes" : "no");
 	}
 	table_print(&t);
 	table_free(&t);
@@ -1138,6 +1193,9 @@ run_benchmark(void *arg)
 	printf("\nAdversarial decide throughput (cells/s: free-space cells the decider "
 		   "reports visiting; n*m/s: full diagram size per second):\n\n");
 	print_throughput(rows, nrows);
+	printf("\nA trip in progress (fr_progress on the trip's first half, at 1.05d) beside\n"
+		   "fr_decide on the whole pair at 1.05d, in the same run:\n\n");
+	print_progress(rows, nrows);
 	free(rows);
 	return NULL;
 }

@@ -444,6 +444,9 @@ double		fr_left_edge(const fr_prep *p, const fr_prep *q, size_t j, double eps, b
 fr_status	fr_row_step(const fr_prep *p, const fr_prep *q, size_t j, double eps,
 						double *row, double lr, double *left, double *right,
 						bool *any_top, fr_poll *poll);
+fr_status	fr_row_step_band(const fr_prep *p, const fr_prep *q, size_t j, double eps,
+							 double *row, double lr, size_t *first, size_t *last,
+							 double *right, bool *any_top, fr_poll *poll);
 
 /* Decision on prepared curves (plain Alt & Godau reachability). */
 fr_status	fr_decide_prepared(const fr_env *env, const fr_prep *p, const fr_prep *q,

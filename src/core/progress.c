@@ -12,8 +12,10 @@
  * nearest the trip's last point is where the trip is now.  So a bus
  * waiting at the first stop of a loop line is at its start, not its end.
  *
- * Cost: one plain sweep of the n x m free space (the rows stop early
- * when nothing reaches the next one).  Layout as in reach.c: the route
+ * Cost: one sweep of the free space row by row, visiting only the band
+ * of cells that reachability enters (fr_row_step_band), so on a real
+ * trip near its route about the band's width a row, not the route's
+ * length; the rows stop early when nothing reaches the next one.  Layout as in reach.c: the route
  * runs along x (cells i), the trip along y (rows j).
  */
 #include <math.h>
@@ -89,6 +91,8 @@ fr_progress(const fr_env *env, const fr_curve *trip, const fr_curve *route, doub
 	fr_poll		poll;
 	fr_status	st;
 	bool		open = true;
+	size_t		first,
+				last;
 
 	*found = false;
 	*route_pos = 0.0;
@@ -123,6 +127,15 @@ fr_progress(const fr_env *env, const fr_curve *trip, const fr_curve *route, doub
 	}
 	fr_poll_init(&poll, env);
 	fr_bottom_edge(&pr, &pt, eps, row);
+	/* the reachable part of the bottom edge is a prefix of cells */
+	first = 0;
+	last = 0;
+	while (last + 1 < pr.n && row[last] != FR_EMPTY)
+		last++;
+	if (last == 0)
+		first = 1;				/* empty band */
+	else
+		last--;
 	for (size_t j = 0; j + 1 < pt.n; j++)
 	{
 		double		lr = FR_EMPTY,
@@ -135,17 +148,13 @@ fr_progress(const fr_env *env, const fr_curve *trip, const fr_curve *route, doub
 			if (lr != 0.0)
 				lr = FR_EMPTY;
 		}
-		st = fr_row_step(&pr, &pt, j, eps, row, lr, NULL, &right, &any_top, &poll);
+		/* only the band of cells that reachability enters (cost: its width) */
+		st = fr_row_step_band(&pr, &pt, j, eps, row, lr, &first, &last, &right, &any_top, &poll);
 		if (st != FR_OK)
 			break;
-		/* nothing reaches the next row: the trip left every prefix */
+		/* nothing reaches the next row: the trip left every prefix (row is all empty) */
 		if (!any_top && !open)
-		{
-			if (j + 2 < pt.n)
-				for (size_t i = 0; i + 1 < pr.n; i++)
-					row[i] = FR_EMPTY;
 			break;
-		}
 	}
 	if (st == FR_OK && nearest_in_first_stretch(&pr, &pt.v[pt.n - 1], eps, row, route_pos))
 	{

@@ -12,6 +12,7 @@
  * interval's upper end, because reachability only ever cuts from below.
  */
 #include <math.h>
+#include <stdint.h>
 
 #include "fr_internal.h"
 
@@ -109,6 +110,77 @@ fr_row_step(const fr_prep *p, const fr_prep *q, size_t j, double eps,
 	*right = lr;
 	*any_top = any;
 	if (fr_poll_add(poll, (n - 1) & 0xFFFF))
+		return FR_EINTR;
+	return FR_OK;
+}
+
+/*
+ * fr_row_step over a band: on entry row[i] is FR_EMPTY outside
+ * [*first, *last] (*first > *last: all empty), and lr the left edge's
+ * reachable lower end.  Only the cells that something enters are visited:
+ * from *first (or 0 when lr enters) until the band's end, and on while
+ * reachability runs on through right boundaries.  On return *first and
+ * *last bound the reachable tops in the same way.  The result equals
+ * fr_row_step's; the cost is the band's width, not the row's.
+ */
+fr_status
+fr_row_step_band(const fr_prep *p, const fr_prep *q, size_t j, double eps,
+				 double *row, double lr, size_t *first, size_t *last, double *right,
+				 bool *any_top, fr_poll *poll)
+{
+	const size_t n = p->n;
+	const fr_pt *pv = p->v,
+			   *qa = &q->v[j],
+			   *qb = &q->v[j + 1];
+	const fr_seg *qs = &q->s[j];
+	size_t		i = lr != FR_EMPTY ? 0 : *first,
+				end = *last,
+				nfirst = SIZE_MAX,
+				nlast = 0,
+				visited = 0;
+
+	if (lr == FR_EMPTY && *first > *last)
+	{
+		*right = FR_EMPTY;
+		*any_top = false;
+		return FR_OK;
+	}
+	for (; i + 1 < n; i++)
+	{
+		double		br = row[i],
+					a,
+					b,
+					c,
+					d,
+					nlr,
+					nbr;
+
+		if (br == FR_EMPTY && lr == FR_EMPTY)
+		{
+			if (i > end)
+				break;			/* past the band, and nothing runs on */
+			continue;
+		}
+		fr_free_interval(&pv[i + 1], qa, qs, qb, eps, &a, &b);
+		nlr = fr_reach_out(a, b, br, lr);
+		fr_free_interval(qb, &pv[i], &p->s[i], &pv[i + 1], eps, &c, &d);
+		nbr = fr_reach_out(c, d, lr, br);
+		row[i] = nbr;
+		lr = nlr;
+		if (nbr != FR_EMPTY)
+		{
+			if (nfirst == SIZE_MAX)
+				nfirst = i;
+			nlast = i;
+		}
+		if ((++visited & 0xFFFF) == 0 && fr_poll_add(poll, 0x10000))
+			return FR_EINTR;
+	}
+	*right = i + 1 >= n ? lr : FR_EMPTY;
+	*any_top = nfirst != SIZE_MAX;
+	*first = nfirst;
+	*last = nfirst == SIZE_MAX ? 0 : nlast;
+	if (fr_poll_add(poll, (visited & 0xFFFF) + 1))
 		return FR_EINTR;
 	return FR_OK;
 }

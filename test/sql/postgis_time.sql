@@ -85,6 +85,15 @@ FROM tv;
 SELECT ST_M(b.a_point) AS trip_time_at_bottleneck, ST_Zmflag(b.b_point) AS route_zm
 FROM tv, frechet_bottleneck(tv.trip, tv.route) b;
 
+-- A partial match's route part keeps the route's Z and M.  By hand: the
+-- short trip follows the route from x = 100 to x = 300, positions 1.5 and
+-- 2.5 of a route with vertices at x = 0, 200, 400 and M 0, 100, 300, so M
+-- 50 and 200, Z halfway between the vertices' (5 -> 15, 25 -> 35).
+SELECT round(m.route_from::numeric, 9) AS route_from, round(m.route_to::numeric, 9) AS route_to,
+       ST_AsText(m.route_part) AS route_part
+FROM frechet_partial_match('LINESTRING Z(100 1 15, 300 1 35)'::geometry,
+                           'LINESTRING ZM(0 0 5 0, 200 0 25 100, 400 0 45 300)'::geometry, 2) m;
+
 -- frechet_simplify keeps the Z and M of the vertices it keeps: every kept
 -- vertex is one of the input's, with its own Z and M.
 WITH t AS (SELECT 'LINESTRING ZM(0 0 1 100, 10 0.1 2 110, 20 0 3 120, 30 0.1 4 130, 40 30 5 140, 50 0 6 150)'::geometry AS g)
