@@ -670,6 +670,82 @@ infinite_eps_and_invalid_input(void **state)
 	assert_int_equal(h.live, 0);
 }
 
+/*
+ * fr_row_step_band (the band sweep of frechet_progress) gives exactly the
+ * rows of fr_row_step, the plain Alt & Godau propagation, on random pairs
+ * near and far apart, with the left edge open or shut.
+ */
+static void
+band_step_equals_plain_step(void **state)
+{
+	for (int t = 0; t < 300; t++)
+	{
+		size_t		n = 2 + test_rand64() % 40,
+					m = 2 + test_rand64() % 40;
+		double	   *ca = test_walk(n, 0, 0, 5),
+				   *cb = t % 3 ? test_jitter(ca, n, 2, 2.0 + t % 7) : test_walk(m, 0, 0, 5);
+		fr_curve	a,
+					b;
+		test_heap	h;
+		fr_env		e = test_env(&h);
+		fr_prep		pa,
+					pb;
+		double	   *plain,
+				   *band,
+					eps = 1.0 + (double) (t % 11);
+		fr_poll		poll;
+		bool		open = true;
+		size_t		first = 0,
+					last = 0;
+
+		if (t % 3)
+			m = n;
+		a = (fr_curve) {ca, n, 2};
+		b = (fr_curve) {cb, m, 2};
+		assert_int_equal(fr_prepare_pair(&e, &a, &b, &pa, &pb), FR_OK);
+		plain = malloc(pa.n * sizeof(double));
+		band = malloc(pa.n * sizeof(double));
+		fr_poll_init(&poll, &e);
+		fr_bottom_edge(&pa, &pb, eps, plain);
+		memcpy(band, plain, pa.n * sizeof(double));
+		while (last + 1 < pa.n && band[last] != FR_EMPTY)
+			last++;
+		if (last == 0)
+			first = 1;
+		else
+			last--;
+		for (size_t j = 0; j + 1 < pb.n; j++)
+		{
+			double		lr = FR_EMPTY,
+						r1,
+						r2;
+			bool		any1,
+						any2;
+
+			if (open)
+				lr = fr_left_edge(&pa, &pb, j, eps, &open);
+			assert_int_equal(fr_row_step(&pa, &pb, j, eps, plain, lr, NULL, &r1, &any1, &poll), FR_OK);
+			assert_int_equal(fr_row_step_band(&pa, &pb, j, eps, band, lr, &first, &last, &r2, &any2, &poll), FR_OK);
+			assert_int_equal(any1, any2);
+			assert_true(r1 == r2);
+			for (size_t i = 0; i + 1 < pa.n; i++)
+			{
+				if (plain[i] != band[i])
+					fail_msg("pair %d row %zu cell %zu: plain %g, band %g", t, j, i, plain[i], band[i]);
+				/* the band bounds every reachable top */
+				if (band[i] != FR_EMPTY)
+					assert_true(i >= first && i <= last);
+			}
+		}
+		free(plain);
+		free(band);
+		fr_release_pair(&e, &pa, &pb);
+		assert_int_equal(h.live, 0);
+		free(ca);
+		free(cb);
+	}
+}
+
 int
 main(void)
 {
@@ -693,6 +769,7 @@ main(void)
 		cmocka_unit_test(allocation_failure_is_reported),
 		cmocka_unit_test(three_dimensional_lift),
 		cmocka_unit_test(infinite_eps_and_invalid_input),
+		cmocka_unit_test(band_step_equals_plain_step),
 	};
 
 	return cmocka_run_group_tests_name("engine", tests, NULL, NULL);
