@@ -76,9 +76,10 @@ SELECT w.trip_id, w.frechet_m,
 		array_length(w.track, 1), array_length(w.route, 1),
 		round((w.gj->'features'->3->'properties'->>'a_pos')::numeric, 2),
 		round((w.gj->'features'->3->'properties'->>'b_pos')::numeric, 2),
-		coalesce((SELECT string_agg(format('trip vertices %s–%s left the line at %s, rejoined at %s; %s m out, %s m driven',
+		coalesce((SELECT string_agg(format('trip vertices %s–%s left the line at %s, rejoined at %s; %s m out, %s m driven, %s m of line skipped',
 		                                   x.trip_from, x.trip_to, round(x.route_from::numeric, 2), round(x.route_to::numeric, 2),
-		                                   round(x.max_leash::numeric), round(x.trip_length::numeric)), '<br>' ORDER BY x.trip_from)
+		                                   round(x.max_leash::numeric), round(x.trip_length::numeric),
+		                                   round(x.route_length::numeric)), '<br>' ORDER BY x.trip_from)
 		          FROM frechet_excursions(w.track, w.route, :eps) x), 'none'),
 		coalesce((SELECT format('line positions %s to %s, within %s m', round(p.route_from::numeric, 2),
 		                        round(p.route_to::numeric, 2), round(p.distance::numeric, 1))
