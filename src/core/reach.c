@@ -57,6 +57,30 @@ fr_left_edge(const fr_prep *p, const fr_prep *q, size_t j, double eps, bool *ful
 }
 
 /*
+ * One cell (i, j) of a row: from the reachable lower ends on its bottom
+ * (*br) and left (*lr) boundaries to those on its top (*br) and right
+ * (*lr) boundaries.  Called only when something enters.
+ */
+static inline void
+cell_step(const fr_prep *p, size_t i, const fr_pt *qa, const fr_seg *qs, const fr_pt *qb,
+		  double eps, double *br, double *lr)
+{
+	double		a,
+				b,
+				c,
+				d,
+				nlr;
+
+	/* right boundary: vertex p[i+1] against segment q[j]q[j+1] */
+	fr_free_interval(&p->v[i + 1], qa, qs, qb, eps, &a, &b);
+	nlr = fr_reach_out(a, b, *br, *lr);
+	/* top boundary: vertex q[j+1] against segment p[i]p[i+1] */
+	fr_free_interval(qb, &p->v[i], &p->s[i], &p->v[i + 1], eps, &c, &d);
+	*br = fr_reach_out(c, d, *lr, *br);
+	*lr = nlr;
+}
+
+/*
  * Propagates reachability through row j.  On entry row[i] is the reachable
  * lower end on the bottom of cell (i, j) and lr the one on the left edge;
  * on return row[i] is that of the top of cell (i, j).  If left is not NULL,
@@ -71,36 +95,22 @@ fr_row_step(const fr_prep *p, const fr_prep *q, size_t j, double eps,
 			bool *any_top, fr_poll *poll)
 {
 	const size_t n = p->n;
-	const fr_pt *pv = p->v,
-			   *qa = &q->v[j],
+	const fr_pt *qa = &q->v[j],
 			   *qb = &q->v[j + 1];
 	const fr_seg *qs = &q->s[j];
 	bool		any = false;
 
 	for (size_t i = 0; i + 1 < n; i++)
 	{
-		double		br = row[i],
-					a,
-					b,
-					c,
-					d,
-					nlr,
-					nbr;
+		double		br = row[i];
 
 		if (left)
 			left[i] = lr;
 		if (br == FR_EMPTY && lr == FR_EMPTY)
 			continue;			/* nothing enters: right and top stay empty */
-
-		/* right boundary: vertex p[i+1] against segment q[j]q[j+1] */
-		fr_free_interval(&pv[i + 1], qa, qs, qb, eps, &a, &b);
-		nlr = fr_reach_out(a, b, br, lr);
-		/* top boundary: vertex q[j+1] against segment p[i]p[i+1] */
-		fr_free_interval(qb, &pv[i], &p->s[i], &pv[i + 1], eps, &c, &d);
-		nbr = fr_reach_out(c, d, lr, br);
-		row[i] = nbr;
-		lr = nlr;
-		any |= nbr != FR_EMPTY;
+		cell_step(p, i, qa, qs, qb, eps, &br, &lr);
+		row[i] = br;
+		any |= br != FR_EMPTY;
 		/* long rows: poll inside the row as well (cancel within ~100 ms) */
 		if ((i & 0xFFFF) == 0xFFFF && fr_poll_add(poll, 0x10000))
 			return FR_EINTR;
@@ -129,8 +139,7 @@ fr_row_step_band(const fr_prep *p, const fr_prep *q, size_t j, double eps,
 				 bool *any_top, fr_poll *poll)
 {
 	const size_t n = p->n;
-	const fr_pt *pv = p->v,
-			   *qa = &q->v[j],
+	const fr_pt *qa = &q->v[j],
 			   *qb = &q->v[j + 1];
 	const fr_seg *qs = &q->s[j];
 	size_t		i = lr != FR_EMPTY ? 0 : *first,
@@ -147,13 +156,7 @@ fr_row_step_band(const fr_prep *p, const fr_prep *q, size_t j, double eps,
 	}
 	for (; i + 1 < n; i++)
 	{
-		double		br = row[i],
-					a,
-					b,
-					c,
-					d,
-					nlr,
-					nbr;
+		double		br = row[i];
 
 		if (br == FR_EMPTY && lr == FR_EMPTY)
 		{
@@ -161,13 +164,9 @@ fr_row_step_band(const fr_prep *p, const fr_prep *q, size_t j, double eps,
 				break;			/* past the band, and nothing runs on */
 			continue;
 		}
-		fr_free_interval(&pv[i + 1], qa, qs, qb, eps, &a, &b);
-		nlr = fr_reach_out(a, b, br, lr);
-		fr_free_interval(qb, &pv[i], &p->s[i], &pv[i + 1], eps, &c, &d);
-		nbr = fr_reach_out(c, d, lr, br);
-		row[i] = nbr;
-		lr = nlr;
-		if (nbr != FR_EMPTY)
+		cell_step(p, i, qa, qs, qb, eps, &br, &lr);
+		row[i] = br;
+		if (br != FR_EMPTY)
 		{
 			if (nfirst == SIZE_MAX)
 				nfirst = i;
