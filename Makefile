@@ -33,6 +33,8 @@ PG_CPPFLAGS = -I$(srcdir)/src/core
 # postgis_*.sql and run only where PostGIS is installed.
 EXTENSION += frechet_ext_postgis
 CORE_OBJS += src/core/geodesy.o
+# geography edges follow the geodesic: PROJ's geodesic routines (Karney 2013)
+SHLIB_LINK += -lproj
 OBJS += src/ewkb.o src/geo_glue.o src/geo_witness.o
 DATA_built += sql/frechet_ext_postgis--$(EXTVERSION).sql
 EXTRA_CLEAN += sql/frechet_ext_postgis--$(EXTVERSION).sql
@@ -129,17 +131,17 @@ FUZZ_GLUE_fuzz_ewkb = src/ewkb.c src/track_report.c
 # test/fuzz/fuzz_case.h.
 ENGINE_FUZZ = fuzz_engine fuzz_witness fuzz_index fuzz_pings
 $(patsubst %,test/fuzz/%.bin,$(ENGINE_FUZZ)): test/fuzz/%.bin: test/fuzz/%.c test/fuzz/fuzz_case.h $(CORE_SRC) src/core/*.h
-	$(FUZZ_CC) $(FUZZ_CFLAGS) -O2 -fno-sanitize-coverage=trace-cmp -o $@ $< $(CORE_SRC) -lm
+	$(FUZZ_CC) $(FUZZ_CFLAGS) -O2 -fno-sanitize-coverage=trace-cmp -o $@ $< $(CORE_SRC) -lproj -lm
 
 test/fuzz/fuzz_%.bin: test/fuzz/fuzz_%.c test/fuzz/pg_stubs.c test/fuzz/pg_stubs.h src/*.c src/*.h $(CORE_SRC) src/core/*.h
-	$(FUZZ_CC) $(FUZZ_CFLAGS) -I$(PG_INCLUDEDIR_SERVER) -o $@ $< test/fuzz/pg_stubs.c $(FUZZ_GLUE_fuzz_$*) -lm
+	$(FUZZ_CC) $(FUZZ_CFLAGS) -I$(PG_INCLUDEDIR_SERVER) -o $@ $< test/fuzz/pg_stubs.c $(FUZZ_GLUE_fuzz_$*) -lproj -lm
 
 # Engine unit tests built with AddressSanitizer and UndefinedBehaviorSanitizer.
 SAN_CFLAGS = -std=c11 -O1 -g -fsanitize=address,undefined -fno-sanitize-recover=all \
 	-fno-omit-frame-pointer -Wall -Wextra -Wno-unused-parameter -Isrc/core
 
 test/core/%.san.bin: test/core/%.c test/core/testutil.h $(CORE_SRC) src/core/*.h
-	$(FUZZ_CC) $(SAN_CFLAGS) -o $@ $< $(CORE_SRC) $(if $(findstring geos,$*),-lgeos_c) -lcmocka -lm
+	$(FUZZ_CC) $(SAN_CFLAGS) -o $@ $< $(CORE_SRC) $(if $(findstring geos,$*),-lgeos_c) -lcmocka -lproj -lm
 
 SAN_TESTS = test/core/test_engine.san.bin test/core/test_geos.san.bin
 

@@ -96,29 +96,26 @@ stored_key(postgis_calls *calls, Datum g, bool geodetic, fr_key *key)
 	fc.dim = c.dim;
 	if (geodetic)
 	{
-		xyz = palloc(sizeof(double) * 3 * c.n);
-		for (size_t i = 0; i < c.n; i++)
-		{
-			double		lon = c.coords[i * c.dim],
-						lat = c.coords[i * c.dim + 1];
+		/* as the functions see it: edges along their geodesics */
+		track_report rep = {.check = true};
 
-			if (!fr_geo_valid(lon, lat))
-			{
-				fr_key_everything(key);
-				pfree(xyz);
-				pfree(c.coords);
-				return;
-			}
-			fr_geo_to_ecef(lon, lat, xyz + 3 * i);
+		if (!geo_lonlat_engine(&c, &rep, &fc))
+		{
+			fr_key_everything(key);
+			if (rep.problem)
+				pfree(rep.problem);
+			pfree(c.coords);
+			return;
 		}
-		fc.coords = xyz;
-		fc.dim = 3;
+		xyz = (double *) fc.coords;
 	}
 	geo_key_of_curve(&fc, key);
 	frechet_key_set_kind(key, geodetic ? FRECHET_KEY_EARTH : FRECHET_KEY_PLANAR);
 	if (xyz != NULL)
 		pfree(xyz);
 	pfree(c.coords);
+	if (c.m)
+		pfree(c.m);
 }
 
 /* GiST compress: leaf entries become the summary of their curve. */

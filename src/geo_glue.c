@@ -29,6 +29,7 @@
 #include "parser/parse_func.h"
 #include "parser/parse_oper.h"
 #include "utils/builtins.h"
+#include "utils/memutils.h"
 #include "utils/fmgroids.h"
 #include "utils/lsyscache.h"
 #include "utils/syscache.h"
@@ -171,14 +172,23 @@ check_compatible(const ewkb_curve *a, const ewkb_curve *b, bool geodetic)
 }
 
 /*
- * WGS84 Earth-centred coordinates of a lon/lat (degrees) curve; Z is
- * ignored.  A longitude or latitude out of range goes to rep (NULL back).
+ * A lon/lat (degrees) curve as the engine sees it: WGS84 Earth-centred
+ * points (Z is ignored), into out (3-D).  With geodesic, each edge
+ * follows its geodesic: an edge whose chord could depart from it by more
+ * than FR_GEO_EDGE_SAG is cut into equal geodesic pieces (geodesy.c), and
+ * *first (palloc'd; NULL when no edge was cut) receives the engine vertex
+ * of each input vertex.  A longitude or latitude out of range goes to rep
+ * (false back).
  */
-static double *
-lonlat_to_ecef(const ewkb_curve *c, track_report *rep)
+static bool
+lonlat_track(const ewkb_curve *c, track_report *rep, bool geodesic, fr_curve *out, size_t **first)
 {
-	double	   *xyz = palloc(sizeof(double) * 3 * c->n);
+	double	   *xyz = palloc(sizeof(double) * 3 * c->n),
+			   *dense;
+	size_t		total = c->n,
+			   *at;
 
+	*first = NULL;
 	rep->start = c->coords;
 	rep->dim = c->dim;
 	rep->n = c->n;
@@ -190,24 +200,129 @@ lonlat_to_ecef(const ewkb_curve *c, track_report *rep)
 		if (!fr_geo_valid(lon, lat))
 		{
 			pfree(xyz);
-			track_problem(rep, ERRCODE_NUMERIC_VALUE_OUT_OF_RANGE, NULL,
-						  "longitude or latitude out of range",
-						  "(longitude %g, latitude %g) at vertex %zu; longitude must be in [-180, 180] and latitude in [-90, 90]",
-						  lon, lat, i + 1);
-			return NULL;
+			return track_problem(rep, ERRCODE_NUMERIC_VALUE_OUT_OF_RANGE, NULL,
+								 "longitude or latitude out of range",
+								 "(longitude %g, latitude %g) at vertex %zu; longitude must be in [-180, 180] and latitude in [-90, 90]",
+								 lon, lat, i + 1);
 		}
 		fr_geo_to_ecef(lon, lat, xyz + 3 * i);
 	}
-	return xyz;
+	out->coords = xyz;
+	out->n = c->n;
+	out->dim = 3;
+	if (!geodesic || c->n < 2)
+		return true;
+
+	/* count the pieces first (no geodesic is computed for short edges) */
+	at = palloc(sizeof(size_t) * c->n);
+	at[0] = 0;
+	for (size_t i = 0; i + 1 < c->n; i++)
+	{
+		size_t		pieces = fr_geo_edge_pieces(c->coords + i * c->dim, c->coords + (i + 1) * c->dim,
+												xyz + 3 * i, xyz + 3 * (i + 1));
+
+		if (pieces > (MaxAllocSize / (3 * sizeof(double))) - total)
+		{
+			pfree(xyz);
+			pfree(at);
+			return track_problem(rep, ERRCODE_PROGRAM_LIMIT_EXCEEDED, NULL,
+								 "geography track too long to follow its geodesics",
+								 "edges that need more than %zu points along them",
+								 (size_t) (MaxAllocSize / (3 * sizeof(double))));
+		}
+		total += pieces - 1;
+		at[i + 1] = at[i] + pieces;
+	}
+	if (total == c->n)
+	{
+		pfree(at);
+		return true;
+	}
+	dense = palloc(sizeof(double) * 3 * total);
+	for (size_t i = 0; i < c->n; i++)
+	{
+		memcpy(dense + 3 * at[i], xyz + 3 * i, 3 * sizeof(double));
+		if (i + 1 < c->n && at[i + 1] - at[i] > 1)
+			fr_geo_edge_fill(c->coords + i * c->dim, c->coords + (i + 1) * c->dim,
+							 at[i + 1] - at[i], dense + 3 * (at[i] + 1));
+	}
+	pfree(xyz);
+	out->coords = dense;
+	out->n = total;
+	*first = at;
+	return true;
+}
+
+/*
+ * A decoded geography track as the engine and the index keys see it
+ * (edges along their geodesics); a bad one goes to rep (false back).
+ */
+bool
+geo_lonlat_engine(const ewkb_curve *c, track_report *rep, fr_curve *out)
+{
+	size_t	   *first;
+
+	if (!lonlat_track(c, rep, true, out, &first))
+		return false;
+	if (first)
+		pfree(first);
+	return true;
 }
 
 /* The same, raising an ERROR that names argument argno. */
-static double *
-to_ecef(const ewkb_curve *c, int argno)
+static void
+to_engine(const ewkb_curve *c, int argno, bool geodesic, fr_curve *out, size_t **first)
 {
 	track_report rep = {.argno = argno};
 
-	return lonlat_to_ecef(c, &rep);
+	lonlat_track(c, &rep, geodesic, out, first);
+}
+
+/*
+ * The input position (0-based k + t) of an engine position of curve which:
+ * the same for planar curves and geography edges that were not cut; on a
+ * cut edge, t is the share of its geodesic length.
+ */
+double
+geo_pos_in(const geo_curves *gc, int which, double pos)
+{
+	const size_t *first = which ? gc->first_b : gc->first_a;
+	size_t		n = which ? gc->b.n : gc->a.n,
+				lo = 0,
+				hi;
+
+	if (first == NULL || !(pos > 0))
+		return first == NULL ? pos : 0.0;
+	if (pos >= (double) first[n - 1])
+		return (double) (n - 1);
+	/* the input edge lo with first[lo] <= pos < first[lo + 1] */
+	hi = n - 1;
+	while (hi - lo > 1)
+	{
+		size_t		mid = lo + (hi - lo) / 2;
+
+		if ((double) first[mid] <= pos)
+			lo = mid;
+		else
+			hi = mid;
+	}
+	return (double) lo + (pos - (double) first[lo]) / (double) (first[lo + 1] - first[lo]);
+}
+
+/* The engine position of an input position (the inverse of geo_pos_in). */
+static double
+pos_engine(const geo_curves *gc, int which, double pos)
+{
+	const size_t *first = which ? gc->first_b : gc->first_a;
+	size_t		n = which ? gc->b.n : gc->a.n,
+				k;
+
+	if (first == NULL || !(pos > 0))
+		return first == NULL ? pos : 0.0;
+	if (pos >= (double) (n - 1))
+		return (double) first[n - 1];
+	k = (size_t) pos;
+	return (double) first[k] + (pos - (double) k) * (double) (first[k + 1] - first[k]);
 }
 
 /* Does spatial_ref_sys say that srid's coordinates are longitude and latitude? */
@@ -262,7 +377,8 @@ note_planar_degrees(FunctionCallInfo fcinfo, int32 srid)
  * planar function that may note degrees.
  */
 static void
-decode_curves(bytea *a, bytea *b, bool geodetic, geo_curves *gc, FunctionCallInfo fcinfo)
+decode_curves(bytea *a, bytea *b, bool geodetic, geo_curves *gc, FunctionCallInfo fcinfo,
+			  int geodesic)
 {
 	ewkb_decode((const uint8 *) VARDATA_ANY(a), VARSIZE_ANY_EXHDR(a), 1, &gc->a);
 	ewkb_decode((const uint8 *) VARDATA_ANY(b), VARSIZE_ANY_EXHDR(b), 2, &gc->b);
@@ -272,11 +388,11 @@ decode_curves(bytea *a, bytea *b, bool geodetic, geo_curves *gc, FunctionCallInf
 	gc->geodetic = geodetic;
 	gc->p.n = gc->a.n;
 	gc->q.n = gc->b.n;
+	gc->first_a = gc->first_b = NULL;
 	if (geodetic)
 	{
-		gc->p.coords = to_ecef(&gc->a, 1);
-		gc->q.coords = to_ecef(&gc->b, 2);
-		gc->p.dim = gc->q.dim = 3;
+		to_engine(&gc->a, 1, (geodesic & GEO_EDGES_A) != 0, &gc->p, &gc->first_a);
+		to_engine(&gc->b, 2, (geodesic & GEO_EDGES_B) != 0, &gc->q, &gc->first_b);
 	}
 	else
 	{
@@ -292,7 +408,7 @@ decode_pair(bytea *a, bytea *b, bool geodetic, fr_curve *p, fr_curve *q, Functio
 {
 	geo_curves	gc;
 
-	decode_curves(a, b, geodetic, &gc, fcinfo);
+	decode_curves(a, b, geodetic, &gc, fcinfo, GEO_EDGES_A | GEO_EDGES_B);
 	*p = gc.p;
 	*q = gc.q;
 }
@@ -301,26 +417,39 @@ decode_pair(bytea *a, bytea *b, bool geodetic, fr_curve *p, fr_curve *q, Functio
 void
 geo_decode_args(FunctionCallInfo fcinfo, bool geodetic, geo_curves *gc)
 {
+	geo_decode_edges(fcinfo, geodetic, GEO_EDGES_A | GEO_EDGES_B, gc);
+}
+
+/*
+ * The same, with geography edges as geodesics only for the curves in
+ * geodesic (GEO_EDGES_A, GEO_EDGES_B): the ping functions read the trip's
+ * vertices alone.
+ */
+void
+geo_decode_edges(FunctionCallInfo fcinfo, bool geodetic, int geodesic, geo_curves *gc)
+{
 	decode_curves(argument_ewkb(fcinfo, 0, geodetic), argument_ewkb(fcinfo, 1, geodetic),
-				  geodetic, gc, fcinfo);
+				  geodetic, gc, fcinfo, geodesic);
 }
 
 /*
  * Decodes the first argument alone (the curve of a one-curve function), as
  * both a and b; measures says whether the function measures in the
- * coordinates' units (then a planar call in degrees gets its NOTICE).
+ * coordinates' units (then a planar call in degrees gets its NOTICE), and
+ * geodesic which of the two copies gets geodesic geography edges.
  */
 void
-geo_decode_one(FunctionCallInfo fcinfo, bool geodetic, bool measures, geo_curves *gc)
+geo_decode_one(FunctionCallInfo fcinfo, bool geodetic, bool measures, int geodesic, geo_curves *gc)
 {
 	bytea	   *a = argument_ewkb(fcinfo, 0, geodetic);
 
-	decode_curves(a, a, geodetic, gc, measures ? fcinfo : NULL);
+	decode_curves(a, a, geodetic, gc, measures ? fcinfo : NULL, geodesic);
 }
 
 /*
  * One geometry (or, when geodetic, geography) value as an engine curve:
- * geography as Earth-centred coordinates, and its SRID when srid is not
+ * geography as Earth-centred coordinates with its edges along their
+ * geodesics (as the index keys summarise it), and its SRID when srid is not
  * NULL.  A bad one goes to rep, in the words of the distance functions'
  * ERROR; false then.
  */
@@ -348,12 +477,14 @@ geo_datum_track(postgis_calls *calls, Datum g, bool geodetic, track_report *rep,
 	out->dim = c.dim;
 	if (geodetic)
 	{
-		out->coords = lonlat_to_ecef(&c, rep);
-		out->dim = 3;
+		size_t	   *first;
+		bool		ok = lonlat_track(&c, rep, true, out, &first);
+
 		pfree(c.coords);
 		rep->start = NULL;
-		if (out->coords == NULL)
-			return false;
+		if (first)
+			pfree(first);
+		return ok;
 	}
 	return true;
 }
@@ -439,10 +570,11 @@ value_at(const double *v, size_t stride, size_t n, double pos)
 }
 
 /*
- * Output coordinates of position pos (0-based k + t) of curve which (0: a,
- * 1: b): X Y, then Z and M as the layout asks.  At a vertex they are the
- * input's own; between vertices X Y follow the engine's segment (the
- * Earth-centred chord for geography), and Z and M are linear in t.
+ * Output coordinates of input position pos (0-based k + t) of curve which
+ * (0: a, 1: b): X Y, then Z and M as the layout asks.  At a vertex they
+ * are the input's own; between vertices X Y follow the engine's curve
+ * (for geography the point below the engine's chord, within
+ * FR_GEO_EDGE_SAG of the geodesic), and Z and M are linear in t.
  */
 static void
 output_point(const geo_curves *gc, int which, double pos, geo_layout l, double *out)
@@ -458,7 +590,7 @@ output_point(const geo_curves *gc, int which, double pos, geo_layout l, double *
 	{
 		double		xyz[3];
 
-		fr_curve_point(c, pos, xyz);
+		fr_curve_point(c, pos_engine(gc, which, pos), xyz);
 		fr_ecef_to_geo(xyz, &out[0], &out[1]);
 	}
 	else
@@ -535,7 +667,7 @@ finish_ewkb(FunctionCallInfo fcinfo, const geo_curves *gc, StringInfo buf)
 	return g;
 }
 
-/* A Point at position pos of curve which, as geometry or geography, with its Z and M. */
+/* A Point at input position pos of curve which, as geometry or geography, with its Z and M. */
 Datum
 geo_point_datum(FunctionCallInfo fcinfo, const geo_curves *gc, int which, double pos)
 {
@@ -550,7 +682,7 @@ geo_point_datum(FunctionCallInfo fcinfo, const geo_curves *gc, int which, double
 	return finish_ewkb(fcinfo, gc, &buf);
 }
 
-/* The part of curve which between positions from <= to, as a LineString with its Z and M. */
+/* The part of curve which between input positions from <= to, as a LineString with its Z and M. */
 Datum
 geo_subline_datum(FunctionCallInfo fcinfo, const geo_curves *gc, int which,
 				  double from, double to)
@@ -647,8 +779,8 @@ geo_leashes_datum(FunctionCallInfo fcinfo, const geo_curves *gc,
 	{
 		double		seg[8];
 
-		output_point(gc, 0, pts[k].a_pos, l, seg);
-		output_point(gc, 1, pts[k].b_pos, l, seg + odim);
+		output_point(gc, 0, geo_pos_in(gc, 0, pts[k].a_pos), l, seg);
+		output_point(gc, 1, geo_pos_in(gc, 1, pts[k].b_pos), l, seg + odim);
 		if (gc->geodetic && geo_lonlat_antipodal(seg, seg + odim))
 			ereport(ERROR,
 					(errcode(ERRCODE_INVALID_PARAMETER_VALUE),

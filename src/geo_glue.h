@@ -21,7 +21,14 @@ typedef struct geo_curves
 	fr_curve	p,
 				q;
 	bool		geodetic;
+	/* geography: the engine vertex of each input vertex (NULL: the same) */
+	size_t	   *first_a,
+			   *first_b;
 } geo_curves;
+
+/* Which curves get geography edges along their geodesics. */
+#define GEO_EDGES_A 1
+#define GEO_EDGES_B 2
 
 /* PostGIS's own functions, looked up in the schema of the postgis extension. */
 typedef struct postgis_calls postgis_calls;
@@ -37,7 +44,11 @@ void		geo_datum_curve(postgis_calls *calls, Datum g, bool geodetic, int argno,
 							fr_curve *out);
 
 void		geo_decode_args(FunctionCallInfo fcinfo, bool geodetic, geo_curves *gc);
-void		geo_decode_one(FunctionCallInfo fcinfo, bool geodetic, bool measures, geo_curves *gc);
+void		geo_decode_one(FunctionCallInfo fcinfo, bool geodetic, bool measures, int geodesic,
+						   geo_curves *gc);
+void		geo_decode_edges(FunctionCallInfo fcinfo, bool geodetic, int geodesic, geo_curves *gc);
+double		geo_pos_in(const geo_curves *gc, int which, double pos);
+bool		geo_lonlat_engine(const ewkb_curve *c, track_report *rep, fr_curve *out);
 Datum		geo_vertices_datum(FunctionCallInfo fcinfo, const geo_curves *gc,
 							   const size_t *keep, size_t count);
 bool		geo_time_at(const geo_curves *gc, int which, double pos, double *time);

@@ -19,6 +19,7 @@
 #include "utils/array.h"
 #include "utils/tuplestore.h"
 
+#include "geodesy.h"
 #include "glue.h"
 #include "geo_glue.h"
 
@@ -58,11 +59,14 @@ matching_rows(FunctionCallInfo fcinfo, bool geodetic)
 		Datum		values[6];
 		bool		nulls[6] = {false};
 
+		double		a_pos = geo_pos_in(&gc, 0, pts[k].a_pos),
+					b_pos = geo_pos_in(&gc, 1, pts[k].b_pos);
+
 		values[0] = Int32GetDatum((int32) k + 1);
-		values[1] = Float8GetDatum(pts[k].a_pos + 1);
-		values[2] = Float8GetDatum(pts[k].b_pos + 1);
-		values[3] = geo_point_datum(fcinfo, &gc, 0, pts[k].a_pos);
-		values[4] = geo_point_datum(fcinfo, &gc, 1, pts[k].b_pos);
+		values[1] = Float8GetDatum(a_pos + 1);
+		values[2] = Float8GetDatum(b_pos + 1);
+		values[3] = geo_point_datum(fcinfo, &gc, 0, a_pos);
+		values[4] = geo_point_datum(fcinfo, &gc, 1, b_pos);
 		values[5] = Float8GetDatum(geo_result_distance(&gc, pts[k].leash));
 		tuplestore_putvalues(rsinfo->setResult, rsinfo->setDesc, values, nulls);
 	}
@@ -113,10 +117,10 @@ bottleneck_row(FunctionCallInfo fcinfo, bool geodetic)
 	for (size_t k = 1; k < count; k++)
 		if (pts[k].leash > pts[worst].leash)
 			worst = k;
-	values[0] = Float8GetDatum(pts[worst].a_pos + 1);
-	values[1] = Float8GetDatum(pts[worst].b_pos + 1);
-	values[2] = geo_point_datum(fcinfo, &gc, 0, pts[worst].a_pos);
-	values[3] = geo_point_datum(fcinfo, &gc, 1, pts[worst].b_pos);
+	values[0] = Float8GetDatum(geo_pos_in(&gc, 0, pts[worst].a_pos) + 1);
+	values[1] = Float8GetDatum(geo_pos_in(&gc, 1, pts[worst].b_pos) + 1);
+	values[2] = geo_point_datum(fcinfo, &gc, 0, geo_pos_in(&gc, 0, pts[worst].a_pos));
+	values[3] = geo_point_datum(fcinfo, &gc, 1, geo_pos_in(&gc, 1, pts[worst].b_pos));
 	values[4] = Float8GetDatum(geo_result_distance(&gc, pts[worst].leash));
 	tuplestore_putvalues(rsinfo->setResult, rsinfo->setDesc, values, nulls);
 	return (Datum) 0;
@@ -154,6 +158,8 @@ partial_match_row(FunctionCallInfo fcinfo, bool geodetic)
 		Datum		values[4];
 		bool		nulls[4] = {false};
 
+		from = geo_pos_in(&gc, 1, from);
+		to = geo_pos_in(&gc, 1, to);
 		values[0] = Float8GetDatum(from + 1);
 		values[1] = Float8GetDatum(to + 1);
 		values[2] = Float8GetDatum(geo_result_distance(&gc, d));
@@ -183,6 +189,12 @@ excursion_rows(FunctionCallInfo fcinfo, bool geodetic)
 		Datum		values[10];
 		bool		nulls[10] = {false};
 		double		time;
+
+		/* positions on the inputs' vertices (geography edges may have been cut) */
+		copy[k].trip_from = geo_pos_in(&gc, 0, copy[k].trip_from);
+		copy[k].trip_to = geo_pos_in(&gc, 0, copy[k].trip_to);
+		copy[k].route_from = geo_pos_in(&gc, 1, copy[k].route_from);
+		copy[k].route_to = geo_pos_in(&gc, 1, copy[k].route_to);
 
 		values[0] = Float8GetDatum(copy[k].trip_from + 1);
 		values[1] = Float8GetDatum(copy[k].trip_to + 1);
@@ -230,35 +242,109 @@ keep_antipodal_spans(const geo_curves *gc, size_t *keep, size_t *count)
 	return out;
 }
 
+/* The kept vertices of c simplified within tol (engine units), palloc'd. */
+static size_t *
+simplify_within(const fr_curve *c, double tol, size_t *count)
+{
+	glue_env	g;
+	size_t	   *keep,
+			   *copy = NULL;
+	fr_status	st;
+
+	glue_env_begin(&g, fr_scratch_bytes(c->n, 1) + c->n * sizeof(size_t), "frechet_simplify");
+	st = fr_simplify(&g.env, c, tol, &keep, count);
+	if (st == FR_OK)
+	{
+		copy = palloc(*count * sizeof(size_t));
+		memcpy(copy, keep, *count * sizeof(size_t));
+	}
+	glue_env_end(&g);
+	glue_check_status(st, "frechet_simplify");
+	return copy;
+}
+
+/* The largest sag bound (geodesy.c) of the edges between kept vertices of c (all when keep is NULL). */
+static double
+largest_sag(const fr_curve *c, const size_t *keep, size_t count)
+{
+	double		worst = 0;
+
+	for (size_t k = 1; k < count; k++)
+	{
+		const double *a = c->coords + 3 * (keep ? keep[k - 1] : k - 1),
+				   *b = c->coords + 3 * (keep ? keep[k] : k);
+
+		worst = fmax(worst, fr_geo_sag(sqrt((b[0] - a[0]) * (b[0] - a[0]) + (b[1] - a[1]) * (b[1] - a[1])
+											 + (b[2] - a[2]) * (b[2] - a[2]))));
+	}
+	return worst;
+}
+
+/*
+ * Geography simplification with geodesic edges.  It simplifies the chords
+ * between the vertices within a smaller tolerance t; an edge and its chord
+ * are within the edge's sag of each other (matched by projection onto the
+ * chord), so by the triangle inequality the simplified track's geodesics
+ * are within sag(kept edges) + t + sag(input edges) of the track's, and
+ * the engine's curves (within FR_GEO_EDGE_SAG of the geodesics) within
+ * 2 FR_GEO_EDGE_SAG more.  t starts at the tolerance less the input's
+ * sags and shrinks while the kept edges' sag exceeds what was allowed for
+ * it; when no such t is found, every vertex is kept (distance 0).
+ */
+static size_t *
+simplify_geodesic(const fr_curve *c, double tol, size_t *count)
+{
+	double		input_sag = largest_sag(c, NULL, c->n),
+				allowed = 0;
+
+	for (int round = 0; round < 8; round++)
+	{
+		double		t = tol - input_sag - allowed - 2 * FR_GEO_EDGE_SAG,
+					kept_sag;
+		size_t	   *keep;
+
+		if (!(t >= 0))
+			break;
+		keep = simplify_within(c, t, count);
+		kept_sag = largest_sag(c, keep, *count);
+		if (kept_sag <= allowed)
+			return keep;
+		allowed = kept_sag;
+		pfree(keep);
+	}
+	{
+		size_t	   *all = palloc(c->n * sizeof(size_t));
+
+		for (size_t k = 0; k < c->n; k++)
+			all[k] = k;
+		*count = c->n;
+		return all;
+	}
+}
+
 /* frechet_simplify(track, tolerance): fewer vertices within tolerance, as a geometry. */
 static Datum
 simplify_line(FunctionCallInfo fcinfo, bool geodetic)
 {
 	geo_curves	gc;
 	double		tol = PG_GETARG_FLOAT8(1);
-	glue_env	g;
-	size_t	   *keep,
-			   *copy = NULL,
+	size_t	   *copy,
 				count = 0;
-	fr_status	st;
 
-	geo_decode_one(fcinfo, geodetic, true, &gc);
+	/* the vertices alone: edges are measured as chords, their geodesics bounded above */
+	geo_decode_one(fcinfo, geodetic, true, 0, &gc);
 	if (isnan(tol) || tol < 0)
 		ereport(ERROR,
 				(errcode(ERRCODE_INVALID_PARAMETER_VALUE),
 				 errmsg("tolerance must be a non-negative number"),
 				 errdetail("Argument 2 is %s.", isnan(tol) ? "NaN" : "negative")));
-	glue_env_begin(&g, fr_scratch_bytes(gc.p.n, 1) + gc.p.n * sizeof(size_t), "frechet_simplify");
-	st = fr_simplify(&g.env, &gc.p, geo_engine_epsilon(&gc, tol), &keep, &count);
-	if (st == FR_OK)
+	if (!geodetic)
 	{
-		copy = palloc(count * sizeof(size_t));
-		memcpy(copy, keep, count * sizeof(size_t));
+		copy = simplify_within(&gc.p, tol, &count);
+		return geo_vertices_datum(fcinfo, &gc, copy, count);
 	}
-	glue_env_end(&g);
-	glue_check_status(st, "frechet_simplify");
-	if (geodetic)
-		copy = keep_antipodal_spans(&gc, copy, &count);
+	copy = simplify_geodesic(&gc.p, geo_engine_epsilon(&gc, tol), &count);
+	copy = keep_antipodal_spans(&gc, copy, &count);
 	return geo_vertices_datum(fcinfo, &gc, copy, count);
 }
 
@@ -274,7 +360,7 @@ track_piece(FunctionCallInfo fcinfo, bool geodetic)
 	double		from = PG_GETARG_FLOAT8(1),
 				to = PG_GETARG_FLOAT8(2);
 
-	geo_decode_one(fcinfo, geodetic, false, &gc);
+	geo_decode_one(fcinfo, geodetic, false, GEO_EDGES_A, &gc);
 	glue_check_piece(from, to, gc.a.n);
 	geo_check_times(&gc, 0);
 	if (from == to)
@@ -294,7 +380,7 @@ geojson_times(FunctionCallInfo fcinfo, bool geodetic)
 	track_report rep = {.argno = PG_GETARG_INT32(1)};
 	Datum	   *elems;
 
-	geo_decode_one(fcinfo, geodetic, false, &gc);
+	geo_decode_one(fcinfo, geodetic, false, 0, &gc);
 	if (gc.a.m == NULL)
 		PG_RETURN_NULL();
 	ewkb_check_times(&gc.a, &rep);

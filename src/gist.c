@@ -68,7 +68,7 @@ gist_consistent(FunctionCallInfo fcinfo, bool kind_known, frechet_key_kind kind)
 	{
 		/* exact on a leaf, as for |~~|; frechet_pings_at_most stays the filter */
 		*recheck = false;
-		PG_RETURN_BOOL(fr_key_ping_bound(key, query) <= frechet_key_reach(query));
+		PG_RETURN_BOOL(frechet_key_ping_bound(key, query) <= frechet_key_reach(query));
 	}
 	if (strategy != FRECHET_STRATEGY_REACH)
 		elog(ERROR, "frechet_track_ops: unknown strategy number %d", strategy);

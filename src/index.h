@@ -78,6 +78,18 @@ frechet_key_set_kind(fr_key *key, frechet_key_kind kind)
 }
 
 /*
+ * The ping bound of a track summary against a route's: geography keys
+ * summarise the edges' geodesics, a box larger than the pings', so only
+ * the first and last vertices bound them (fr_key_ping_bound_ends).
+ */
+static inline double
+frechet_key_ping_bound(const fr_key *trip, const fr_key *route)
+{
+	return frechet_key_kind_of(route) == FRECHET_KEY_EARTH
+		? fr_key_ping_bound_ends(trip, route) : fr_key_ping_bound(trip, route);
+}
+
+/*
  * Raises 22023 unless a reach key is of the kind of the curve it is tested
  * against (argno, 1-based; 0 for an index's column).
  */

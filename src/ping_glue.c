@@ -51,7 +51,8 @@ ping_decode(FunctionCallInfo fcinfo, ping_input input, int gap_argno, ping_args 
 	}
 	else
 	{
-		geo_decode_args(fcinfo, input == PING_GEOGRAPHY, &pa->gc);
+		/* geography: the route's edges follow their geodesics; the trip is its pings alone */
+		geo_decode_edges(fcinfo, input == PING_GEOGRAPHY, GEO_EDGES_B, &pa->gc);
 		pa->trip = pa->gc.p;
 		pa->route = pa->gc.q;
 		pa->geodetic = pa->gc.geodetic;
@@ -182,7 +183,7 @@ pings_within_reach(FunctionCallInfo fcinfo, ping_input input)
 	}
 	else
 		geo_argument_key(fcinfo, 1, input == PING_GEOGRAPHY, &key);
-	PG_RETURN_BOOL(fr_key_ping_bound(&key, reach) <= frechet_key_reach(reach));
+	PG_RETURN_BOOL(frechet_key_ping_bound(&key, reach) <= frechet_key_reach(reach));
 }
 
 PG_FUNCTION_INFO_V1(frechet_pings_within_reach_point_array);
@@ -247,8 +248,8 @@ pings_excursions(FunctionCallInfo fcinfo, ping_input input)
 
 			values[0] = Int32GetDatum((int32) x[k].trip_from + 1);
 			values[1] = Int32GetDatum((int32) x[k].trip_to + 1);
-			values[2] = Float8GetDatum(x[k].route_from + 1);
-			values[3] = Float8GetDatum(x[k].route_to + 1);
+			values[2] = Float8GetDatum((input == PING_POINTS ? x[k].route_from : geo_pos_in(&pa.gc, 1, x[k].route_from)) + 1);
+			values[3] = Float8GetDatum((input == PING_POINTS ? x[k].route_to : geo_pos_in(&pa.gc, 1, x[k].route_to)) + 1);
 			values[4] = Float8GetDatum(pa.geodetic ? fr_chord_to_metres(x[k].max_leash) : x[k].max_leash);
 			values[5] = Float8GetDatum(x[k].trip_length);
 			values[6] = Float8GetDatum(x[k].route_length);

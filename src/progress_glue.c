@@ -62,6 +62,8 @@ progress(FunctionCallInfo fcinfo, progress_input input)
 		Datum		values[3];
 		bool		nulls[3] = {false};
 
+		if (input != PROGRESS_POINTS)
+			pos = geo_pos_in(&gc, 1, pos);	/* geography edges may have been cut */
 		values[0] = Float8GetDatum(pos + 1);
 		values[1] = Float8GetDatum(frac);
 		if (input == PROGRESS_POINTS)

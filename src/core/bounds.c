@@ -210,6 +210,20 @@ fr_key_ping_bound(const fr_key *trip, const fr_key *route)
 	return fr_bound_loosen(lb, max2(key_magnitude(trip), key_magnitude(route)));
 }
 
+/*
+ * The same from the first and last vertices alone, for summaries whose
+ * box covers more than the vertices (geography, whose keys summarise the
+ * edges' geodesics too): pings are vertices, so only the ends bound them.
+ */
+double
+fr_key_ping_bound_ends(const fr_key *trip, const fr_key *route)
+{
+	double		lb = max2(box_gap(trip, route, FR_KEY_START_X, FR_KEY_START_Y),
+						  box_gap(trip, route, FR_KEY_END_X, FR_KEY_END_Y));
+
+	return fr_bound_loosen(lb, max2(key_magnitude(trip), key_magnitude(route)));
+}
+
 /* Distance from (x, y) to the overall bounding box of a key. */
 static inline double
 point_box_gap(const fr_key *k, double x, double y)

@@ -98,6 +98,9 @@ double		fr_key_bound(const fr_key *a, const fr_key *b);
  */
 double		fr_key_ping_bound(const fr_key *trip, const fr_key *route);
 
+/* The same from the first and last vertices alone (for boxes larger than the vertices'). */
+double		fr_key_ping_bound_ends(const fr_key *trip, const fr_key *route);
+
 /*
  * fr_key_bound(node, qkey), raised by the largest distance from a vertex of
  * the query to the node's overall bounding box: every vertex of the query

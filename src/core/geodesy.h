@@ -16,6 +16,7 @@
 #define FR_GEODESY_H
 
 #include <stdbool.h>
+#include <stddef.h>
 
 /* WGS84 semi-major axis (metres) and flattening. */
 #define FR_WGS84_A 6378137.0
@@ -48,5 +49,22 @@ double		fr_metres_to_chord(double m);
 
 /* Expansion in metres of a geography bounding box filter for tolerance eps. */
 double		fr_geog_index_expansion(double eps_metres);
+
+/*
+ * Geography edges follow the geodesic (see geodesy.c): an edge whose chord
+ * could depart from its geodesic by more than FR_GEO_EDGE_SAG metres is
+ * cut into equal geodesic pieces (points from PROJ's geodesic routines,
+ * Karney 2013), so every piece's chord is within that of the geodesic.
+ */
+#define FR_GEO_EDGE_SAG 0.01
+
+/* An upper bound on how far a geodesic departs from its chord of this length (metres). */
+double		fr_geo_sag(double chord);
+
+/* Pieces of the edge a -> b (lon/lat degrees; ECEF points xa, xb); 1 when short enough. */
+size_t		fr_geo_edge_pieces(const double *a, const double *b, const double *xa, const double *xb);
+
+/* The pieces - 1 ECEF points (3 doubles each) that cut the geodesic a -> b into equal lengths. */
+void		fr_geo_edge_fill(const double *a, const double *b, size_t pieces, double *xyz);
 
 #endif							/* FR_GEODESY_H */

@@ -26,9 +26,10 @@ SELECT round(frechet_distance('SRID=4326;POINT(0 0)'::geometry::geography,
        round(ST_Distance('SRID=4326;POINT(0 0)'::geography, 'SRID=4326;POINT(0 0.001)'::geography, true)::numeric, 6) AS postgis;
 
 -- Across the antimeridian: two parallel tracks 0.0001 degrees (11 m) apart,
--- crossing 180 degrees; not half the world.  (11.0577 rather than 11.0574:
--- the first track's one 2.2 km chord runs 9.5 cm below the surface under
--- the second track's middle vertex, the documented sag term L^2 / 8R.)
+-- crossing 180 degrees; not half the world.  The first track's one 2.2 km
+-- edge follows its geodesic (a chord would run 9.5 cm below the surface
+-- under the second track's middle vertex and give 11.0577), so the
+-- distance is PostGIS's leash.
 SELECT round(frechet_distance('SRID=4326;LINESTRING(179.99 0,-179.99 0)'::geography,
                               'SRID=4326;LINESTRING(179.99 0.0001,-179.995 0.0001,-179.99 0.0001)'::geography)::numeric, 4) AS across_180,
        round(ST_Distance('SRID=4326;POINT(179.99 0)'::geography, 'SRID=4326;POINT(179.99 0.0001)'::geography, true)::numeric, 4) AS postgis_leash;

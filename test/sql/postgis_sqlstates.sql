@@ -19,8 +19,10 @@ END $$;
 -- positions straight in longitude and latitude (RFC 7946), so
 -- frechet_geojson draws those leashes.
 SELECT pg_temp.try($$SELECT ST_AsText(frechet_matching_leashes('LINESTRING(0 0, 1 0)'::geography, 'LINESTRING(180 0, 179 0)'::geography))$$) AS leashes;
-SELECT pg_temp.try($$SELECT (frechet_geojson('LINESTRING(0 0, 1 0)'::geography, 'LINESTRING(180 0, 179 0)'::geography)
-                             #> '{features,2,geometry}')::text$$) AS geojson_leashes;
+SELECT pg_temp.try($$SELECT (g #>> '{features,2,geometry,type}') || ' of ' || jsonb_array_length(g #> '{features,2,geometry,coordinates}')
+                                || ', first ' || (g #> '{features,2,geometry,coordinates,0}')::text
+                                || ', last ' || (g #> '{features,2,geometry,coordinates,-1}')::text
+                             FROM frechet_geojson('LINESTRING(0 0, 1 0)'::geography, 'LINESTRING(180 0, 179 0)'::geography) g$$) AS geojson_leashes;
 SELECT count(*) AS matching_rows, round(max(leash)) AS longest_leash_m
 FROM frechet_matching('LINESTRING(0 0, 1 0)'::geography, 'LINESTRING(180 0, 179 0)'::geography);
 -- not antipodal (one degree short): a leash as usual
@@ -33,7 +35,9 @@ SELECT ST_AsText(frechet_matching_leashes('LINESTRING(0 0, 1 0)'::geometry, 'LIN
 SELECT ST_AsText(frechet_simplify('LINESTRING(0 0, 90 0, 180 0, -90 0, 0 0)'::geography, 1e7)) AS simplified,
        frechet_distance(frechet_simplify('LINESTRING(0 0, 90 0, 180 0, -90 0, 0 0)'::geography, 1e7),
                         'LINESTRING(0 0, 90 0, 180 0, -90 0, 0 0)'::geography) <= 1e7 AS within_tolerance;
-SELECT ST_AsText(frechet_simplify('LINESTRING(0 0, 45 0, 90 0, 135 0, 180 0)'::geography, 2e7)) AS simplified_half_equator;
+SELECT ST_AsText(frechet_simplify('LINESTRING(0 0, 45 0, 90 0, 135 0, 180 0)'::geography, 2e7)) AS simplified_half_equator,
+       frechet_distance(frechet_simplify('LINESTRING(0 0, 45 0, 90 0, 135 0, 180 0)'::geography, 2e7),
+                        'LINESTRING(0 0, 45 0, 90 0, 135 0, 180 0)'::geography) <= 2e7 AS within_tolerance;
 -- without an antipodal shortcut it simplifies as before
 SELECT ST_AsText(frechet_simplify('LINESTRING(0 0, 0.5 0.0001, 1 0)'::geography, 1000)) AS simplified_short;
 
