@@ -9,6 +9,9 @@
  *     centre, for whole tracks at city scale;
  *   - Eiter & Mannila 1994: d <= d_discrete <= d + longest edge, for whole
  *     tracks densified along PROJ's geodesics.
+ *   - PROJ's geodesics again for geography edges, which follow them: each
+ *     edge's pieces within FR_GEO_EDGE_SAG (1 cm) of the geodesic, edges
+ *     of 1 m to 2,000 km, at the poles and across the antimeridian.
  * Bounds asserted here are the ones DEVELOPERS.md documents.
  */
 #include <float.h>
@@ -16,6 +19,8 @@
 #include <stdarg.h>
 #include <stddef.h>
 #include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
 
 #include <cmocka.h>
 #include <geodesic.h>
@@ -414,6 +419,138 @@ test_tracks_continental(void **state)
 	tracks_vs_geodesics(4, 3e5, 5e4, 4000, 4e-4, "continental");
 }
 
+/* Distance between two 3-D points. */
+static double
+dist3(const double *a, const double *b)
+{
+	return sqrt((a[0] - b[0]) * (a[0] - b[0]) + (a[1] - b[1]) * (a[1] - b[1]) + (a[2] - b[2]) * (a[2] - b[2]));
+}
+
+/* Distance from point x to the segment a-b in 3-D. */
+static double
+point_segment3(const double *x, const double *a, const double *b)
+{
+	double		ab[3] = {b[0] - a[0], b[1] - a[1], b[2] - a[2]},
+				ax[3] = {x[0] - a[0], x[1] - a[1], x[2] - a[2]},
+				l2 = ab[0] * ab[0] + ab[1] * ab[1] + ab[2] * ab[2],
+				t = l2 > 0 ? (ax[0] * ab[0] + ax[1] * ab[1] + ax[2] * ab[2]) / l2 : 0,
+				p[3];
+
+	t = fmax(0.0, fmin(1.0, t));
+	for (int k = 0; k < 3; k++)
+		p[k] = a[k] + t * ab[k];
+	return dist3(x, p);
+}
+
+/*
+ * One edge a -> b (lon/lat degrees) as the extension follows it: its
+ * pieces (fr_geo_edge_pieces / fr_geo_edge_fill) against the geodesic
+ * sampled by PROJ's geod_inverseline and geod_position (Karney 2013; the
+ * C library of GeographicLib's algorithms).  Asserts, each at
+ * FR_GEO_EDGE_SAG plus 1 mm of rounding room:
+ *   - every sampled geodesic point lies within it of the pieces' chords;
+ *   - the middle of each piece's chord lies within it of the geodesic
+ *     point halfway along that piece (where a chord departs the most);
+ *   - short edges are not cut (no work added where the chord is within).
+ * Returns the number of pieces.
+ */
+static size_t
+check_edge(double lon1, double lat1, double lon2, double lat2)
+{
+	const double bound = FR_GEO_EDGE_SAG + 1e-3;
+	double		a[2] = {lon1, lat1},
+				b[2] = {lon2, lat2},
+				xa[3],
+				xb[3],
+			   *pts;
+	size_t		pieces;
+	struct geod_geodesicline line;
+
+	fr_geo_to_ecef(lon1, lat1, xa);
+	fr_geo_to_ecef(lon2, lat2, xb);
+	pieces = fr_geo_edge_pieces(a, b, xa, xb);
+	assert_true(pieces >= 1);
+	pts = malloc(sizeof(double) * 3 * (pieces + 1));
+	memcpy(pts, xa, sizeof(xa));
+	memcpy(pts + 3 * pieces, xb, sizeof(xb));
+	fr_geo_edge_fill(a, b, pieces, pts + 3);
+	if (dist3(xa, xb) < 700.0)
+		assert_int_equal(pieces, 1);
+
+	geod_inverseline(&line, &wgs84, lat1, lon1, lat2, lon2, 0);
+	for (int k = 0; k <= 400; k++)
+	{
+		double		lat,
+					lon,
+					g[3],
+					best = INFINITY;
+		size_t		near = (size_t) floor((double) k / 400.0 * (double) pieces);
+
+		geod_position(&line, line.s13 * k / 400.0, &lat, &lon, NULL);
+		fr_geo_to_ecef(lon, lat, g);
+		/* the piece this point belongs to, and its neighbours (rounding at the cuts) */
+		for (size_t i = near > 0 ? near - 1 : 0; i <= near + 1 && i < pieces; i++)
+			best = fmin(best, point_segment3(g, pts + 3 * i, pts + 3 * (i + 1)));
+		if (!(best <= bound))
+			fail_msg("edge (%g %g)-(%g %g), %zu pieces: geodesic point %d is %.4g m from the pieces",
+					 lon1, lat1, lon2, lat2, pieces, k, best);
+	}
+	for (size_t i = 0; i < pieces; i++)
+	{
+		double		lat,
+					lon,
+					g[3],
+					mid[3];
+
+		geod_position(&line, line.s13 * ((double) i + 0.5) / (double) pieces, &lat, &lon, NULL);
+		fr_geo_to_ecef(lon, lat, g);
+		for (int d = 0; d < 3; d++)
+			mid[d] = (pts[3 * i + d] + pts[3 * (i + 1) + d]) / 2;
+		if (!(dist3(mid, g) <= bound))
+			fail_msg("edge (%g %g)-(%g %g): piece %zu's chord is %.4g m off the geodesic", lon1, lat1,
+					 lon2, lat2, i, dist3(mid, g));
+		/* the sag bound of geodesy.c bounds the actual departure */
+		assert_true(dist3(mid, g) <= fr_geo_sag(dist3(pts + 3 * i, pts + 3 * (i + 1))) + 1e-6);
+	}
+	free(pts);
+	return pieces;
+}
+
+/*
+ * Geography edges follow the geodesic: edges of 1 m to 2,000 km in random
+ * places and directions, at the poles and across the antimeridian,
+ * against PROJ's geodesics.
+ */
+static void
+test_edges_follow_geodesics(void **state)
+{
+	size_t		most = 0;
+
+	/* worked places: along the equator, a meridian over the pole, across 180 degrees */
+	assert_int_equal(check_edge(0, 0, 0.000009, 0), 1);	/* about 1 m */
+	most = check_edge(-10, 0, 10, 0);	/* 2,226 km of the equator */
+	assert_true(most > 3000);
+	check_edge(0, 89.5, 180, 89.5);	/* over the North Pole */
+	check_edge(30, -89.9, -150, -89.95);	/* over the South Pole */
+	check_edge(179.5, 10, -179.5, 12);	/* across the antimeridian */
+	check_edge(170, -40, -175, -45);	/* across it, 1,500 km */
+	check_edge(4.3, 50.8, 0.5, 52.0);	/* a 416 km two-waypoint route (about) */
+	for (int t = 0; t < 300; t++)
+	{
+		double		lat1 = test_uniform(-90, 90),
+					lon1 = test_uniform(-180, 180),
+					len = pow(10.0, test_uniform(0.0, log10(2.0e6))),	/* 1 m .. 2,000 km */
+					azi = test_uniform(-180, 180),
+					lat2,
+					lon2;
+
+		geod_direct(&wgs84, lat1, lon1, azi, len, &lat2, &lon2, NULL);
+		check_edge(lon1, lat1, lon2, lat2);
+	}
+	print_message("# edges of 1 m to 2,000 km within %g m of their geodesics (PROJ); 2,226 km of equator: %zu pieces\n",
+				  FR_GEO_EDGE_SAG, most);
+}
+
 int
 main(void)
 {
@@ -424,6 +561,7 @@ main(void)
 		cmocka_unit_test(test_tracks_city),
 		cmocka_unit_test(test_tracks_city_geodesic),
 		cmocka_unit_test(test_tracks_continental),
+		cmocka_unit_test(test_edges_follow_geodesics),
 	};
 
 	geod_init(&wgs84, FR_WGS84_A, FR_WGS84_F);

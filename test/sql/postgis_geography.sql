@@ -79,5 +79,21 @@ FROM (SELECT a, b, frechet_distance(a, b) AS d,
 SELECT frechet_distance('SRID=4326;POINT(0 0)'::geography, 'SRID=4269;POINT(0 0)'::geography);
 
 DROP TABLE pts;
+-- Geography edges follow the geodesic.  A vessel sails a 417 km
+-- two-waypoint route (invented) exactly: its positions every 2 km come
+-- from PostGIS's ST_Project along ST_Azimuth (the direct and inverse
+-- geodesic problems on the spheroid).  Within 1 cm of the route, where a
+-- straight chord through the Earth would put it 3.4 km off.  (PostGIS's
+-- own point-to-edge distance reads an edge as a great circle of a sphere,
+-- about 11 m from the ellipsoid's geodesic here.)
+WITH r AS (SELECT 'SRID=4326;POINT(4.3 50.8)'::geography AS a, 'SRID=4326;POINT(-1.6 51.3)'::geography AS b),
+v AS (SELECT ST_MakeLine(array_agg(ST_Project(r.a, s, ST_Azimuth(r.a, r.b))::geometry ORDER BY s) || r.b::geometry)::geography AS vessel,
+             ST_MakeLine(r.a::geometry, r.b::geometry)::geography AS route, ST_Distance(r.a, r.b) AS len
+      FROM r, generate_series(0, floor(ST_Distance(r.a, r.b))::int - 1, 2000) s GROUP BY r.a, r.b)
+SELECT round(len / 1000) AS route_km, ST_NPoints(vessel::geometry) AS vessel_points,
+       frechet_distance(vessel, route) <= 0.011 AS within_1cm, frechet_at_most(vessel, route, 0.02) AS at_most_2cm,
+       NOT frechet_at_most(vessel, route, 0.005) AS not_within_half_cm
+FROM v;
+
 DROP EXTENSION frechet_ext_postgis;
 DROP EXTENSION postgis;
