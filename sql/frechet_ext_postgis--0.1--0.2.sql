@@ -544,3 +544,24 @@ LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 10;
 
 COMMENT ON FUNCTION @extschema@.frechet_track_piece(geography, pg_catalog.float8, pg_catalog.float8) IS
 'the part of a track between two positions (k + t, 1-based; a fraction of an edge''s Earth-centred chord) as a LineString, or a Point when they are equal; Z and M kept, interpolated at fractional positions';
+
+-- Geography edges now follow their geodesics (0.1: the straight chords
+-- between vertices), and the frechet_geography_ops keys summarise them: a
+-- key of 0.1 can miss the bulge of a long edge, so those indexes are
+-- rebuilt here.  One this role may not rebuild gets a WARNING saying so.
+DO $do$
+DECLARE
+	ix pg_catalog.regclass;
+BEGIN
+	FOR ix IN SELECT DISTINCT i.indexrelid::pg_catalog.regclass FROM pg_catalog.pg_index i
+		JOIN pg_catalog.pg_opclass c ON c.oid OPERATOR(pg_catalog.=) ANY (i.indclass::pg_catalog.oid[])
+		WHERE c.opcname OPERATOR(pg_catalog.=) 'frechet_geography_ops'
+		  AND c.opcnamespace OPERATOR(pg_catalog.=) '@extschema@'::pg_catalog.regnamespace
+	LOOP
+		BEGIN
+			EXECUTE pg_catalog.format('REINDEX INDEX %s', ix);
+		EXCEPTION WHEN insufficient_privilege THEN
+			RAISE WARNING 'index % was built with the keys of 0.1; run REINDEX INDEX % as its owner', ix, ix;
+		END;
+	END LOOP;
+END $do$;

@@ -102,20 +102,25 @@ if rpsql -d "$DB" -c "SELECT 1 FROM pg_available_extension_versions WHERE name =
 		-c "CREATE EXTENSION postgis" -c "CREATE EXTENSION frechet_ext VERSION '0.1'" \
 		-c "CREATE EXTENSION frechet_ext_postgis VERSION '0.1'" \
 		-c "CREATE TABLE u AS SELECT i, array[point(i % 97, i % 89), point(i % 97 + 3, i % 89 + 4)] AS tr,
-			ST_MakeLine(ST_MakePoint(i % 97, i % 89), ST_MakePoint(i % 97 + 3, i % 89 + 4)) AS g FROM generate_series(1, 5000) i" \
+			ST_MakeLine(ST_MakePoint(i % 97, i % 89), ST_MakePoint(i % 97 + 3, i % 89 + 4)) AS g,
+			ST_MakeLine(ST_MakePoint(i % 97 * 0.01, 50 + i % 89 * 0.01), ST_MakePoint(i % 97 * 0.01 + 0.9, 50.2 + i % 89 * 0.01))::geography AS gg
+			FROM generate_series(1, 5000) i" \
 		-c "CREATE INDEX u_tr ON u USING gist (tr)" -c "CREATE INDEX u_g ON u USING gist (g frechet_geometry_ops)" \
+		-c "CREATE INDEX u_gg ON u USING gist (gg frechet_geography_ops)" \
 		-c "ALTER EXTENSION frechet_ext UPDATE" -c "ALTER EXTENSION frechet_ext_postgis UPDATE" \
 		-c "CREATE TEMP TABLE q AS SELECT 'tr' AS what, array_agg(i ORDER BY i) AS ids FROM u WHERE frechet_at_most(tr, '{\"(10,10)\",\"(13,14)\"}', 2)
 			UNION ALL SELECT 'g', array_agg(i ORDER BY i) FROM u WHERE frechet_at_most(g, 'LINESTRING(10 10, 13 14)'::geometry, 2)
-			UNION ALL SELECT 'knn', array_agg(i) FROM (SELECT i FROM u ORDER BY g <~~> 'LINESTRING(10 10, 13 14)'::geometry, i LIMIT 5) k" \
+			UNION ALL SELECT 'knn', array_agg(i) FROM (SELECT i FROM u ORDER BY g <~~> 'LINESTRING(10 10, 13 14)'::geometry, i LIMIT 5) k
+			UNION ALL SELECT 'gg', array_agg(i ORDER BY i) FROM u WHERE frechet_at_most(gg, 'LINESTRING(0.1 50.1, 1.0 50.3)'::geography, 300)" \
 		-c "SET enable_indexscan = off" -c "SET enable_bitmapscan = off" \
 		-c "SELECT count(*) FILTER (WHERE q.ids = s.ids) || ' of ' || count(*) FROM q JOIN (
 			SELECT 'tr' AS what, array_agg(i ORDER BY i) AS ids FROM u WHERE frechet_at_most(tr, '{\"(10,10)\",\"(13,14)\"}', 2)
 			UNION ALL SELECT 'g', array_agg(i ORDER BY i) FROM u WHERE frechet_at_most(g, 'LINESTRING(10 10, 13 14)'::geometry, 2)
-			UNION ALL SELECT 'knn', array_agg(i) FROM (SELECT i FROM u ORDER BY frechet_distance(g, 'LINESTRING(10 10, 13 14)'::geometry), i LIMIT 5) k) s USING (what)
+			UNION ALL SELECT 'knn', array_agg(i) FROM (SELECT i FROM u ORDER BY frechet_distance(g, 'LINESTRING(10 10, 13 14)'::geometry), i LIMIT 5) k
+			UNION ALL SELECT 'gg', array_agg(i ORDER BY i) FROM u WHERE frechet_at_most(gg, 'LINESTRING(0.1 50.1, 1.0 50.3)'::geography, 300)) s USING (what)
 			WHERE cardinality(q.ids) > 0" 2>&1 | tail -1)
-	if [ "$got" = "3 of 3" ]; then
-		tap 0 "upgrade: indexes built under 0.1 (point[] and geometry) give a sequential scan's answers after the update"
+	if [ "$got" = "4 of 4" ]; then
+		tap 0 "upgrade: indexes built under 0.1 (point[], geometry, geography: rebuilt by the update) give a sequential scan's answers after the update"
 	else
 		tap 1 "upgrade: indexes built under 0.1 after the update: $got of the queries equal a sequential scan"
 	fi
