@@ -24,6 +24,7 @@
 #include <geos_c.h>
 
 #include "frechet.h"
+#include "geodesy.h"
 
 #define BENCH_PI 3.14159265358979323846
 
@@ -958,6 +959,76 @@ print_progress(const row_result *rows, size_t nrows)
 	table_free(&t);
 }
 
+/*
+ * The price of geodesic geography edges on tracks whose edges are short
+ * (the gps pairs read as metres east and north of 52 N 1 W): the check
+ * that leaves such edges alone (fr_geo_edge_pieces, one chord length an
+ * edge, after the lon/lat -> ECEF conversion that was always done),
+ * against fr_distance on the pair, in the same run.
+ */
+static void
+print_geodesic_check(const row_result *rows, size_t nrows, const bench_opts *opts)
+{
+	text_table	t = {6, 0, 1, NULL};
+	table_cell *c = table_add_row(&t);
+
+	snprintf(c[0], CELL_LEN, "pair");
+	snprintf(c[1], CELL_LEN, "n");
+	snprintf(c[2], CELL_LEN, "edges cut");
+	snprintf(c[3], CELL_LEN, "check ms");
+	snprintf(c[4], CELL_LEN, "fr_distance ms");
+	snprintf(c[5], CELL_LEN, "check/distance");
+	for (size_t s = 0; s < opts->nsizes; s++)
+	{
+		pair_data	pd;
+		size_t		n,
+					cut = 0;
+		double	   *ll,
+				   *xyz,
+					best = INFINITY;
+		const row_result *r = NULL;
+
+		for (size_t i = 0; i < nrows; i++)
+			if (rows[i].kind == KIND_GPS && rows[i].n >= opts->sizes[s] * 9 / 10 &&
+				rows[i].n <= opts->sizes[s] * 11 / 10 && r == NULL)
+				r = &rows[i];
+		if (r == NULL || isnan(r->ms_distance))
+			continue;
+		make_pair(&pd, KIND_GPS, opts->sizes[s], opts->seed);
+		n = pd.p.n;
+		ll = malloc(2 * n * sizeof(double));
+		xyz = malloc(3 * n * sizeof(double));
+		for (size_t i = 0; i < n; i++)
+		{
+			ll[2 * i] = -1.0 + pd.p.coords[2 * i] / (111320.0 * cos(52.0 * 3.14159265358979 / 180.0));
+			ll[2 * i + 1] = 52.0 + pd.p.coords[2 * i + 1] / 111200.0;
+		}
+		for (int rep = 0; rep < 5; rep++)
+		{
+			double		start = now_sec();
+
+			cut = 0;
+			for (size_t i = 0; i < n; i++)
+				fr_geo_to_ecef(ll[2 * i], ll[2 * i + 1], xyz + 3 * i);
+			for (size_t i = 0; i + 1 < n; i++)
+				cut += fr_geo_edge_pieces(ll + 2 * i, ll + 2 * i + 2, xyz + 3 * i, xyz + 3 * i + 3) > 1;
+			best = fmin(best, now_sec() - start);
+		}
+		c = table_add_row(&t);
+		snprintf(c[0], CELL_LEN, "gps");
+		snprintf(c[1], CELL_LEN, "%zu", n);
+		snprintf(c[2], CELL_LEN, "%zu", cut);
+		fmt_ms(c[3], best * 1e3);
+		fmt_ms(c[4], r->ms_distance);
+		fmt_ratio(c[5], best * 1e3, r->ms_distance);
+		free(ll);
+		free(xyz);
+		free_pair(&pd);
+	}
+	table_print(&t);
+	table_free(&t);
+}
+
 /* Prints decider throughput on the adversarial pairs, in cells and in n*m per second. */
 static void
 print_throughput(const row_result *rows, size_t nrows)
@@ -1196,6 +1267,9 @@ run_benchmark(void *arg)
 	printf("\nA trip in progress (fr_progress on the trip's first half, at 1.05d) beside\n"
 		   "fr_decide on the whole pair at 1.05d, in the same run:\n\n");
 	print_progress(rows, nrows);
+	printf("\nGeography edges follow their geodesics: the check on short edges (the gps\n"
+		   "pairs as lon/lat tracks) beside fr_distance on the pair, in the same run:\n\n");
+	print_geodesic_check(rows, nrows, opts);
 	free(rows);
 	return NULL;
 }
