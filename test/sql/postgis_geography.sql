@@ -78,6 +78,30 @@ FROM (SELECT a, b, frechet_distance(a, b) AS d,
 -- ERROR (see postgis_ewkb).  Mixed SRIDs are an ERROR here too.
 SELECT frechet_distance('SRID=4326;POINT(0 0)'::geography, 'SRID=4269;POINT(0 0)'::geography);
 
+-- Long edges (50-70 km, each cut along its geodesic into about 90
+-- pieces): the matching's positions are on the input's vertices (k + t,
+-- t the share of the edge's geodesic), non-decreasing, and its points are
+-- the points of frechet_track_piece at those positions; every leash is
+-- PostGIS's spheroidal ST_Distance between its points (within 1e-5 and
+-- 5 cm, leashes up to about 150 km).
+SELECT setseed(0.3);
+CREATE TABLE lp AS
+SELECT k, ST_MakeLine(array(SELECT ST_MakePoint(10 + i * 0.6 + random() * 0.2, 45 + random() * 0.3) FROM generate_series(0, 3 + k % 4) i))::geography AS a,
+          ST_MakeLine(array(SELECT ST_MakePoint(10 + i * 0.9 + random() * 0.2, 45.1 + random() * 0.3) FROM generate_series(0, 2 + k % 3) i))::geography AS b
+FROM generate_series(1, 10) k;
+SELECT count(*) > 3000 AS many_breakpoints,
+       count(*) FILTER (WHERE ST_Distance(m.a_point, frechet_track_piece(lp.a, m.a_pos, m.a_pos), false) < 1e-6
+                          AND ST_Distance(m.b_point, frechet_track_piece(lp.b, m.b_pos, m.b_pos), false) < 1e-6)
+       = count(*) AS points_at_positions,
+       count(*) FILTER (WHERE abs(m.leash - ST_Distance(m.a_point, m.b_point, true)) <= 1e-5 * m.leash + 0.05)
+       = count(*) AS leashes_are_postgis_distances,
+       count(*) FILTER (WHERE m.a_pos <> floor(m.a_pos)) > count(*) / 2 AS mostly_between_vertices
+FROM lp, frechet_matching(lp.a, lp.b) m;
+SELECT bool_and(ok) AS positions_monotone FROM (
+  SELECT m.a_pos >= lag(m.a_pos, 1, 1.0) OVER w AND m.b_pos >= lag(m.b_pos, 1, 1.0) OVER w AS ok
+  FROM lp, frechet_matching(lp.a, lp.b) m WINDOW w AS (PARTITION BY lp.k ORDER BY m.step)) s;
+DROP TABLE lp;
+
 DROP TABLE pts;
 -- Geography edges follow the geodesic.  A vessel sails a 417 km
 -- two-waypoint route (invented) exactly: its positions every 2 km come
