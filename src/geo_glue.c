@@ -477,13 +477,10 @@ geo_datum_track(postgis_calls *calls, Datum g, bool geodetic, track_report *rep,
 	out->dim = c.dim;
 	if (geodetic)
 	{
-		size_t	   *first;
-		bool		ok = lonlat_track(&c, rep, true, out, &first);
+		bool		ok = geo_lonlat_engine(&c, rep, out);
 
 		pfree(c.coords);
 		rep->start = NULL;
-		if (first)
-			pfree(first);
 		return ok;
 	}
 	return true;
@@ -606,16 +603,14 @@ output_point(const geo_curves *gc, int which, double pos, geo_layout l, double *
 		out[at++] = value_at(orig->m, 1, orig->n, pos);
 }
 
-/* The time (M) at position pos of curve which; false when it has no M. */
-bool
-geo_time_at(const geo_curves *gc, int which, double pos, double *time)
+/* The time (M) at input position pos of curve which, as a float8 Datum; *isnull without M. */
+Datum
+geo_time_datum(const geo_curves *gc, int which, double pos, bool *isnull)
 {
 	const ewkb_curve *orig = which ? &gc->b : &gc->a;
 
-	if (orig->m == NULL)
-		return false;
-	*time = value_at(orig->m, 1, orig->n, pos);
-	return true;
+	*isnull = orig->m == NULL;
+	return Float8GetDatum(*isnull ? 0.0 : value_at(orig->m, 1, orig->n, pos));
 }
 
 /*

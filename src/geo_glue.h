@@ -51,7 +51,7 @@ double		geo_pos_in(const geo_curves *gc, int which, double pos);
 bool		geo_lonlat_engine(const ewkb_curve *c, track_report *rep, fr_curve *out);
 Datum		geo_vertices_datum(FunctionCallInfo fcinfo, const geo_curves *gc,
 							   const size_t *keep, size_t count);
-bool		geo_time_at(const geo_curves *gc, int which, double pos, double *time);
+Datum		geo_time_datum(const geo_curves *gc, int which, double pos, bool *isnull);
 void		geo_check_times(const geo_curves *gc, int which);
 Datum		geo_point_datum(FunctionCallInfo fcinfo, const geo_curves *gc, int which, double pos);
 Datum		geo_subline_datum(FunctionCallInfo fcinfo, const geo_curves *gc, int which,

@@ -188,7 +188,6 @@ excursion_rows(FunctionCallInfo fcinfo, bool geodetic)
 	{
 		Datum		values[10];
 		bool		nulls[10] = {false};
-		double		time;
 
 		/* positions on the inputs' vertices (geography edges may have been cut) */
 		copy[k].trip_from = geo_pos_in(&gc, 0, copy[k].trip_from);
@@ -206,10 +205,8 @@ excursion_rows(FunctionCallInfo fcinfo, bool geodetic)
 		values[6] = geo_subline_datum(fcinfo, &gc, 0, copy[k].trip_from, copy[k].trip_to);
 		values[7] = Float8GetDatum(copy[k].route_length);
 		/* the trip's M (time) where the stretch begins and ends; NULL without M */
-		nulls[8] = !geo_time_at(&gc, 0, copy[k].trip_from, &time);
-		values[8] = Float8GetDatum(nulls[8] ? 0 : time);
-		nulls[9] = !geo_time_at(&gc, 0, copy[k].trip_to, &time);
-		values[9] = Float8GetDatum(nulls[9] ? 0 : time);
+		values[8] = geo_time_datum(&gc, 0, copy[k].trip_from, &nulls[8]);
+		values[9] = geo_time_datum(&gc, 0, copy[k].trip_to, &nulls[9]);
 		tuplestore_putvalues(rsinfo->setResult, rsinfo->setDesc, values, nulls);
 	}
 	return (Datum) 0;

@@ -48,6 +48,8 @@ ping_decode(FunctionCallInfo fcinfo, ping_input input, int gap_argno, ping_args 
 		point_array_curve(PG_GETARG_ARRAYTYPE_P(0), 1, &pa->trip);
 		point_array_curve(PG_GETARG_ARRAYTYPE_P(1), 2, &pa->route);
 		pa->geodetic = false;
+		/* no cut edges: positions map to themselves (geo_pos_in) */
+		pa->gc.first_a = pa->gc.first_b = NULL;
 	}
 	else
 	{
@@ -244,22 +246,19 @@ pings_excursions(FunctionCallInfo fcinfo, ping_input input)
 		{
 			Datum		values[9];
 			bool		nulls[9] = {false};
-			double		time;
 
 			values[0] = Int32GetDatum((int32) x[k].trip_from + 1);
 			values[1] = Int32GetDatum((int32) x[k].trip_to + 1);
-			values[2] = Float8GetDatum((input == PING_POINTS ? x[k].route_from : geo_pos_in(&pa.gc, 1, x[k].route_from)) + 1);
-			values[3] = Float8GetDatum((input == PING_POINTS ? x[k].route_to : geo_pos_in(&pa.gc, 1, x[k].route_to)) + 1);
+			values[2] = Float8GetDatum(geo_pos_in(&pa.gc, 1, x[k].route_from) + 1);
+			values[3] = Float8GetDatum(geo_pos_in(&pa.gc, 1, x[k].route_to) + 1);
 			values[4] = Float8GetDatum(pa.geodetic ? fr_chord_to_metres(x[k].max_leash) : x[k].max_leash);
 			values[5] = Float8GetDatum(x[k].trip_length);
 			values[6] = Float8GetDatum(x[k].route_length);
 			if (input != PING_POINTS)
 			{
 				/* the times of the run's first and last pings; NULL without M */
-				nulls[7] = !geo_time_at(&pa.gc, 0, x[k].trip_from, &time);
-				values[7] = Float8GetDatum(nulls[7] ? 0 : time);
-				nulls[8] = !geo_time_at(&pa.gc, 0, x[k].trip_to, &time);
-				values[8] = Float8GetDatum(nulls[8] ? 0 : time);
+				values[7] = geo_time_datum(&pa.gc, 0, x[k].trip_from, &nulls[7]);
+				values[8] = geo_time_datum(&pa.gc, 0, x[k].trip_to, &nulls[8]);
 			}
 			tuplestore_putvalues(rsinfo->setResult, rsinfo->setDesc, values, nulls);
 		}
