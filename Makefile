@@ -9,12 +9,25 @@ EXTVERSION = 0.2
 CORE_OBJS = src/core/freespace.o src/core/reach.o src/core/decide.o src/core/distance.o \
 	src/core/discrete.o src/core/matching.o src/core/partial.o \
 	src/core/excursions.o src/core/prune.o src/core/simplify.o src/core/pings.o \
-	src/core/progress.o
-OBJS = $(CORE_OBJS) src/frechet_ext.o src/point_array.o src/track_report.o src/witness.o
+	src/core/progress.o src/core/bounds.o src/core/geodesy.o
 
-# Index: cheap bounds in the engine, GiST operator class, planner support.
-CORE_OBJS += src/core/bounds.o
-OBJS += src/track_key.o src/gist.o src/support.o
+# The glue, in layers (DEVELOPERS.md, "Layers of the glue"); a layer calls
+# only the layers before it, which test/reliability/glue_layers.sh checks.
+GLUE_BASE_OBJS = src/glue/module.o src/glue/track_report.o src/glue/srf.o src/glue/track_units.o
+POINTS_OBJS = src/pg/point_array.o src/pg/points.o
+POSTGIS_OBJS = src/postgis/ewkb.o src/postgis/postgis.o src/postgis/ewkb_out.o \
+	src/postgis/box_strategies.o
+TRACK_OBJS = src/track/track.o
+INDEX_OBJS = src/index/key.o src/index/gist.o src/index/support.o
+FUNCTION_OBJS = src/functions/distance.o src/functions/explain.o src/functions/simplify.o \
+	src/functions/piece.o src/functions/check.o src/functions/geojson.o \
+	src/functions/pings.o src/functions/progress.o
+OBJS = $(CORE_OBJS) $(GLUE_BASE_OBJS) $(POINTS_OBJS) $(POSTGIS_OBJS) $(TRACK_OBJS) \
+	$(INDEX_OBJS) $(FUNCTION_OBJS)
+GLUE_DIRS = glue pg postgis track index functions
+
+# geography edges follow the geodesic: PROJ's geodesic routines (Karney 2013)
+SHLIB_LINK += -lproj
 
 DATA_built = sql/frechet_ext--$(EXTVERSION).sql
 EXTRA_CLEAN = sql/frechet_ext--$(EXTVERSION).sql test/core/*.bin \
@@ -25,28 +38,16 @@ REGRESS_OPTS = --inputdir=test --load-extension=frechet_ext
 
 PG_CFLAGS = -Wall -Wextra -Wno-unused-parameter -Wno-missing-field-initializers \
 	-Wno-sign-compare -Werror=implicit-function-declaration
-PG_CPPFLAGS = -I$(srcdir)/src/core
+PG_CPPFLAGS = -I$(srcdir)/src/core $(patsubst %,-I$(srcdir)/src/%,$(GLUE_DIRS))
 
 # PostGIS layer: a second extension, frechet_ext_postgis, whose C functions
-# live in the same library (EWKB decoding, geodesy, planner support; no
-# PostGIS headers, no PostGIS link).  Its pg_regress files are named
-# postgis_*.sql and run only where PostGIS is installed.
+# live in the same library (src/postgis: EWKB decoding and encoding,
+# PostGIS's box strategies; no PostGIS headers, no PostGIS link).  Its
+# pg_regress files are named postgis_*.sql and run only where PostGIS is
+# installed.
 EXTENSION += frechet_ext_postgis
-CORE_OBJS += src/core/geodesy.o
-# geography edges follow the geodesic: PROJ's geodesic routines (Karney 2013)
-SHLIB_LINK += -lproj
-OBJS += src/ewkb.o src/geo_glue.o src/geo_witness.o
 DATA_built += sql/frechet_ext_postgis--$(EXTVERSION).sql
 EXTRA_CLEAN += sql/frechet_ext_postgis--$(EXTVERSION).sql
-
-# k-nearest and range queries on geometry and geography through our own
-# GiST operator classes (frechet_geometry_ops, frechet_geography_ops).
-OBJS += src/geo_gist.o
-# Maps and dashboards: track pieces and GeoJSON (SQL bodies in the install
-# scripts); frechet_track_check, the bad-row filter of batches.
-OBJS += src/track_piece.o src/track_check.o src/geojson_glue.o
-# Sparse pings matched in order to a route, and trips in progress, on every input type.
-OBJS += src/ping_glue.o src/progress_glue.o
 
 # Debian installs several majors side by side; prefer 15, the supported one.
 PG_CONFIG ?= $(firstword $(wildcard /usr/lib/postgresql/15/bin/pg_config) pg_config)
@@ -55,7 +56,7 @@ include $(PGXS)
 
 # PGXS tracks no header dependencies: a change to a header (a struct's
 # layout, say) must rebuild every object and JIT bitcode file that sees it.
-$(OBJS) $(OBJS:.o=.bc): $(wildcard src/core/*.h) $(wildcard src/*.h)
+$(OBJS) $(OBJS:.o=.bc): $(wildcard src/core/*.h) $(wildcard src/*/*.h)
 
 sql/frechet_ext--$(EXTVERSION).sql: sql/frechet_ext.sql
 	cp $< $@
@@ -114,14 +115,14 @@ FUZZ_CC = clang
 FUZZ_CFLAGS = -std=gnu11 -g -O1 -fsanitize=fuzzer,address,undefined \
 	-fno-sanitize-recover=all -fno-omit-frame-pointer -Wall -Wextra \
 	-Wno-unused-parameter -Wno-ignored-attributes -Wno-sign-compare \
-	-Isrc/core -Isrc -Itest/fuzz
+	-Isrc/core -Isrc/glue -Isrc/pg -Isrc/postgis -Itest/fuzz
 PG_INCLUDEDIR_SERVER := $(shell $(PG_CONFIG) --includedir-server)
 # FUZZ_STRICT=1 also checks the properties of known, reported engine bugs
 # (see the top of test/fuzz/fuzz_engine.c).
 FUZZ_CFLAGS += $(if $(FUZZ_STRICT),-DFUZZ_STRICT)
 FUZZ_TARGETS = $(patsubst %.c,%.bin,$(wildcard test/fuzz/fuzz_*.c))
-FUZZ_GLUE_fuzz_point_array = src/point_array.c src/track_report.c
-FUZZ_GLUE_fuzz_ewkb = src/ewkb.c src/track_report.c
+FUZZ_GLUE_fuzz_point_array = src/pg/point_array.c src/glue/track_report.c
+FUZZ_GLUE_fuzz_ewkb = src/postgis/ewkb.c src/glue/track_report.c
 
 # The engine's work is floating point: comparison tracing (trace-cmp) would
 # cost two thirds of the time and guide little, so it is off there.
@@ -133,7 +134,7 @@ ENGINE_FUZZ = fuzz_engine fuzz_witness fuzz_index fuzz_pings
 $(patsubst %,test/fuzz/%.bin,$(ENGINE_FUZZ)): test/fuzz/%.bin: test/fuzz/%.c test/fuzz/fuzz_case.h $(CORE_SRC) src/core/*.h
 	$(FUZZ_CC) $(FUZZ_CFLAGS) -O2 -fno-sanitize-coverage=trace-cmp -o $@ $< $(CORE_SRC) -lproj -lm
 
-test/fuzz/fuzz_%.bin: test/fuzz/fuzz_%.c test/fuzz/pg_stubs.c test/fuzz/pg_stubs.h src/*.c src/*.h $(CORE_SRC) src/core/*.h
+test/fuzz/fuzz_%.bin: test/fuzz/fuzz_%.c test/fuzz/pg_stubs.c test/fuzz/pg_stubs.h src/*/*.c src/*/*.h $(CORE_SRC)
 	$(FUZZ_CC) $(FUZZ_CFLAGS) -I$(PG_INCLUDEDIR_SERVER) -o $@ $< test/fuzz/pg_stubs.c $(FUZZ_GLUE_fuzz_$*) -lproj -lm
 
 # Engine unit tests built with AddressSanitizer and UndefinedBehaviorSanitizer.

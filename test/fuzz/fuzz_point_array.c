@@ -32,6 +32,7 @@
 #include "utils/geo_decls.h"
 
 #include "glue.h"
+#include "points.h"
 #include "pg_stubs.h"
 
 #undef snprintf

@@ -1,12 +1,17 @@
 /*
- * geojson_glue.c - two helpers of the GeoJSON functions (whose bodies are
- * SQL, in the install scripts): the caller's feature properties, checked,
- * and which leashes of a long matching are drawn under a cap.
+ * geojson.c - helpers of the GeoJSON functions (whose bodies are SQL, in
+ * the install scripts): the caller's feature properties, checked, which
+ * leashes of a long matching are drawn under a cap, the times (M) of a
+ * track's vertices, and the SRID check of a geometry.
  */
 #include "postgres.h"
 
 #include "fmgr.h"
+#include "catalog/pg_type.h"
+#include "utils/array.h"
 #include "utils/jsonb.h"
+
+#include "track.h"
 
 PG_FUNCTION_INFO_V1(frechet_geojson_properties);
 /*
@@ -77,4 +82,50 @@ frechet_geojson_leash_drawn(PG_FUNCTION_ARGS)
 		PG_RETURN_BOOL(false);
 	PG_RETURN_BOOL(step == 1 ||
 				   ((step - 1) * (cap - 1)) / total != ((step - 2) * (cap - 1)) / total);
+}
+
+/*
+ * frechet_geojson_times(track, argno): the M (time) of each vertex for the
+ * GeoJSON functions, checked as time in the words of an ERROR that names
+ * argument argno of the caller; NULL when the track has no M.
+ */
+static Datum
+geojson_times(FunctionCallInfo fcinfo, track_type type)
+{
+	glue_track	t;
+	track_report rep = {.argno = PG_GETARG_INT32(1)};
+	Datum	   *elems;
+
+	track_decode_arg(fcinfo, 0, type, 0, &t);
+	if (t.in.m == NULL)
+		PG_RETURN_NULL();
+	track_input_check_times(&t.in, &rep);
+	elems = palloc(sizeof(Datum) * t.in.n);
+	for (size_t k = 0; k < t.in.n; k++)
+		elems[k] = Float8GetDatum(t.in.m[k]);
+	PG_RETURN_ARRAYTYPE_P(construct_array(elems, (int) t.in.n, FLOAT8OID, sizeof(float8),
+										  FLOAT8PASSBYVAL, TYPALIGN_DOUBLE));
+}
+
+TRACK_FUNCTIONS_POSTGIS(frechet_geojson_times, geojson_times)
+
+PG_FUNCTION_INFO_V1(frechet_geojson_check_srid);
+/*
+ * frechet_geojson_check_srid(srid, known): true, or 22023 when the SRID of
+ * a geometry that GeoJSON needs in WGS84 is not in spatial_ref_sys (known
+ * is whether it is), so ST_Transform could only fail with an internal
+ * error.  Used by frechet_geometry_geojson.
+ */
+Datum
+frechet_geojson_check_srid(PG_FUNCTION_ARGS)
+{
+	int32		srid = PG_GETARG_INT32(0);
+
+	if (!PG_GETARG_BOOL(1))
+		ereport(ERROR,
+				(errcode(ERRCODE_INVALID_PARAMETER_VALUE),
+				 errmsg("cannot write GeoJSON of a geometry with SRID %d", srid),
+				 errdetail("GeoJSON needs WGS84 longitude and latitude, and SRID %d is not in spatial_ref_sys, so the geometry cannot be transformed.", srid),
+				 errhint("Add the SRID's definition to spatial_ref_sys, or use ST_SetSRID(g, 0) to write the coordinates as stored.")));
+	PG_RETURN_BOOL(true);
 }

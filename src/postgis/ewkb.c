@@ -469,36 +469,3 @@ ewkb_decode_quiet(const uint8 *buf, size_t len, ewkb_curve *out)
 		pfree(rep.problem);
 	return ok;
 }
-
-/*
- * M read as time (the trajectory convention of PostGIS, seconds): finite,
- * and never decreasing from one vertex to the next.  A fault goes to rep
- * in the words of the ERROR the time-reporting functions raise.
- */
-bool
-ewkb_check_times(const ewkb_curve *c, track_report *rep)
-{
-	static const char hint[] =
-		"M is read as the time of each vertex (seconds, increasing along the track); "
-		"ST_Force2D or ST_Force3DZ drops M for the functions that do not need it.";
-
-	if (c->m == NULL)
-		return true;
-	rep->start = c->coords;
-	rep->dim = c->dim;
-	rep->n = c->n;
-	for (size_t i = 0; i < c->n; i++)
-	{
-		if (!isfinite(c->m[i]))
-			return track_problem(rep, ERRCODE_INVALID_PARAMETER_VALUE, hint,
-								 "M values (times) must be finite",
-								 "M %g at vertex %zu", c->m[i], i + 1);
-		if (i > 0 && c->m[i] < c->m[i - 1])
-			return track_problem(rep, ERRCODE_INVALID_PARAMETER_VALUE, hint,
-								 "M values (times) must not decrease along the track",
-								 "M %.15g at vertex %zu after M %.15g at vertex %zu",
-								 c->m[i], i + 1, c->m[i - 1], i);
-	}
-	rep->start = NULL;
-	return true;
-}

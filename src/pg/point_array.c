@@ -11,7 +11,7 @@
 #include "utils/array.h"
 #include "utils/geo_decls.h"
 
-#include "glue.h"
+#include "points.h"
 
 /* Rejects arrays that are not one-dimensional and non-empty. */
 static bool

@@ -1,5 +1,7 @@
 /*
- * gist.c - the GiST operator class frechet_track_ops on point[].
+ * gist.c - the GiST operator classes: frechet_track_ops on point[],
+ * frechet_geometry_ops and frechet_geography_ops, one implementation for
+ * the three (only compress and distance decode, through the track layer).
  *
  * Each entry is a frechet_key: for a leaf, the summary of one track (first
  * vertex, last vertex, bounding box); for an inner node, the ranges those
@@ -18,26 +20,21 @@
 #include "utils/float.h"
 #include "utils/memutils.h"
 
-#include "glue.h"
 #include "index.h"
+#include "postgis.h"
 
-PG_FUNCTION_INFO_V1(frechet_gist_compress);
-/* Leaf entries: the summary of the track (invalid tracks: the all-covering key). */
-Datum
-frechet_gist_compress(PG_FUNCTION_ARGS)
+/* GiST compress: leaf entries become the summary of their track (invalid ones: the all-covering key). */
+static Datum
+gist_compress(FunctionCallInfo fcinfo, track_type type)
 {
 	GISTENTRY  *entry = (GISTENTRY *) PG_GETARG_POINTER(0);
 	GISTENTRY  *out;
-	ArrayType  *arr;
 	fr_key	   *key;
 
 	if (!entry->leafkey)
 		PG_RETURN_POINTER(entry);
-	arr = DatumGetArrayTypeP(entry->key);
 	key = palloc(sizeof(fr_key));
-	track_key_of_array(arr, key);
-	if ((Pointer) arr != DatumGetPointer(entry->key))
-		pfree(arr);
+	track_stored_key(track_calls(fcinfo, type), entry->key, type, key);
 	out = palloc(sizeof(GISTENTRY));
 	gistentryinit(*out, PointerGetDatum(key), entry->rel, entry->page, entry->offset, false);
 	PG_RETURN_POINTER(out);
@@ -273,12 +270,13 @@ frechet_gist_same(PG_FUNCTION_ARGS)
 }
 
 /*
- * The query route of a k-nearest scan, decoded once: its summary and its
- * convex hull.  Kept in fn_extra and reused while the query value has the
- * same bytes (a new value, after a rescan, is decoded again).
+ * The query route of a k-nearest scan, decoded once: its summary and the
+ * convex hull of its x,y.  Kept in fn_extra and reused while the query
+ * value has the same bytes (a new value, after a rescan, is decoded again).
  */
 typedef struct route_cache
 {
+	struct postgis_calls *calls;	/* PostGIS types: look-ups in fn_mcxt */
 	Size		rawlen;
 	char	   *raw;			/* the query datum's bytes, as passed */
 	fr_key		key;
@@ -288,38 +286,41 @@ typedef struct route_cache
 
 /* The decoded query route, from the cache when its bytes are unchanged. */
 static route_cache *
-route_cache_get(FunctionCallInfo fcinfo, Datum query)
+route_cache_get(FunctionCallInfo fcinfo, Datum query, track_type type)
 {
 	route_cache *rc = (route_cache *) fcinfo->flinfo->fn_extra;
 	struct varlena *raw = (struct varlena *) DatumGetPointer(query);
 	Size		rawlen = VARSIZE_ANY(raw);
 	bool		cacheable = !VARATT_IS_EXTERNAL_EXPANDED(raw);
+	/* the route is the right operand of track <-> route: argument 2 */
+	track_report rep = {.argno = 2};
 	MemoryContext old;
-	ArrayType  *arr;
-	fr_curve	c;
+	glue_track	t;
 	double	   *sorted;
 
 	if (rc != NULL && cacheable && rc->raw != NULL &&
 		rc->rawlen == rawlen && memcmp(rc->raw, raw, rawlen) == 0)
 		return rc;
 	if (rc == NULL)
+	{
 		rc = MemoryContextAllocZero(fcinfo->flinfo->fn_mcxt, sizeof(route_cache));
+		if (track_type_postgis(type))
+			rc->calls = geo_postgis_calls_new(fcinfo->flinfo->fn_mcxt);
+		fcinfo->flinfo->fn_extra = rc;
+	}
 	if (rc->raw != NULL)
 		pfree(rc->raw);
 	if (rc->hull != NULL)
 		pfree(rc->hull);
 	rc->raw = NULL;
 	rc->hull = NULL;
-	fcinfo->flinfo->fn_extra = rc;
 
-	arr = DatumGetArrayTypeP(query);
-	/* the route is the right operand of track <-> route: argument 2 */
-	point_array_curve(arr, 2, &c);
-	fr_key_of_curve(&c, &rc->key);
+	track_decode_value(rc->calls, query, type, TRACK_GEODESIC, &rep, &t);
+	track_key_of(&t, &rc->key);
 	old = MemoryContextSwitchTo(fcinfo->flinfo->fn_mcxt);
-	sorted = palloc(2 * c.n * sizeof(double));
-	rc->hull = palloc(4 * c.n * sizeof(double));
-	rc->nhull = fr_convex_hull(&c, sorted, rc->hull);
+	sorted = palloc(2 * t.curve.n * sizeof(double));
+	rc->hull = palloc(4 * t.curve.n * sizeof(double));
+	rc->nhull = fr_convex_hull(&t.curve, sorted, rc->hull);
 	pfree(sorted);
 	if (cacheable)
 	{
@@ -328,29 +329,47 @@ route_cache_get(FunctionCallInfo fcinfo, Datum query)
 		rc->rawlen = rawlen;
 	}
 	MemoryContextSwitchTo(old);
-	if ((Pointer) arr != DatumGetPointer(query))
-		pfree(arr);
+	track_free(&t);
 	return rc;
 }
 
-PG_FUNCTION_INFO_V1(frechet_gist_distance);
 /*
- * A lower bound of the Fréchet distance from the query route to every
- * track under the entry; on leaves the executor rechecks with the exact
- * distance and reorders.
+ * GiST distance: a lower bound of the Fréchet distance from the query
+ * route to every track under the entry (metres for geography); the
+ * executor rechecks leaves with the exact distance and reorders.
  */
-Datum
-frechet_gist_distance(PG_FUNCTION_ARGS)
+static Datum
+gist_distance(FunctionCallInfo fcinfo, track_type type)
 {
 	GISTENTRY  *entry = (GISTENTRY *) PG_GETARG_POINTER(0);
 	StrategyNumber strategy = (StrategyNumber) PG_GETARG_UINT16(2);
 	bool	   *recheck = (bool *) PG_GETARG_POINTER(4);
 	route_cache *rc;
+	double		d;
 
 	if (strategy != FRECHET_STRATEGY_DISTANCE)
-		elog(ERROR, "frechet_track_ops: unknown ordering strategy number %d", strategy);
-	rc = route_cache_get(fcinfo, PG_GETARG_DATUM(1));
+		elog(ERROR, "Fréchet operator classes: unknown ordering strategy number %d", strategy);
+	rc = route_cache_get(fcinfo, PG_GETARG_DATUM(1), type);
 	*recheck = true;
-	PG_RETURN_FLOAT8(fr_key_hull_bound(DatumGetFrechetKey(entry->key), &rc->key,
-									   rc->hull, rc->nhull));
+	d = fr_key_hull_bound(DatumGetFrechetKey(entry->key), &rc->key, rc->hull, rc->nhull);
+	/* metres grow with the chord, so a lower bound of the chord gives one of the metres */
+	PG_RETURN_FLOAT8(track_out_distance(type, d));
 }
+
+/* The support functions that decode: one per operator class (frechet_track_ops has no suffix). */
+PG_FUNCTION_INFO_V1(frechet_gist_compress);
+Datum
+frechet_gist_compress(PG_FUNCTION_ARGS)
+{
+	return gist_compress(fcinfo, TRACK_POINTS);
+}
+
+PG_FUNCTION_INFO_V1(frechet_gist_distance);
+Datum
+frechet_gist_distance(PG_FUNCTION_ARGS)
+{
+	return gist_distance(fcinfo, TRACK_POINTS);
+}
+
+TRACK_FUNCTIONS_POSTGIS(frechet_gist_compress, gist_compress)
+TRACK_FUNCTIONS_POSTGIS(frechet_gist_distance, gist_distance)

@@ -1,7 +1,7 @@
 /*
- * index.h - shared pieces of the index glue: the frechet_key SQL type, the
- * strategy numbers of the GiST operator class, and track decoding that
- * never fails (for index keys of rows whose track is invalid).
+ * index.h - the index layer (src/index), one for every track type: the
+ * frechet_key SQL type, the strategy numbers of the GiST operator classes,
+ * and the summaries of tracks decoded by the track layer (src/track).
  */
 #ifndef FRECHET_INDEX_H
 #define FRECHET_INDEX_H
@@ -15,6 +15,8 @@
 #include "utils/array.h"
 
 #include "bounds.h"
+#include "glue.h"
+#include "track.h"
 
 /* Strategy of "track |~~| frechet_reach(route, epsilon)": the range-query condition. */
 #define FRECHET_STRATEGY_REACH 1
@@ -96,18 +98,28 @@ frechet_key_ping_bound(const fr_key *trip, const fr_key *route)
 void		frechet_key_check_kind(const fr_key *reach, frechet_key_kind kind, int argno);
 
 /*
- * The summary of a stored track.  A track the SQL functions would reject
- * (empty, NULLs, non-finite or out-of-range coordinates, several dimensions)
- * gets a key that covers everything, so the index returns its row and the
- * exact call raises the same error it raises without an index.
+ * The summary of a stored value (keys.c).  A track the SQL functions would
+ * reject (empty, NULLs, non-finite or out-of-range coordinates, lon/lat out
+ * of range, ...) gets a key that covers everything, so the index returns
+ * its row and the exact call raises the same error it raises without an
+ * index.  calls: PostGIS look-ups for PostGIS types (NULL for point[]).
  */
-void		track_key_of_array(ArrayType *arr, fr_key *key);
+void		track_stored_key(struct postgis_calls *calls, Datum value, track_type type, fr_key *key);
 
-/*
- * GiST consistent for PostGIS's box operators on an index of
- * frechet_geometry_ops or frechet_geography_ops (geo_gist.c): a call of
- * frechet_gist_consistent with one of the box strategies.
- */
-Datum		geo_gist_box_consistent(FunctionCallInfo fcinfo);
+/* The summary of a decoded track, of its kind of coordinates (keys.c). */
+void		track_key_of(const glue_track *t, fr_key *key);
+
+/* The summary of track argument argidx (0-based) of a call, raising the functions' errors. */
+void		track_argument_key(FunctionCallInfo fcinfo, int argidx, track_type type, fr_key *key);
+
+/* The kind of coordinates of a track type's keys. */
+static inline frechet_key_kind
+track_key_kind(track_type type)
+{
+	return track_type_earth(type) ? FRECHET_KEY_EARTH : FRECHET_KEY_PLANAR;
+}
+
+/* Planner support of the deciders: a constant epsilon validated while planning (support.c). */
+void		glue_check_constant_epsilon(Node *rawreq);
 
 #endif							/* FRECHET_INDEX_H */

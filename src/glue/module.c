@@ -1,6 +1,7 @@
 /*
- * frechet_ext.c - module set-up, the engine environment (palloc and
- * CHECK_FOR_INTERRUPTS) and the SQL functions on point[].
+ * module.c - module set-up (settings), the engine environment (palloc
+ * into a scratch context, CHECK_FOR_INTERRUPTS) and the checks every SQL
+ * function shares: engine status, tolerances.
  */
 #include "postgres.h"
 
@@ -15,7 +16,6 @@
 #include "utils/guc.h"
 #include "utils/memutils.h"
 
-#include "bounds.h"
 #include "glue.h"
 
 PG_MODULE_MAGIC;
@@ -171,124 +171,13 @@ glue_check_epsilon(double eps, int argno)
 				 errdetail("Argument %d is %s.", argno, isnan(eps) ? "NaN" : "negative")));
 }
 
-PG_FUNCTION_INFO_V1(frechet_distance_point_array);
-/* frechet_distance(point[], point[]): continuous Fréchet distance. */
-Datum
-frechet_distance_point_array(PG_FUNCTION_ARGS)
+/* Validates a simplification tolerance (argument 2): not NaN, not negative. */
+void
+glue_check_tolerance(double tol)
 {
-	ArrayType  *a = PG_GETARG_ARRAYTYPE_P(0);
-	ArrayType  *b = PG_GETARG_ARRAYTYPE_P(1);
-	fr_curve	p,
-				q;
-	glue_env	g;
-	double		d;
-	fr_status	st;
-
-	point_array_curve(a, 1, &p);
-	point_array_curve(b, 2, &q);
-	glue_env_begin(&g, fr_scratch_bytes(p.n, q.n), "frechet_distance");
-	st = fr_distance(&g.env, &p, &q, &d, NULL);
-	glue_env_end(&g);
-	glue_check_status(st, "frechet_distance");
-	PG_FREE_IF_COPY(a, 0);
-	PG_FREE_IF_COPY(b, 1);
-	PG_RETURN_FLOAT8(d);
-}
-
-PG_FUNCTION_INFO_V1(frechet_at_most_point_array);
-/* frechet_at_most(point[], point[], float8): is the distance at most epsilon? */
-Datum
-frechet_at_most_point_array(PG_FUNCTION_ARGS)
-{
-	ArrayType  *a = PG_GETARG_ARRAYTYPE_P(0);
-	ArrayType  *b = PG_GETARG_ARRAYTYPE_P(1);
-	double		eps = PG_GETARG_FLOAT8(2);
-	fr_curve	p,
-				q;
-	glue_env	g;
-	bool		yes;
-	fr_status	st;
-
-	point_array_curve(a, 1, &p);
-	point_array_curve(b, 2, &q);
-	glue_check_epsilon(eps, 3);
-	/* cheap bounds first (src/core/bounds.c); the decider only when they cannot tell */
-	switch (fr_cheap_decide(&p, &q, eps))
-	{
-		case FR_FAR:
-			yes = false;
-			break;
-		case FR_NEAR:
-			yes = true;
-			break;
-		default:
-			glue_env_begin(&g, fr_scratch_bytes(p.n, q.n), "frechet_at_most");
-			st = fr_decide_exact(&g.env, &p, &q, eps, &yes, NULL);
-			glue_env_end(&g);
-			glue_check_status(st, "frechet_at_most");
-	}
-	PG_FREE_IF_COPY(a, 0);
-	PG_FREE_IF_COPY(b, 1);
-	PG_RETURN_BOOL(yes);
-}
-
-PG_FUNCTION_INFO_V1(discrete_frechet_distance_point_array);
-/* discrete_frechet_distance(point[], point[]): vertex couplings only. */
-Datum
-discrete_frechet_distance_point_array(PG_FUNCTION_ARGS)
-{
-	ArrayType  *a = PG_GETARG_ARRAYTYPE_P(0);
-	ArrayType  *b = PG_GETARG_ARRAYTYPE_P(1);
-	fr_curve	p,
-				q;
-	glue_env	g;
-	double		d;
-	fr_status	st;
-
-	point_array_curve(a, 1, &p);
-	point_array_curve(b, 2, &q);
-	glue_env_begin(&g, fr_scratch_bytes(p.n, q.n), "discrete_frechet_distance");
-	st = fr_discrete_distance(&g.env, &p, &q, &d);
-	glue_env_end(&g);
-	glue_check_status(st, "discrete_frechet_distance");
-	PG_FREE_IF_COPY(a, 0);
-	PG_FREE_IF_COPY(b, 1);
-	PG_RETURN_FLOAT8(d);
-}
-
-PG_FUNCTION_INFO_V1(frechet_simplify_point_array);
-/* frechet_simplify(track, tolerance): fewer vertices, within tolerance (Fréchet). */
-Datum
-frechet_simplify_point_array(PG_FUNCTION_ARGS)
-{
-	ArrayType  *a = PG_GETARG_ARRAYTYPE_P(0);
-	double		tol = PG_GETARG_FLOAT8(1);
-	fr_curve	c;
-	glue_env	g;
-	size_t	   *keep,
-				count;
-	Datum	   *elems = NULL;
-	ArrayType  *result;
-	fr_status	st;
-
-	point_array_curve(a, 1, &c);
 	if (isnan(tol) || tol < 0)
 		ereport(ERROR,
 				(errcode(ERRCODE_INVALID_PARAMETER_VALUE),
 				 errmsg("tolerance must be a non-negative number"),
 				 errdetail("Argument 2 is %s.", isnan(tol) ? "NaN" : "negative")));
-	glue_env_begin(&g, fr_scratch_bytes(c.n, 1) + c.n * sizeof(size_t), "frechet_simplify");
-	st = fr_simplify(&g.env, &c, tol, &keep, &count);
-	if (st == FR_OK)
-	{
-		const Point *pts = (const Point *) c.coords;
-
-		elems = MemoryContextAlloc(MemoryContextGetParent(g.cxt), count * sizeof(Datum));
-		for (size_t k = 0; k < count; k++)
-			elems[k] = PointPGetDatum(&pts[keep[k]]);
-	}
-	glue_env_end(&g);
-	glue_check_status(st, "frechet_simplify");
-	result = construct_array(elems, (int) count, POINTOID, sizeof(Point), false, TYPALIGN_DOUBLE);
-	PG_RETURN_ARRAYTYPE_P(result);
 }

@@ -1,9 +1,10 @@
 /*
- * track_key.c - the frechet_key type (summaries of tracks, and the reach of
- * a range query), its text form, and the operator |~~| that the planner
- * support function hands to the index: "this track may lie within epsilon
- * of that route".  The operator is necessary, not sufficient: the exact
- * frechet_at_most call always runs after it.
+ * key.c - the frechet_key type (summaries of tracks, and the reach of a
+ * range query), its text form, the summary of a track of any type, and the
+ * operators the planner support functions hand to the index: |~~| "this
+ * track may lie within epsilon of that route" and |~~~| "these pings may
+ * follow that route within epsilon".  The operators are necessary, not
+ * sufficient: the exact call always runs after them.
  */
 #include "postgres.h"
 
@@ -16,7 +17,6 @@
 #include "utils/float.h"
 #include "utils/geo_decls.h"
 
-#include "glue.h"
 #include "index.h"
 
 /* Labels of the text form, in order, with the x and y intervals each one shows. */
@@ -32,43 +32,6 @@ static const struct
 	{"min", FR_KEY_MIN_X, FR_KEY_MIN_Y},
 	{"max", FR_KEY_MAX_X, FR_KEY_MAX_Y},
 };
-
-/* True when a point[] is a curve the SQL functions accept; fills out. */
-static bool
-array_is_valid_curve(ArrayType *arr, fr_curve *out)
-{
-	const Point *pts;
-	int			n;
-
-	if (ARR_NDIM(arr) != 1 || ARR_ELEMTYPE(arr) != POINTOID || ARR_HASNULL(arr))
-		return false;
-	n = ARR_DIMS(arr)[0];
-	if (n < 1)
-		return false;
-	pts = (const Point *) ARR_DATA_PTR(arr);
-	for (int i = 0; i < n; i++)
-	{
-		/* fabs(NaN) <= limit is false, so NaN fails here too */
-		if (!(fabs(pts[i].x) <= FR_MAX_ABS_COORD && fabs(pts[i].y) <= FR_MAX_ABS_COORD))
-			return false;
-	}
-	out->coords = (const double *) pts;
-	out->n = (size_t) n;
-	out->dim = 2;
-	return true;
-}
-
-/* The summary of a stored track; invalid tracks get the key covering everything. */
-void
-track_key_of_array(ArrayType *arr, fr_key *key)
-{
-	fr_curve	c;
-
-	if (array_is_valid_curve(arr, &c))
-		fr_key_of_curve(&c, key);
-	else
-		fr_key_everything(key);
-}
 
 /* Raises the input syntax error of frechet_key. */
 static void
@@ -206,75 +169,147 @@ frechet_key_check_kind(const fr_key *reach, frechet_key_kind kind, int argno)
 			 errhint("Make the key with frechet_reach on a value of the column's type.")));
 }
 
-PG_FUNCTION_INFO_V1(frechet_track_key_point_array);
-/* frechet_track_key(point[]): the summary the index stores for a track. */
-Datum
-frechet_track_key_point_array(PG_FUNCTION_ARGS)
+/* Largest |z| of a 3-D curve; 0 for a 2-D one. */
+static double
+curve_z_magnitude(const fr_curve *c)
 {
-	ArrayType  *arr = PG_GETARG_ARRAYTYPE_P(0);
-	fr_key	   *key = palloc(sizeof(fr_key));
-	fr_curve	c;
+	double		m = 0.0;
 
-	point_array_curve(arr, 1, &c);
-	fr_key_of_curve(&c, key);
-	PG_FREE_IF_COPY(arr, 0);
+	if (c->dim < 3)
+		return 0.0;
+	for (size_t i = 0; i < c->n; i++)
+		m = Max(m, fabs(c->coords[i * c->dim + 2]));
+	return m;
+}
+
+/*
+ * The summary of a decoded track: x and y of the engine's curve (for
+ * geography, Earth-centred x and y of its geodesic pieces), of its kind.
+ *
+ * Why x and y alone give lower bounds: dropping coordinates never
+ * lengthens a leash, so the Fréchet distance of the x,y shadows is at most
+ * that of the curves (for geography, of the ECEF chord polylines; the
+ * metres of a chord grow with its length).  Z reaches the engine's
+ * rounding, though, so a 3-D curve's key is widened by the slack of its
+ * largest |z| (the same 1e-12 of the magnitude that fr_bound_loosen takes
+ * for x and y).
+ */
+void
+track_key_of(const glue_track *t, fr_key *key)
+{
+	const fr_curve *c = &t->curve;
+
+	fr_key_of_curve(c, key);
+	if (c->dim == 3)
+	{
+		double		widen = fr_bound_slack(0.0, curve_z_magnitude(c));
+
+		for (int i = 0; i < FR_KEY_NDIM; i++)
+		{
+			key->lo[i] -= widen;
+			key->hi[i] += widen;
+		}
+	}
+	frechet_key_set_kind(key, track_key_kind(t->type));
+}
+
+/*
+ * The summary of a stored value; one the functions would reject gets the
+ * key that covers everything.  Geography is summarised as the functions
+ * see it: edges along their geodesics.
+ */
+void
+track_stored_key(struct postgis_calls *calls, Datum value, track_type type, fr_key *key)
+{
+	track_report rep = {.check = true};
+	glue_track	t;
+
+	if (track_decode_value(calls, value, type, TRACK_GEODESIC, &rep, &t))
+		track_key_of(&t, key);
+	else
+		fr_key_everything(key);
+	if (rep.problem)
+		pfree(rep.problem);
+	track_free(&t);
+}
+
+/* The summary of track argument argidx (0-based) of a call, raising the functions' errors. */
+void
+track_argument_key(FunctionCallInfo fcinfo, int argidx, track_type type, fr_key *key)
+{
+	glue_track	t;
+
+	track_decode_arg(fcinfo, argidx, type, TRACK_GEODESIC, &t);
+	track_key_of(&t, key);
+	track_free(&t);
+}
+
+/* frechet_track_key(track): the summary the index stores for a track. */
+static Datum
+track_key(FunctionCallInfo fcinfo, track_type type)
+{
+	fr_key	   *key = palloc(sizeof(fr_key));
+
+	track_argument_key(fcinfo, 0, type, key);
 	PG_RETURN_POINTER(key);
 }
 
-PG_FUNCTION_INFO_V1(frechet_reach_point_array);
-/* frechet_reach(point[], float8): the route's summary with epsilon as its reach. */
-Datum
-frechet_reach_point_array(PG_FUNCTION_ARGS)
+/* frechet_reach(route, epsilon): the route's summary with its reach (a chord for geography). */
+static Datum
+reach(FunctionCallInfo fcinfo, track_type type)
 {
-	ArrayType  *arr = PG_GETARG_ARRAYTYPE_P(0);
 	double		eps = PG_GETARG_FLOAT8(1);
 	fr_key	   *key = palloc(sizeof(fr_key));
-	fr_curve	c;
 
-	point_array_curve(arr, 1, &c);
+	track_argument_key(fcinfo, 0, type, key);
 	glue_check_epsilon(eps, 2);
-	fr_key_of_curve(&c, key);
-	key->reach = eps;
-	PG_FREE_IF_COPY(arr, 0);
+	key->reach = track_engine_epsilon(type, eps);
+	frechet_key_set_kind(key, track_key_kind(type));
 	PG_RETURN_POINTER(key);
 }
 
-/* The test behind |~~|: the track's summary lies within the reach's epsilon of the route's. */
+/*
+ * The test behind an index operator (|~~| or |~~~|) on track argument
+ * argidx: bound(track's summary, route's) within the reach.  Necessary,
+ * not sufficient: the exact call always runs after it.
+ */
 static bool
-within_reach(ArrayType *arr, int argno, const fr_key *reach)
+within_reach(FunctionCallInfo fcinfo, int argidx, track_type type, const fr_key *reach,
+			 double (*bound) (const fr_key *, const fr_key *))
 {
 	fr_key		key;
-	fr_curve	c;
 
-	point_array_curve(arr, argno, &c);
-	frechet_key_check_kind(reach, FRECHET_KEY_PLANAR, argno);
-	fr_key_of_curve(&c, &key);
-	return fr_key_bound(&key, reach) <= frechet_key_reach(reach);
+	frechet_key_check_kind(reach, track_key_kind(type), argidx + 1);
+	track_argument_key(fcinfo, argidx, type, &key);
+	return bound(&key, reach) <= frechet_key_reach(reach);
 }
 
-PG_FUNCTION_INFO_V1(frechet_within_reach_point_array);
-/* track |~~| reach */
-Datum
-frechet_within_reach_point_array(PG_FUNCTION_ARGS)
+/* track |~~| reach: the condition of frechet_at_most. */
+static Datum
+within_reach_left(FunctionCallInfo fcinfo, track_type type)
 {
-	ArrayType  *arr = PG_GETARG_ARRAYTYPE_P(0);
-	bool		yes = within_reach(arr, 1, PG_GETARG_FRECHET_KEY(1));
-
-	PG_FREE_IF_COPY(arr, 0);
-	PG_RETURN_BOOL(yes);
+	PG_RETURN_BOOL(within_reach(fcinfo, 0, type, PG_GETARG_FRECHET_KEY(1), fr_key_bound));
 }
 
-PG_FUNCTION_INFO_V1(frechet_reach_within_point_array);
-/* reach |~~| track, the commutator */
-Datum
-frechet_reach_within_point_array(PG_FUNCTION_ARGS)
+/* reach |~~| track, the commutator. */
+static Datum
+within_reach_right(FunctionCallInfo fcinfo, track_type type)
 {
-	ArrayType  *arr = PG_GETARG_ARRAYTYPE_P(1);
-	bool		yes = within_reach(arr, 2, PG_GETARG_FRECHET_KEY(0));
-
-	PG_FREE_IF_COPY(arr, 1);
-	PG_RETURN_BOOL(yes);
+	PG_RETURN_BOOL(within_reach(fcinfo, 1, type, PG_GETARG_FRECHET_KEY(0), fr_key_bound));
 }
+
+/* track |~~~| reach: the condition of frechet_pings_at_most (fr_key_ping_bound). */
+static Datum
+pings_within_reach(FunctionCallInfo fcinfo, track_type type)
+{
+	PG_RETURN_BOOL(within_reach(fcinfo, 0, type, PG_GETARG_FRECHET_KEY(1), frechet_key_ping_bound));
+}
+
+TRACK_FUNCTIONS(frechet_track_key, track_key)
+TRACK_FUNCTIONS(frechet_reach, reach)
+TRACK_FUNCTIONS(frechet_within_reach, within_reach_left)
+TRACK_FUNCTIONS(frechet_reach_within, within_reach_right)
+TRACK_FUNCTIONS(frechet_pings_within_reach, pings_within_reach)
 
 PG_FUNCTION_INFO_V1(frechet_cheap_verdict_point_array);
 /*
@@ -285,18 +320,13 @@ PG_FUNCTION_INFO_V1(frechet_cheap_verdict_point_array);
 Datum
 frechet_cheap_verdict_point_array(PG_FUNCTION_ARGS)
 {
-	ArrayType  *a = PG_GETARG_ARRAYTYPE_P(0);
-	ArrayType  *b = PG_GETARG_ARRAYTYPE_P(1);
+	glue_track	a,
+				b;
 	double		eps = PG_GETARG_FLOAT8(2);
-	fr_curve	p,
-				q;
 	fr_verdict	v;
 
-	point_array_curve(a, 1, &p);
-	point_array_curve(b, 2, &q);
+	track_decode_pair(fcinfo, TRACK_POINTS, 0, 0, &a, &b);
 	glue_check_epsilon(eps, 3);
-	v = fr_cheap_decide(&p, &q, eps);
-	PG_FREE_IF_COPY(a, 0);
-	PG_FREE_IF_COPY(b, 1);
+	v = fr_cheap_decide(&a.curve, &b.curve, eps);
 	PG_RETURN_TEXT_P(cstring_to_text(v == FR_FAR ? "far" : v == FR_NEAR ? "near" : "undecided"));
 }

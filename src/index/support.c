@@ -1,0 +1,186 @@
+/*
+ * support.c - the planner support functions of frechet_at_most and
+ * frechet_pings_at_most, one for every track type.  When an argument of
+ * frechet_at_most(a, b, epsilon) is a column (or expression) with an index
+ * of our operator classes, the planner asks for an index condition, and
+ * gets
+ *
+ *     column |~~| frechet_reach(other, epsilon)
+ *
+ * which is necessary but not sufficient (lossy): the index returns every
+ * track whose first vertex, last vertex and bounding-box sides lie within
+ * epsilon of the route's, and frechet_at_most runs on each of them.  The
+ * Fréchet distance is symmetric, so either argument may be the column.
+ * frechet_pings_at_most gets "trip |~~~| frechet_reach(route, epsilon)"
+ * the same way.  A strategy is one entry here: the operator's strategy
+ * number, looked up in the index's operator family.
+ *
+ * frechet_reach validates epsilon, so with such an index a NaN or negative
+ * epsilon raised 22023 even when no row qualified, while a sequential scan
+ * that called frechet_at_most on no row returned nothing.  The function
+ * raises on such an epsilon, so every plan now does: when epsilon is a
+ * constant, it is checked while the call is simplified during planning.
+ */
+#include "postgres.h"
+
+#include "catalog/pg_type.h"
+#include "nodes/makefuncs.h"
+#include "nodes/nodeFuncs.h"
+#include "nodes/supportnodes.h"
+#include "optimizer/optimizer.h"
+#include "parser/parse_func.h"
+#include "utils/lsyscache.h"
+#include "utils/syscache.h"
+
+#include "index.h"
+#include "postgis.h"
+
+/*
+ * "indexed OP frechet_reach(route, eps)", with OP the operator of the
+ * index's operator family under strategy for (indexed's type,
+ * frechet_key); NIL when there is none (an index of another class).
+ * frechet_reach for the route's type is looked up in the schema of the
+ * function being planned, never by search_path.
+ */
+static List *
+reach_condition(SupportRequestIndexCondition *req, Node *indexed, Node *route, Node *eps,
+				StrategyNumber strategy)
+{
+	Oid			argtypes[2] = {exprType(route), FLOAT8OID};
+	Oid			reachfn,
+				keytype,
+				opno;
+	Expr	   *reach;
+
+	reachfn = LookupFuncName(list_make2(makeString(get_namespace_name(get_func_namespace(req->funcid))),
+										makeString("frechet_reach")),
+							 2, argtypes, true);
+	if (!OidIsValid(reachfn))
+		return NIL;
+	keytype = get_func_rettype(reachfn);
+	opno = get_opfamily_member(req->opfamily, exprType(indexed), keytype, strategy);
+	if (!OidIsValid(opno))
+		return NIL;
+	reach = (Expr *) makeFuncExpr(reachfn, keytype, list_make2(route, eps),
+								  InvalidOid, InvalidOid, COERCE_EXPLICIT_CALL);
+	req->lossy = true;
+	return list_make1(make_opclause(opno, BOOLOID, false, (Expr *) indexed, reach,
+									InvalidOid, InvalidOid));
+}
+
+/*
+ * The call's indexed argument (req->indexarg, which must be one of those
+ * in indexable, a bit mask) and the route and epsilon (arguments 2 and 3
+ * in the call, the route being the other of the first two), which must be
+ * constant during the scan; false otherwise.
+ */
+static bool
+call_arguments(SupportRequestIndexCondition *req, int min_args, int max_args, int indexable,
+			   Node **indexed, Node **route, Node **eps)
+{
+	FuncExpr   *call = (FuncExpr *) req->node;
+
+	if (!is_funcclause(req->node) || list_length(call->args) < min_args ||
+		list_length(call->args) > max_args || req->indexarg > 1 ||
+		(indexable & (1 << req->indexarg)) == 0)
+		return false;
+	*indexed = (Node *) list_nth(call->args, req->indexarg);
+	*route = (Node *) list_nth(call->args, 1 - req->indexarg);
+	*eps = (Node *) lthird(call->args);
+	return is_pseudo_constant_for_index(req->root, *route, req->index) &&
+		is_pseudo_constant_for_index(req->root, *eps, req->index);
+}
+
+/*
+ * SupportRequestSimplify of frechet_at_most (every input type): a constant
+ * epsilon is validated as the function would, so that a bad one raises
+ * 22023 whatever the plan, even one that calls the function on no row.
+ */
+void
+glue_check_constant_epsilon(Node *rawreq)
+{
+	SupportRequestSimplify *req = (SupportRequestSimplify *) rawreq;
+	Node	   *eps;
+
+	if (list_length(req->fcall->args) != 3)
+		return;
+	eps = (Node *) lthird(req->fcall->args);
+	if (IsA(eps, Const) && !((Const *) eps)->constisnull &&
+		((Const *) eps)->consttype == FLOAT8OID)
+		glue_check_epsilon(DatumGetFloat8(((Const *) eps)->constvalue), 3);
+}
+
+/*
+ * Planner support of frechet_at_most: a constant epsilon checked, and a
+ * lossy index condition on an index of ours, or with postgis (geometry and
+ * geography) on PostGIS's own index.
+ */
+static Datum
+at_most_support(FunctionCallInfo fcinfo, bool postgis)
+{
+	Node	   *rawreq = (Node *) PG_GETARG_POINTER(0);
+
+	if (IsA(rawreq, SupportRequestSimplify))
+		glue_check_constant_epsilon(rawreq);
+	if (IsA(rawreq, SupportRequestIndexCondition))
+	{
+		SupportRequestIndexCondition *req = (SupportRequestIndexCondition *) rawreq;
+		Node	   *indexed,
+				   *route,
+				   *eps;
+		List	   *conds = NIL;
+
+		if (call_arguments(req, 3, 3, 0x3, &indexed, &route, &eps))
+		{
+			conds = reach_condition(req, indexed, route, eps, FRECHET_STRATEGY_REACH);
+			if (conds == NIL && postgis)
+				conds = postgis_box_index_condition(req, indexed, route, eps);
+		}
+		if (conds != NIL)
+			PG_RETURN_POINTER(conds);
+	}
+	PG_RETURN_POINTER(NULL);
+}
+
+PG_FUNCTION_INFO_V1(frechet_at_most_support);
+/* Planner support for frechet_at_most on point[]. */
+Datum
+frechet_at_most_support(PG_FUNCTION_ARGS)
+{
+	return at_most_support(fcinfo, false);
+}
+
+PG_FUNCTION_INFO_V1(frechet_geo_at_most_support);
+/* Planner support for frechet_at_most on geometry and geography. */
+Datum
+frechet_geo_at_most_support(PG_FUNCTION_ARGS)
+{
+	return at_most_support(fcinfo, true);
+}
+
+PG_FUNCTION_INFO_V1(frechet_pings_support);
+/*
+ * Planner support for frechet_pings_at_most(trip, route, epsilon[,
+ * max_gap]) on every input type.  The route may reach anywhere between two
+ * pings, so only the trip can be the indexed argument.
+ */
+Datum
+frechet_pings_support(PG_FUNCTION_ARGS)
+{
+	Node	   *rawreq = (Node *) PG_GETARG_POINTER(0);
+
+	if (IsA(rawreq, SupportRequestIndexCondition))
+	{
+		SupportRequestIndexCondition *req = (SupportRequestIndexCondition *) rawreq;
+		Node	   *trip,
+				   *route,
+				   *eps;
+		List	   *conds = NIL;
+
+		if (call_arguments(req, 3, 4, 0x1, &trip, &route, &eps))
+			conds = reach_condition(req, trip, route, eps, FRECHET_STRATEGY_PINGS);
+		if (conds != NIL)
+			PG_RETURN_POINTER(conds);
+	}
+	PG_RETURN_POINTER(NULL);
+}
