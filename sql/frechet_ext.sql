@@ -93,7 +93,7 @@ COMMENT ON FUNCTION @extschema@.frechet_excursions(pg_catalog.point[], pg_catalo
 'stretches of the trip (vertex numbers) that an order-preserving matching cannot keep within epsilon of the route, with where on the route it left and rejoined, the stretch''s length and the length of route between; no rows exactly when frechet_at_most is true';
 -- Index support: a GiST operator class on point[] for range queries
 -- (frechet_at_most, through its planner support function) and k-nearest
--- queries (ORDER BY track <-> route).  See src/gist.c and src/support.c.
+-- queries (ORDER BY track <-> route).  See src/index/gist.c and src/index/support.c.
 
 CREATE TYPE @extschema@.frechet_key;
 

@@ -10,13 +10,6 @@
 #include "bounds.h"
 #include "track.h"
 
-/* Both curve arguments of a call, geography edges along their geodesics. */
-static void
-decode_both(FunctionCallInfo fcinfo, track_type type, glue_track *a, glue_track *b)
-{
-	track_decode_pair(fcinfo, type, TRACK_GEODESIC, TRACK_GEODESIC, a, b);
-}
-
 /* frechet_distance(a, b): continuous Fréchet distance. */
 static Datum
 distance(FunctionCallInfo fcinfo, track_type type)
@@ -27,7 +20,7 @@ distance(FunctionCallInfo fcinfo, track_type type)
 	double		d;
 	fr_status	st;
 
-	decode_both(fcinfo, type, &a, &b);
+	track_decode_both(fcinfo, type, &a, &b);
 	glue_env_begin(&g, fr_scratch_bytes(a.curve.n, b.curve.n), "frechet_distance");
 	st = fr_distance(&g.env, &a.curve, &b.curve, &d, NULL);
 	glue_env_end(&g);
@@ -46,7 +39,7 @@ at_most(FunctionCallInfo fcinfo, track_type type)
 	bool		yes;
 	fr_status	st;
 
-	decode_both(fcinfo, type, &a, &b);
+	track_decode_both(fcinfo, type, &a, &b);
 	glue_check_epsilon(eps, 3);
 	eps = track_engine_epsilon(type, eps);
 	/* cheap bounds first (src/core/bounds.c); the decider only when they cannot tell */
@@ -77,7 +70,7 @@ discrete(FunctionCallInfo fcinfo, track_type type)
 	double		d;
 	fr_status	st;
 
-	decode_both(fcinfo, type, &a, &b);
+	track_decode_both(fcinfo, type, &a, &b);
 	glue_env_begin(&g, fr_scratch_bytes(a.curve.n, b.curve.n), "discrete_frechet_distance");
 	st = fr_discrete_distance(&g.env, &a.curve, &b.curve, &d);
 	glue_env_end(&g);

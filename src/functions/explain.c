@@ -108,13 +108,6 @@ glue_excursions(const fr_curve *p, const fr_curve *q, double eps, size_t *count)
 	return copy;
 }
 
-/* Both curve arguments of a call, geography edges along their geodesics. */
-static void
-decode_both(FunctionCallInfo fcinfo, track_type type, glue_track *a, glue_track *b)
-{
-	track_decode_pair(fcinfo, type, TRACK_GEODESIC, TRACK_GEODESIC, a, b);
-}
-
 /* Tolerance argument 3 when given (else -1: optimal), validated, as the engine's. */
 static double
 optional_epsilon(FunctionCallInfo fcinfo, track_type type)
@@ -142,7 +135,7 @@ matching_rows(FunctionCallInfo fcinfo, track_type type)
 	glue_srf_materialize(fcinfo);
 	if (PG_ARGISNULL(0) || PG_ARGISNULL(1))
 		return (Datum) 0;
-	decode_both(fcinfo, type, &a, &b);
+	track_decode_both(fcinfo, type, &a, &b);
 	eps = optional_epsilon(fcinfo, type);
 	track_check_times(&a, 1);
 	track_check_times(&b, 2);
@@ -177,7 +170,7 @@ matching_leashes(FunctionCallInfo fcinfo, track_type type)
 
 	if (PG_ARGISNULL(0) || PG_ARGISNULL(1))
 		PG_RETURN_NULL();
-	decode_both(fcinfo, type, &a, &b);
+	track_decode_both(fcinfo, type, &a, &b);
 	eps = optional_epsilon(fcinfo, type);
 	track_check_times(&a, 1);
 	track_check_times(&b, 2);
@@ -203,7 +196,7 @@ bottleneck_row(FunctionCallInfo fcinfo, track_type type)
 	bool		nulls[5] = {false};
 
 	glue_srf_materialize(fcinfo);
-	decode_both(fcinfo, type, &a, &b);
+	track_decode_both(fcinfo, type, &a, &b);
 	track_check_times(&a, 1);
 	track_check_times(&b, 2);
 	pts = glue_matching(&a.curve, &b.curve, -1, &count, "frechet_bottleneck");
@@ -231,7 +224,7 @@ partial_distance(FunctionCallInfo fcinfo, track_type type)
 	glue_track	a,
 				b;
 
-	decode_both(fcinfo, type, &a, &b);
+	track_decode_both(fcinfo, type, &a, &b);
 	PG_RETURN_FLOAT8(track_out_distance(type, glue_partial_distance(&a.curve, &b.curve)));
 }
 
@@ -252,7 +245,7 @@ partial_match_row(FunctionCallInfo fcinfo, track_type type)
 	bool		found;
 
 	glue_srf_materialize(fcinfo);
-	decode_both(fcinfo, type, &a, &b);
+	track_decode_both(fcinfo, type, &a, &b);
 	glue_check_epsilon(eps, 3);
 	track_check_times(&b, 2);
 	glue_partial_match(&a.curve, &b.curve, track_engine_epsilon(type, eps), &found, &from, &to, &d);
@@ -294,7 +287,7 @@ excursion_rows(FunctionCallInfo fcinfo, track_type type)
 	bool		postgis = type != TRACK_POINTS;
 
 	glue_srf_materialize(fcinfo);
-	decode_both(fcinfo, type, &a, &b);
+	track_decode_both(fcinfo, type, &a, &b);
 	glue_check_epsilon(eps, 3);
 	track_check_times(&a, 1);
 	x = glue_excursions(&a.curve, &b.curve, track_engine_epsilon(type, eps), &count);

@@ -61,6 +61,25 @@ bool		track_problem(track_report *rep, int sqlstate, const char *hint, const cha
 /* A set-returning call's tuple store and descriptor, nothing else left per call (srf.c). */
 void		glue_srf_materialize(FunctionCallInfo fcinfo);
 
+/*
+ * The bytes of a query value kept across calls of one call site (srf.c),
+ * so that a cache in fn_extra is reused while the value is unchanged.
+ */
+typedef struct glue_bytes
+{
+	Size		len;
+	char	   *raw;			/* NULL: nothing kept */
+} glue_bytes;
+
+/* Does value have the kept bytes? */
+bool		glue_bytes_same(const glue_bytes *kept, Datum value);
+
+/* Forgets the kept bytes (before decoding a new value, which may fail). */
+void		glue_bytes_forget(glue_bytes *kept);
+
+/* Keeps a copy of value's bytes in mcxt (none for an expanded value, which may change in place). */
+void		glue_bytes_keep(glue_bytes *kept, Datum value, MemoryContext mcxt);
+
 /* How a SQL value holds a track. */
 typedef enum track_type
 {

@@ -1,5 +1,7 @@
 /*
- * srf.c - the materialized result of a set-returning SQL function.
+ * srf.c - what calls keep or return beyond one value: the materialized
+ * result of a set-returning SQL function, and the bytes of a query value
+ * that a per-call-site cache is keyed on.
  */
 #include "postgres.h"
 
@@ -53,4 +55,37 @@ glue_srf_materialize(FunctionCallInfo fcinfo)
 	rsinfo->returnMode = SFRM_Materialize;
 	rsinfo->setResult = store;
 	rsinfo->setDesc = desc;
+}
+
+/* Does value have the kept bytes? */
+bool
+glue_bytes_same(const glue_bytes *kept, Datum value)
+{
+	struct varlena *raw = (struct varlena *) DatumGetPointer(value);
+
+	return kept->raw != NULL && !VARATT_IS_EXTERNAL_EXPANDED(raw) &&
+		kept->len == VARSIZE_ANY(raw) && memcmp(kept->raw, raw, kept->len) == 0;
+}
+
+/* Forgets the kept bytes (before decoding a new value, which may fail). */
+void
+glue_bytes_forget(glue_bytes *kept)
+{
+	if (kept->raw != NULL)
+		pfree(kept->raw);
+	kept->raw = NULL;
+}
+
+/* Keeps a copy of value's bytes in mcxt (none for an expanded value, which may change in place). */
+void
+glue_bytes_keep(glue_bytes *kept, Datum value, MemoryContext mcxt)
+{
+	struct varlena *raw = (struct varlena *) DatumGetPointer(value);
+
+	glue_bytes_forget(kept);
+	if (VARATT_IS_EXTERNAL_EXPANDED(raw))
+		return;
+	kept->len = VARSIZE_ANY(raw);
+	kept->raw = MemoryContextAlloc(mcxt, kept->len);
+	memcpy(kept->raw, raw, kept->len);
 }

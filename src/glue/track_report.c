@@ -1,8 +1,8 @@
 /*
  * track_report.c - where the problems of one track argument go.
  *
- * The decoders (point_array.c, ewkb.c, geo_glue.c) describe a bad track
- * once, through track_problem.  Called by the distance functions, the
+ * The codecs (src/pg/point_array.c, src/postgis/ewkb.c and postgis.c)
+ * describe a bad track once, through track_problem.  Called by the distance functions, the
  * description becomes an ERROR that names the argument, the vertex and
  * where the track starts, so a failed batch points at its row; called by
  * frechet_track_check, the same words become its result and nothing is

@@ -44,7 +44,7 @@ gist_compress(FunctionCallInfo fcinfo, track_type type)
  * May an entry hold a track within the query's reach?  Exact on leaves.
  * kind_known: the query key must be of the given kind of coordinates.
  * The geometry and geography classes share this function; their box
- * strategies go to geo_gist_box_consistent.
+ * strategies go to postgis_box_consistent.
  */
 static Datum
 gist_consistent(FunctionCallInfo fcinfo, bool kind_known, frechet_key_kind kind)
@@ -57,7 +57,7 @@ gist_consistent(FunctionCallInfo fcinfo, bool kind_known, frechet_key_kind kind)
 
 	/* PostGIS's box operators, in the classes on geometry and geography */
 	if (FRECHET_IS_BOX_STRATEGY(strategy))
-		return geo_gist_box_consistent(fcinfo);
+		return postgis_box_consistent(fcinfo);
 	query = PG_GETARG_FRECHET_KEY(1);
 	if (kind_known)
 		frechet_key_check_kind(query, kind, 0);
@@ -277,8 +277,7 @@ frechet_gist_same(PG_FUNCTION_ARGS)
 typedef struct route_cache
 {
 	struct postgis_calls *calls;	/* PostGIS types: look-ups in fn_mcxt */
-	Size		rawlen;
-	char	   *raw;			/* the query datum's bytes, as passed */
+	glue_bytes	query;			/* the query datum's bytes, as passed */
 	fr_key		key;
 	double	   *hull;
 	size_t		nhull;
@@ -289,17 +288,13 @@ static route_cache *
 route_cache_get(FunctionCallInfo fcinfo, Datum query, track_type type)
 {
 	route_cache *rc = (route_cache *) fcinfo->flinfo->fn_extra;
-	struct varlena *raw = (struct varlena *) DatumGetPointer(query);
-	Size		rawlen = VARSIZE_ANY(raw);
-	bool		cacheable = !VARATT_IS_EXTERNAL_EXPANDED(raw);
 	/* the route is the right operand of track <-> route: argument 2 */
 	track_report rep = {.argno = 2};
 	MemoryContext old;
 	glue_track	t;
 	double	   *sorted;
 
-	if (rc != NULL && cacheable && rc->raw != NULL &&
-		rc->rawlen == rawlen && memcmp(rc->raw, raw, rawlen) == 0)
+	if (rc != NULL && glue_bytes_same(&rc->query, query))
 		return rc;
 	if (rc == NULL)
 	{
@@ -308,11 +303,9 @@ route_cache_get(FunctionCallInfo fcinfo, Datum query, track_type type)
 			rc->calls = geo_postgis_calls_new(fcinfo->flinfo->fn_mcxt);
 		fcinfo->flinfo->fn_extra = rc;
 	}
-	if (rc->raw != NULL)
-		pfree(rc->raw);
+	glue_bytes_forget(&rc->query);
 	if (rc->hull != NULL)
 		pfree(rc->hull);
-	rc->raw = NULL;
 	rc->hull = NULL;
 
 	track_decode_value(rc->calls, query, type, TRACK_GEODESIC, &rep, &t);
@@ -322,13 +315,8 @@ route_cache_get(FunctionCallInfo fcinfo, Datum query, track_type type)
 	rc->hull = palloc(4 * t.curve.n * sizeof(double));
 	rc->nhull = fr_convex_hull(&t.curve, sorted, rc->hull);
 	pfree(sorted);
-	if (cacheable)
-	{
-		rc->raw = palloc(rawlen);
-		memcpy(rc->raw, raw, rawlen);
-		rc->rawlen = rawlen;
-	}
 	MemoryContextSwitchTo(old);
+	glue_bytes_keep(&rc->query, query, fcinfo->flinfo->fn_mcxt);
 	track_free(&t);
 	return rc;
 }

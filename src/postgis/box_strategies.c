@@ -83,8 +83,7 @@ typedef struct box_query
 	Oid			subtype;		/* geometry or geography (the operator's right type) */
 	bool		geodetic;
 	FmgrInfo	compress;		/* PostGIS's GiST compress of that type */
-	Size		rawlen;
-	char	   *raw;			/* the query datum's bytes, as passed */
+	glue_bytes	query;			/* the query datum's bytes, as passed */
 	bool		known;			/* false: empty or unboxable; every entry passes */
 	plane_box	box;
 } box_query;
@@ -180,12 +179,8 @@ static box_query *
 box_query_get(FunctionCallInfo fcinfo, Datum query, Oid subtype)
 {
 	box_query  *bq = (box_query *) fcinfo->flinfo->fn_extra;
-	struct varlena *raw = (struct varlena *) DatumGetPointer(query);
-	Size		rawlen = VARSIZE_ANY(raw);
-	bool		cacheable = !VARATT_IS_EXTERNAL_EXPANDED(raw);
 
-	if (bq != NULL && bq->subtype == subtype && cacheable && bq->raw != NULL &&
-		bq->rawlen == rawlen && memcmp(bq->raw, raw, rawlen) == 0)
+	if (bq != NULL && bq->subtype == subtype && glue_bytes_same(&bq->query, query))
 		return bq;
 	if (bq == NULL || bq->subtype != subtype)
 	{
@@ -193,16 +188,9 @@ box_query_get(FunctionCallInfo fcinfo, Datum query, Oid subtype)
 		box_query_init(bq, subtype, fcinfo->flinfo->fn_mcxt);
 		fcinfo->flinfo->fn_extra = bq;
 	}
-	if (bq->raw != NULL)
-		pfree(bq->raw);
-	bq->raw = NULL;
+	glue_bytes_forget(&bq->query);
 	box_query_decode(bq, query);
-	if (cacheable)
-	{
-		bq->raw = MemoryContextAlloc(fcinfo->flinfo->fn_mcxt, rawlen);
-		memcpy(bq->raw, raw, rawlen);
-		bq->rawlen = rawlen;
-	}
+	glue_bytes_keep(&bq->query, query, fcinfo->flinfo->fn_mcxt);
 	return bq;
 }
 
@@ -334,7 +322,7 @@ loose_contains(const plane_box *a, const plane_box *b)
  * and for geography, whose entry boxes are enlarged, they overlap.
  */
 Datum
-geo_gist_box_consistent(FunctionCallInfo fcinfo)
+postgis_box_consistent(FunctionCallInfo fcinfo)
 {
 	GISTENTRY  *entry = (GISTENTRY *) PG_GETARG_POINTER(0);
 	StrategyNumber strategy = (StrategyNumber) PG_GETARG_UINT16(2);

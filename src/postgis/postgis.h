@@ -63,7 +63,7 @@ Datum		postgis_from_ewkb(FunctionCallInfo fcinfo, bytea *ewkb, bool geography);
  * operator classes.  GiST consistent for PostGIS's box operators, and the
  * index condition of frechet_at_most on an index of PostGIS's own class.
  */
-Datum		geo_gist_box_consistent(FunctionCallInfo fcinfo);
+Datum		postgis_box_consistent(FunctionCallInfo fcinfo);
 List	   *postgis_box_index_condition(SupportRequestIndexCondition *req, Node *key,
 										Node *other, Node *eps);
 

@@ -46,6 +46,13 @@ void		track_decode_arg(FunctionCallInfo fcinfo, int argidx, track_type type, int
 void		track_decode_pair(FunctionCallInfo fcinfo, track_type type, int flags_a, int flags_b,
 							  glue_track *a, glue_track *b);
 
+/* The two curves of a call, both with geography edges along their geodesics. */
+static inline void
+track_decode_both(FunctionCallInfo fcinfo, track_type type, glue_track *a, glue_track *b)
+{
+	track_decode_pair(fcinfo, type, TRACK_GEODESIC, TRACK_GEODESIC, a, b);
+}
+
 /* Frees what decoding allocated (nothing for point[], whose points are used in place). */
 void		track_free(glue_track *t);
 

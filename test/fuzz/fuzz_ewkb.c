@@ -1,6 +1,6 @@
 /*
  * fuzz_ewkb.c - libFuzzer target for the EWKB/WKB decoder of the PostGIS
- * layer (src/ewkb.c, compiled unchanged against the PostgreSQL 15 headers;
+ * layer (src/postgis/ewkb.c, compiled unchanged against the PostgreSQL 15 headers;
  * the server's error and memory functions are stubbed in pg_stubs.c).
  *
  * The input bytes are the EWKB, copied into a buffer of exactly their size,

@@ -1,6 +1,6 @@
 /*
  * fuzz_point_array.c - libFuzzer target for point[] decoding: the glue's
- * point_array_curve (src/point_array.c, compiled unchanged against the
+ * point_array_curve (src/pg/point_array.c, compiled unchanged against the
  * PostgreSQL 15 headers; the server's error functions are stubbed in
  * pg_stubs.c).
  *
