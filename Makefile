@@ -9,7 +9,7 @@ EXTVERSION = 0.2
 CORE_OBJS = src/core/freespace.o src/core/reach.o src/core/decide.o src/core/distance.o \
 	src/core/discrete.o src/core/matching.o src/core/partial.o \
 	src/core/excursions.o src/core/prune.o src/core/simplify.o src/core/pings.o \
-	src/core/progress.o src/core/bounds.o src/core/geodesy.o
+	src/core/progress.o src/core/passage.o src/core/bounds.o src/core/geodesy.o
 
 # The glue, in layers (DEVELOPERS.md, "Layers of the glue"); a layer calls
 # only the layers before it, which test/reliability/glue_layers.sh checks.

@@ -535,6 +535,20 @@ double		fr_greedy_upper_bound(const fr_prep *p, const fr_prep *q);
 fr_status	fr_distance_prepared(const fr_env *env, const fr_prep *p, const fr_prep *q,
 								 double *result, fr_stats *stats);
 
+/*
+ * Partial matching on prepared pairs (partial.c): p matched whole, q in
+ * part, eps and distances in the local frame.
+ */
+fr_status	fr_partial_match_prepared(const fr_env *env, const fr_prep *p, const fr_prep *q,
+									  double eps, bool *found, double *q_from, double *q_to,
+									  double *distance, fr_stats *stats);
+fr_status	fr_partial_earliest_end(const fr_env *env, const fr_prep *p, const fr_prep *q,
+									double eps, double *row, bool *found, double *end,
+									fr_stats *stats);
+fr_status	fr_partial_decide_prepared(const fr_env *env, const fr_prep *p, const fr_prep *q,
+									   double eps, double *row, bool *result, fr_stats *stats);
+void		fr_partial_bounds(const fr_prep *p, const fr_prep *q, double *lo, double *hi);
+
 /* Opening values a search round keeps at most. */
 #define FR_CANDIDATES 4096
 

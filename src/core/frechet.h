@@ -189,6 +189,40 @@ fr_status	fr_partial_match(const fr_env *env, const fr_curve *trip, const fr_cur
 							 double *distance, fr_stats *stats);
 
 /*
+ * Corridor search (passage.c): the stretch matched whole against a part of
+ * the trip, in the stretch's direction (partial matching with the roles of
+ * fr_partial_match reversed).  fr_passes: is some part of the trip within
+ * Fréchet distance eps of the stretch?  fr_passage_distance: the smallest
+ * such eps (equal to fr_partial_distance(stretch, trip)).  Both sweep only
+ * the windows of the trip near the stretch.
+ */
+fr_status	fr_passes(const fr_env *env, const fr_curve *trip, const fr_curve *stretch,
+					  double eps, bool *result, fr_stats *stats);
+fr_status	fr_passage_distance(const fr_env *env, const fr_curve *trip, const fr_curve *stretch,
+								double *result, fr_stats *stats);
+
+/* A passage: the trip's part from trip_from to trip_to (0-based k + t) and its distance to the stretch. */
+typedef struct fr_passage
+{
+	double		trip_from;
+	double		trip_to;
+	double		distance;
+} fr_passage;
+
+/*
+ * Every passage of the trip through the stretch within eps, in trip order
+ * (*out allocated in env; NULL, 0 when none).  Two passages are separate
+ * when the trip leaves the eps-disc of the stretch's last vertex between
+ * them; each is the part that partial matching picks in its visit (see
+ * passage.c).
+ */
+fr_status	fr_passages(const fr_env *env, const fr_curve *trip, const fr_curve *stretch,
+						double eps, fr_passage **out, size_t *count, fr_stats *stats);
+
+/* Upper bound of the bytes the corridor functions may request. */
+size_t		fr_passage_scratch_bytes(size_t n, size_t m);
+
+/*
  * An excursion: a stretch of the trip, between vertices trip_from and
  * trip_to (0-based), that the chosen order-preserving matching cannot keep
  * within eps; it left the route at route_from and rejoined it at route_to

@@ -101,13 +101,13 @@ edge_pos_reversed(edge_pos e, size_t m)
  * *found: some point of the right edge is reachable, or, when target is
  * not NULL, the right-edge point at *target is.  If best is not NULL it
  * receives the reachable right-edge place nearest to p's last vertex
- * (lowest on ties); otherwise the sweep stops as soon as it knows the
- * answer.
+ * (lowest on ties), or with earliest the lowest reachable right-edge
+ * place; otherwise the sweep stops as soon as it knows the answer.
  */
 static fr_status
 partial_sweep(const fr_env *env, const fr_prep *p, const fr_prep *q, double eps,
 			  start_rule rule, const edge_pos *start, const edge_pos *target,
-			  double *row, bool *found, edge_pos *best, fr_stats *stats)
+			  double *row, bool *found, edge_pos *best, bool earliest, fr_stats *stats)
 {
 	const size_t n = p->n;
 	const fr_pt *end = &p->v[n - 1];
@@ -195,6 +195,13 @@ partial_sweep(const fr_env *env, const fr_prep *p, const fr_prep *q, double eps,
 		*found = true;
 		if (best == NULL)
 			return FR_OK;
+		if (earliest)
+		{
+			/* rows go up the route, so the first reachable right edge holds the lowest place */
+			best->row = j;
+			best->t = right;
+			return FR_OK;
+		}
 		{
 			double		lo,
 						hi,
@@ -248,7 +255,7 @@ partial_decide(const fr_env *env, const fr_prep *p, const fr_prep *q, double eps
 		*result = true;
 		return FR_OK;
 	}
-	return partial_sweep(env, p, q, eps, START_ANYWHERE, NULL, NULL, row, result, NULL, stats);
+	return partial_sweep(env, p, q, eps, START_ANYWHERE, NULL, NULL, row, result, NULL, false, stats);
 }
 
 /* Partial distance and match where the trip or the route is a single point. */
@@ -276,7 +283,7 @@ fr_partial_distance(const fr_env *env, const fr_curve *trip, const fr_curve *rou
 				q;
 	double	   *row;
 	double		lo,
-				pos,
+				hi,
 				from,
 				to;
 	fr_status	st;
@@ -296,11 +303,8 @@ fr_partial_distance(const fr_env *env, const fr_curve *trip, const fr_curve *rou
 		fr_release_pair(env, &p, &q);
 		return FR_ENOMEM;
 	}
-	/* both trip ends must meet the route somewhere */
-	lo = fmax(point_to_curve(&p.v[0], &q, true, &pos), point_to_curve(&p.v[p.n - 1], &q, true, &pos));
-	/* the whole route is one of the parts: a greedy matching bounds from above */
-	st = fr_threshold_search(env, &p, &q, partial_decide, lo,
-							 fr_greedy_upper_bound(&p, &q), row, result, stats);
+	fr_partial_bounds(&p, &q, &lo, &hi);
+	st = fr_threshold_search(env, &p, &q, partial_decide, lo, hi, row, result, stats);
 	fr_free(env, row);
 	if (st == FR_OK)
 		*result = fr_from_local(&p, *result);
@@ -346,7 +350,7 @@ forward_start(const fr_env *env, const fr_prep *p, const fr_prep *q, double eps,
 				continue;
 		}
 		at.t = lo;
-		st = partial_sweep(env, p, q, eps, START_AT, &at, &end, row, &reached, NULL, stats);
+		st = partial_sweep(env, p, q, eps, START_AT, &at, &end, row, &reached, NULL, false, stats);
 		if (st != FR_OK)
 			return st;
 		if (reached)
@@ -370,20 +374,19 @@ prep_magnitude(const fr_prep *c)
 }
 
 /*
- * The part of the route that the trip follows within eps: it ends at the
+ * The part of the route that the trip follows within eps, on a prepared
+ * pair in its local frame (eps and *distance local): it ends at the
  * reachable point of the right edge nearest to the trip's last vertex, and
  * starts at the point nearest to the trip's first vertex among those from
  * which that end can be reached (found by the same sweep on both curves
  * reversed, with the start fixed at the chosen end).
  */
 fr_status
-fr_partial_match(const fr_env *env, const fr_curve *trip, const fr_curve *route,
-				 double eps, bool *found, double *route_from, double *route_to,
-				 double *distance, fr_stats *stats)
+fr_partial_match_prepared(const fr_env *env, const fr_prep *p, const fr_prep *q, double eps,
+						  bool *found, double *route_from, double *route_to,
+						  double *distance, fr_stats *stats)
 {
-	fr_prep		p,
-				q,
-				rp = {0},
+	fr_prep		rp = {0},
 				rq = {0},
 				sub = {0};
 	double	   *row = NULL,
@@ -397,25 +400,16 @@ fr_partial_match(const fr_env *env, const fr_curve *trip, const fr_curve *route,
 	fr_status	st;
 
 	*found = false;
-	st = fr_prepare_pair(env, trip, route, &p, &q);
-	if (st != FR_OK)
-		return st;
-	eps = fr_to_local(&p, eps);
-	if (p.n == 1 || q.n == 1)
+	if (p->n == 1 || q->n == 1)
 	{
-		*distance = degenerate_partial(&p, &q, route_from, route_to);
+		*distance = degenerate_partial(p, q, route_from, route_to);
 		*found = *distance <= eps;
-		*distance = fr_from_local(&p, *distance);
-		fr_release_pair(env, &p, &q);
 		return FR_OK;
 	}
-	row = fr_alloc(env, (p.n + q.n) * sizeof(double));
+	row = fr_alloc(env, (p->n + q->n) * sizeof(double));
 	if (row == NULL)
-	{
-		st = FR_ENOMEM;
-		goto done;
-	}
-	st = partial_sweep(env, &p, &q, eps, START_ANYWHERE, NULL, NULL, row, found, &end, stats);
+		return FR_ENOMEM;
+	st = partial_sweep(env, p, q, eps, START_ANYWHERE, NULL, NULL, row, found, &end, false, stats);
 	if (st != FR_OK || !*found)
 		goto done;
 
@@ -424,9 +418,9 @@ fr_partial_match(const fr_env *env, const fr_curve *trip, const fr_curve *route,
 	 * vertices exactly, no interpolated point), paths starting at the end
 	 * point only.
 	 */
-	st = fr_prep_subcurve(env, &p, 0, (double) (p.n - 1), true, &rp, &rp_pos);
+	st = fr_prep_subcurve(env, p, 0, (double) (p->n - 1), true, &rp, &rp_pos);
 	if (st == FR_OK)
-		st = fr_prep_subcurve(env, &q, 0, (double) (q.n - 1), true, &rq, &rq_pos);
+		st = fr_prep_subcurve(env, q, 0, (double) (q->n - 1), true, &rq, &rq_pos);
 	if (st != FR_OK)
 		goto done;
 	{
@@ -440,20 +434,20 @@ fr_partial_match(const fr_env *env, const fr_curve *trip, const fr_curve *route,
 		 */
 		for (int tries = 0; tries < 12 && !back; tries++, slack = slack == 0 ? 4 * DBL_EPSILON : slack * 8)
 		{
-			edge_pos	rstart = edge_pos_reversed(end, q.n),
+			edge_pos	rstart = edge_pos_reversed(end, q->n),
 						rbest = {0, 0};
 
-			st = partial_sweep(env, &rp, &rq, eps * (1 + slack) + slack * fr_pt_dist(&p.v[0], &q.v[0]),
-							   START_AT, &rstart, NULL, row, &back, &rbest, stats);
+			st = partial_sweep(env, &rp, &rq, eps * (1 + slack) + slack * fr_pt_dist(&p->v[0], &q->v[0]),
+							   START_AT, &rstart, NULL, row, &back, &rbest, false, stats);
 			if (st != FR_OK)
 				goto done;
 			if (back)
-				start = edge_pos_reversed(rbest, q.n);
+				start = edge_pos_reversed(rbest, q->n);
 		}
 		if (!back)
 		{
 			/* rounding beyond any slack: find the start going forward */
-			st = forward_start(env, &p, &q, eps, end, row, &start, stats);
+			st = forward_start(env, p, q, eps, end, row, &start, stats);
 			if (st != FR_OK)
 				goto done;
 		}
@@ -462,9 +456,9 @@ fr_partial_match(const fr_env *env, const fr_curve *trip, const fr_curve *route,
 	from = fmin(edge_pos_value(start), to);
 
 	/* the distance between the trip and that part of the route */
-	st = fr_prep_subcurve(env, &q, from, to, false, &sub, &sub_pos);
+	st = fr_prep_subcurve(env, q, from, to, false, &sub, &sub_pos);
 	if (st == FR_OK)
-		st = fr_distance_prepared(env, &p, &sub, distance, stats);
+		st = fr_distance_prepared(env, p, &sub, distance, stats);
 
 	/*
 	 * A start that the reversed sweep found in its own rounding must still
@@ -472,17 +466,17 @@ fr_partial_match(const fr_env *env, const fr_curve *trip, const fr_curve *route,
 	 * (1e-9 of eps, 1e-12 of the coordinates), the forward start is used.
 	 */
 	if (st == FR_OK &&
-		*distance > eps + 1e-9 * eps + 1e-12 * fmax(prep_magnitude(&p), prep_magnitude(&q)))
+		*distance > eps + 1e-9 * eps + 1e-12 * fmax(prep_magnitude(p), prep_magnitude(q)))
 	{
 		fr_release_prep(env, &sub);
 		fr_free(env, sub_pos);
 		sub_pos = NULL;
-		st = forward_start(env, &p, &q, eps, end, row, &start, stats);
+		st = forward_start(env, p, q, eps, end, row, &start, stats);
 		from = fmin(edge_pos_value(start), to);
 		if (st == FR_OK)
-			st = fr_prep_subcurve(env, &q, from, to, false, &sub, &sub_pos);
+			st = fr_prep_subcurve(env, q, from, to, false, &sub, &sub_pos);
 		if (st == FR_OK)
-			st = fr_distance_prepared(env, &p, &sub, distance, stats);
+			st = fr_distance_prepared(env, p, &sub, distance, stats);
 	}
 	*route_from = from;
 	*route_to = to;
@@ -495,10 +489,102 @@ done:
 	fr_free(env, rq_pos);
 	fr_free(env, sub_pos);
 	fr_free(env, row);
-	if (st == FR_OK && *found)
-		*distance = fr_from_local(&p, *distance);
-	fr_release_pair(env, &p, &q);
 	if (st != FR_OK)
 		*found = false;
 	return st;
+}
+
+/* The part of the route that the trip follows within eps (fr_partial_match_prepared). */
+fr_status
+fr_partial_match(const fr_env *env, const fr_curve *trip, const fr_curve *route,
+				 double eps, bool *found, double *route_from, double *route_to,
+				 double *distance, fr_stats *stats)
+{
+	fr_prep		p,
+				q;
+	fr_status	st;
+
+	*found = false;
+	st = fr_prepare_pair(env, trip, route, &p, &q);
+	if (st != FR_OK)
+		return st;
+	st = fr_partial_match_prepared(env, &p, &q, fr_to_local(&p, eps), found, route_from,
+								   route_to, distance, stats);
+	if (st == FR_OK && *found)
+		*distance = fr_from_local(&p, *distance);
+	fr_release_pair(env, &p, &q);
+	return st;
+}
+
+/*
+ * The lowest reachable place of the right edge when paths start anywhere
+ * on the left edge (the earliest end of a part of q matched to all of p),
+ * as a position on q; *found false when none.  row has room for p->n
+ * doubles.
+ */
+fr_status
+fr_partial_earliest_end(const fr_env *env, const fr_prep *p, const fr_prep *q, double eps,
+						double *row, bool *found, double *end, fr_stats *stats)
+{
+	edge_pos	best = {0, 0};
+	fr_status	st;
+
+	if (q->n == 1 || p->n == 1)
+	{
+		double		from,
+					to;
+
+		*found = degenerate_partial(p, q, &from, &to) <= eps;
+		*end = to;
+		if (*found && p->n == 1)
+		{
+			/* a one-point p: the first place of q within eps of it */
+			for (size_t j = 0; j + 1 < q->n; j++)
+			{
+				double		lo,
+							hi;
+
+				fr_free_interval(&p->v[0], &q->v[j], &q->s[j], &q->v[j + 1], eps, &lo, &hi);
+				if (lo <= hi)
+				{
+					*end = (double) j + lo;
+					break;
+				}
+			}
+		}
+		return FR_OK;
+	}
+	st = partial_sweep(env, p, q, eps, START_ANYWHERE, NULL, NULL, row, found, &best, true, stats);
+	*end = edge_pos_value(best);
+	return st;
+}
+
+/* The partial decider on prepared curves (paths from anywhere on the left edge to the right). */
+fr_status
+fr_partial_decide_prepared(const fr_env *env, const fr_prep *p, const fr_prep *q, double eps,
+						   double *row, bool *result, fr_stats *stats)
+{
+	if (p->n == 1 || q->n == 1)
+	{
+		double		from,
+					to;
+
+		*result = degenerate_partial(p, q, &from, &to) <= eps;
+		return FR_OK;
+	}
+	return partial_decide(env, p, q, eps, row, result, stats);
+}
+
+/*
+ * The bounds of the partial distance's search: both ends of the trip p
+ * must meet q somewhere (below), and all of q is one of the parts (above,
+ * a greedy matching).
+ */
+void
+fr_partial_bounds(const fr_prep *p, const fr_prep *q, double *lo, double *hi)
+{
+	double		pos;
+
+	*lo = fmax(point_to_curve(&p->v[0], q, true, &pos), point_to_curve(&p->v[p->n - 1], q, true, &pos));
+	*hi = fr_greedy_upper_bound(p, q);
 }

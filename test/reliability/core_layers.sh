@@ -7,7 +7,7 @@
 set -uo pipefail
 cd "$(dirname "$0")/../.."
 source test/reliability/lib.sh
-LAYERS=(geodesy freespace reach bounds discrete simplify prune decide distance matching partial excursions pings progress)
+LAYERS=(geodesy freespace reach bounds discrete simplify prune decide distance matching partial passage excursions pings progress)
 
 OBJ=$(mktemp -d /tmp/frechet_layers.XXXXXX)
 trap 'rm -rf "$OBJ"' EXIT

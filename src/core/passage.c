@@ -1,0 +1,388 @@
+/*
+ * passage.c - corridor search: the parts of a long trip that drove a short
+ * stretch.  This is partial matching (Alt & Godau 1995, section 5) with the
+ * roles of partial.c: the stretch is matched whole (p, along x of the free
+ * space) and the trip in part (q, along y).
+ *
+ * Windows.  A part of the trip within eps of the stretch lies, every point
+ * of it, within eps of some point of the stretch, so inside the stretch's
+ * bounding box widened by eps.  The part therefore lies in one run of
+ * consecutive trip edges whose bounding boxes meet that widened box (its
+ * window).  The sweeps run on the windows alone, as sub-curves of the
+ * prepared trip, so they read the same local vertices as a sweep of the
+ * whole trip: a long trip that passes near the stretch once costs a scan
+ * of its edges and one small sweep.  The box is widened further by 1e-9 of
+ * eps and 1e-12 of the coordinates, above the deciders' rounding.
+ *
+ * Passages.  A trip that drove the stretch twice (a bus on a loop) gives
+ * two passages.  They are found in trip order: the next passage is the
+ * matched part that ends first; the trip's visit to the eps-disc around
+ * the stretch's last vertex that contains that end is the passage's visit;
+ * the passage is the part chosen by partial matching inside it (ending
+ * nearest to the stretch's last vertex, starting nearest to its first),
+ * and the search for the next passage starts where the trip leaves that
+ * disc.  So two passages are separate exactly when the trip leaves the
+ * eps-disc of the stretch's end between them.
+ */
+#include <float.h>
+#include <math.h>
+#include <string.h>
+
+#include "fr_internal.h"
+
+/* A window: the trip's vertices a..b (b > a), whose edges meet the widened box. */
+typedef struct window
+{
+	size_t		a,
+				b;
+} window;
+
+/* Largest local coordinate magnitude of a prepared curve. */
+static double
+magnitude(const fr_prep *c)
+{
+	double		m = 0;
+
+	for (size_t i = 0; i < c->n; i++)
+		m = fmax(m, fmax(fabs(c->v[i].x), fmax(fabs(c->v[i].y), fabs(c->v[i].z))));
+	return m;
+}
+
+/*
+ * The windows of trip q for stretch p at eps, in trip order, into w (room
+ * for q->n - 1); their count.
+ */
+static size_t
+find_windows(const fr_prep *p, const fr_prep *q, double eps, window *w)
+{
+	double		lo[3] = {INFINITY, INFINITY, INFINITY},
+				hi[3] = {-INFINITY, -INFINITY, -INFINITY},
+				widen = eps + 1e-9 * eps + 1e-12 * fmax(magnitude(p), magnitude(q)) + 1e-300;
+	size_t		count = 0;
+	bool		open = false;
+
+	for (size_t i = 0; i < p->n; i++)
+	{
+		const double c[3] = {p->v[i].x, p->v[i].y, p->v[i].z};
+
+		for (int d = 0; d < 3; d++)
+		{
+			lo[d] = fmin(lo[d], c[d]);
+			hi[d] = fmax(hi[d], c[d]);
+		}
+	}
+	for (int d = 0; d < 3; d++)
+	{
+		lo[d] -= widen;
+		hi[d] += widen;
+	}
+	for (size_t j = 0; j + 1 < q->n; j++)
+	{
+		const fr_pt *a = &q->v[j],
+				   *b = &q->v[j + 1];
+		bool		meets = fmax(a->x, b->x) >= lo[0] && fmin(a->x, b->x) <= hi[0] &&
+			fmax(a->y, b->y) >= lo[1] && fmin(a->y, b->y) <= hi[1] &&
+			fmax(a->z, b->z) >= lo[2] && fmin(a->z, b->z) <= hi[2];
+
+		if (meets && open)
+			w[count - 1].b = j + 1;
+		else if (meets)
+		{
+			w[count].a = j;
+			w[count].b = j + 1;
+			count++;
+		}
+		open = meets;
+	}
+	return count;
+}
+
+/* The position on q of position pos on a sub-curve whose vertices lie at orig on q. */
+static double
+orig_pos(const double *orig, size_t n, double pos)
+{
+	size_t		k = (size_t) pos;
+	double		t;
+
+	if (k >= n - 1)
+		return orig[n - 1];
+	t = pos - (double) k;
+	return t == 0 ? orig[k] : orig[k] + t * (orig[k + 1] - orig[k]);
+}
+
+/*
+ * The windowed partial decider: is some part of q within eps of all of p?
+ * In the form the threshold search takes (row: room for p->n doubles).
+ */
+static fr_status
+passes_decide(const fr_env *env, const fr_prep *p, const fr_prep *q, double eps, double *row,
+			  bool *result, fr_stats *stats)
+{
+	window	   *w;
+	size_t		count;
+	fr_status	st = FR_OK;
+
+	*result = false;
+	if (isinf(eps))
+	{
+		*result = true;
+		return FR_OK;
+	}
+	if (p->n == 1 || q->n == 1)
+		return fr_partial_decide_prepared(env, p, q, eps, row, result, stats);
+	w = fr_alloc(env, (q->n - 1) * sizeof(window));
+	if (w == NULL)
+		return FR_ENOMEM;
+	count = find_windows(p, q, eps, w);
+	for (size_t k = 0; k < count && st == FR_OK && !*result; k++)
+	{
+		fr_prep		sub = {0};
+		double	   *orig = NULL;
+
+		st = fr_prep_subcurve(env, q, (double) w[k].a, (double) w[k].b, false, &sub, &orig);
+		if (st == FR_OK)
+			st = fr_partial_decide_prepared(env, p, &sub, eps, row, result, stats);
+		fr_release_prep(env, &sub);
+		fr_free(env, orig);
+	}
+	fr_free(env, w);
+	return st;
+}
+
+/* Is some part of the trip within Fréchet distance eps of the whole stretch? */
+fr_status
+fr_passes(const fr_env *env, const fr_curve *trip, const fr_curve *stretch, double eps,
+		  bool *result, fr_stats *stats)
+{
+	fr_prep		p,
+				q;
+	double	   *row;
+	fr_status	st;
+
+	*result = false;
+	st = fr_prepare_pair(env, stretch, trip, &p, &q);
+	if (st != FR_OK)
+		return st;
+	row = fr_alloc(env, (p.n + 1) * sizeof(double));
+	if (row == NULL)
+		st = FR_ENOMEM;
+	else
+		st = passes_decide(env, &p, &q, fr_to_local(&p, eps), row, result, stats);
+	fr_free(env, row);
+	fr_release_pair(env, &p, &q);
+	return st;
+}
+
+/*
+ * The smallest eps for which fr_passes is true: the partial distance with
+ * the stretch matched whole (fr_partial_distance(stretch, trip)), searched
+ * with the windowed decider.
+ */
+fr_status
+fr_passage_distance(const fr_env *env, const fr_curve *trip, const fr_curve *stretch,
+					double *result, fr_stats *stats)
+{
+	fr_prep		p,
+				q;
+	double	   *row;
+	double		lo,
+				hi;
+	fr_status	st;
+
+	st = fr_prepare_pair(env, stretch, trip, &p, &q);
+	if (st != FR_OK)
+		return st;
+	if (p.n == 1 || q.n == 1)
+	{
+		fr_release_pair(env, &p, &q);
+		return fr_partial_distance(env, stretch, trip, result, stats);
+	}
+	row = fr_alloc(env, (p.n + 1) * sizeof(double));
+	if (row == NULL)
+	{
+		fr_release_pair(env, &p, &q);
+		return FR_ENOMEM;
+	}
+	fr_partial_bounds(&p, &q, &lo, &hi);
+	st = fr_threshold_search(env, &p, &q, passes_decide, lo, hi, row, result, stats);
+	if (st == FR_OK)
+		*result = fr_from_local(&p, *result);
+	fr_free(env, row);
+	fr_release_pair(env, &p, &q);
+	return st;
+}
+
+/*
+ * Where the trip q, from position from on, first lies farther than eps
+ * from c (in the deciders' free intervals); q->n - 1 when it never does.
+ */
+static double
+leave_position(const fr_prep *q, const fr_pt *c, double eps, double from)
+{
+	size_t		j = (size_t) from;
+	double		t = from - (double) j;
+
+	if (j + 1 >= q->n)
+		return (double) (q->n - 1);
+	for (; j + 1 < q->n; j++, t = 0)
+	{
+		double		lo,
+					hi;
+
+		fr_free_interval(c, &q->v[j], &q->s[j], &q->v[j + 1], eps, &lo, &hi);
+		/* on the first edge, from may round just before the visit begins */
+		if (lo > t && j == (size_t) from && lo <= hi)
+			t = lo;
+		if (lo > hi || lo > t || hi < t)
+			return (double) j + t;
+		if (hi < 1.0)
+			return (double) j + hi;
+	}
+	return (double) (q->n - 1);
+}
+
+/*
+ * The passages of the trip through the stretch at eps (see the top of this
+ * file): *out (allocated in env, *count entries, NULL when none) holds
+ * each passage's trip positions (0-based k + t) and the Fréchet distance
+ * between the stretch and that part of the trip.
+ */
+fr_status
+fr_passages(const fr_env *env, const fr_curve *trip, const fr_curve *stretch, double eps,
+			fr_passage **out, size_t *count, fr_stats *stats)
+{
+	fr_prep		p,
+				q;
+	window	   *w = NULL;
+	double	   *row = NULL;
+	fr_passage *list = NULL;
+	size_t		nwin = 0,
+				k = 0;
+	double		u = 0;
+	fr_status	st;
+
+	*out = NULL;
+	*count = 0;
+	st = fr_prepare_pair(env, stretch, trip, &p, &q);
+	if (st != FR_OK)
+		return st;
+	eps = fr_to_local(&p, eps);
+	if (p.n == 1 || q.n == 1)
+	{
+		/* a one-point stretch or trip: at most the one part partial matching picks */
+		bool		found;
+		double		from,
+					to,
+					d;
+
+		st = fr_partial_match_prepared(env, &p, &q, eps, &found, &from, &to, &d, stats);
+		if (st == FR_OK && found)
+		{
+			list = fr_alloc(env, sizeof(fr_passage));
+			if (list == NULL)
+				st = FR_ENOMEM;
+			else
+			{
+				list[0].trip_from = from;
+				list[0].trip_to = to;
+				list[0].distance = fr_from_local(&p, d);
+				*out = list;
+				*count = 1;
+			}
+		}
+		fr_release_pair(env, &p, &q);
+		return st;
+	}
+	w = fr_alloc(env, (q.n - 1) * sizeof(window));
+	row = fr_alloc(env, (p.n + 1) * sizeof(double));
+	list = fr_alloc(env, q.n * sizeof(fr_passage));
+	if (w == NULL || row == NULL || list == NULL)
+	{
+		st = FR_ENOMEM;
+		goto done;
+	}
+	nwin = find_windows(&p, &q, eps, w);
+	while (k < nwin && *count < q.n)
+	{
+		double		a = fmax((double) w[k].a, u),
+					end_q = 0,
+					visit_end,
+					from,
+					to,
+					d;
+		bool		found = false;
+		fr_prep		sub = {0};
+		double	   *orig = NULL;
+
+		if (a >= (double) w[k].b)
+		{
+			k++;
+			continue;
+		}
+		/* the earliest end of a part in this window, from u on */
+		st = fr_prep_subcurve(env, &q, a, (double) w[k].b, false, &sub, &orig);
+		if (st == FR_OK)
+			st = fr_partial_earliest_end(env, &p, &sub, eps, row, &found, &end_q, stats);
+		if (st == FR_OK && found)
+			end_q = orig_pos(orig, sub.n, end_q);
+		fr_release_prep(env, &sub);
+		fr_free(env, orig);
+		orig = NULL;
+		if (st != FR_OK)
+			goto done;
+		if (!found)
+		{
+			k++;
+			continue;
+		}
+		/* that end's visit to the disc of the stretch's end, and the part chosen in it */
+		visit_end = fmin(leave_position(&q, &p.v[p.n - 1], eps, end_q), (double) w[k].b);
+
+		/*
+		 * The match runs to the vertex after the visit: a part cut at an
+		 * interpolated point would round its end away from the disc; past
+		 * the visit on that edge the trip stays out of the disc (a
+		 * segment meets a disc in one interval), so no end lies there.
+		 */
+		st = fr_prep_subcurve(env, &q, a, fmin(ceil(visit_end), (double) w[k].b), false, &sub, &orig);
+		if (st == FR_OK)
+			st = fr_partial_match_prepared(env, &p, &sub, eps, &found, &from, &to, &d, stats);
+		if (st == FR_OK && found)
+		{
+			list[*count].trip_from = orig_pos(orig, sub.n, from);
+			list[*count].trip_to = orig_pos(orig, sub.n, to);
+			list[*count].distance = fr_from_local(&p, d);
+			(*count)++;
+		}
+		fr_release_prep(env, &sub);
+		fr_free(env, orig);
+		if (st != FR_OK)
+			goto done;
+		/* on from where the trip leaves the disc (and after the passage); always forward */
+		if (*count > 0)
+			visit_end = fmax(visit_end, list[*count - 1].trip_to);
+		u = visit_end > u ? visit_end : floor(u) + 1;
+		if (u >= (double) (q.n - 1))
+			break;
+	}
+
+done:
+	fr_free(env, w);
+	fr_free(env, row);
+	if (st == FR_OK && *count > 0)
+		*out = list;
+	else
+	{
+		fr_free(env, list);
+		*count = 0;
+	}
+	fr_release_pair(env, &p, &q);
+	return st;
+}
+
+/* Upper bound of the bytes fr_passes, fr_passage_distance and fr_passages may request. */
+size_t
+fr_passage_scratch_bytes(size_t n, size_t m)
+{
+	return 4 * fr_scratch_bytes(n, m) + m * (sizeof(window) + sizeof(fr_passage) + 2 * sizeof(double));
+}
