@@ -21,7 +21,7 @@ TRACK_OBJS = src/track/track.o
 INDEX_OBJS = src/index/key.o src/index/gist.o src/index/support.o
 FUNCTION_OBJS = src/functions/distance.o src/functions/explain.o src/functions/simplify.o \
 	src/functions/piece.o src/functions/check.o src/functions/geojson.o \
-	src/functions/pings.o src/functions/progress.o
+	src/functions/pings.o src/functions/progress.o src/functions/passage.o
 OBJS = $(CORE_OBJS) $(GLUE_BASE_OBJS) $(POINTS_OBJS) $(POSTGIS_OBJS) $(TRACK_OBJS) \
 	$(INDEX_OBJS) $(FUNCTION_OBJS)
 GLUE_DIRS = glue pg postgis track index functions

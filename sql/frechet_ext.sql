@@ -448,3 +448,74 @@ LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 5000 ROWS 1;
 
 COMMENT ON FUNCTION @extschema@.frechet_progress(pg_catalog.point[], pg_catalog.point[], pg_catalog.float8) IS
 'a trip in progress: one row when all of the trip so far is within Fréchet distance epsilon of a prefix of the route (from its start), with where on the route it is now (position k + t, share of the length, the point); no row otherwise';
+
+-- Corridor search (src/core/passage.c): which trips drove a stretch, in
+-- its direction, and which part of each trip it was: partial matching with
+-- the stretch matched whole.  The index condition trip |~~>| frechet_reach
+-- (strategy 31) needs the trip's box to cover the stretch's box shrunk by
+-- epsilon and the stretch's ends within epsilon of it; <~~>> (strategy 32)
+-- orders by the passage distance, bounded below by the stretch's hull.
+CREATE FUNCTION @extschema@.frechet_passes_support(internal)
+RETURNS internal
+AS 'MODULE_PATHNAME', 'frechet_passes_support'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+
+COMMENT ON FUNCTION @extschema@.frechet_passes_support(internal) IS
+'planner support of frechet_passes: the index condition trip |~~>| frechet_reach(stretch, epsilon)';
+
+CREATE FUNCTION @extschema@.frechet_passes(trip pg_catalog.point[], stretch pg_catalog.point[], epsilon pg_catalog.float8)
+RETURNS pg_catalog.bool
+AS 'MODULE_PATHNAME', 'frechet_passes_point_array'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 5000
+SUPPORT @extschema@.frechet_passes_support;
+
+COMMENT ON FUNCTION @extschema@.frechet_passes(pg_catalog.point[], pg_catalog.point[], pg_catalog.float8) IS
+'true when some part of the trip lies within Fréchet distance epsilon (coordinate units) of the whole stretch, driven in the stretch''s direction (partial matching with the stretch matched whole)';
+
+CREATE FUNCTION @extschema@.frechet_passage_distance(trip pg_catalog.point[], stretch pg_catalog.point[])
+RETURNS pg_catalog.float8
+AS 'MODULE_PATHNAME', 'frechet_passage_distance_point_array'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 10000;
+
+COMMENT ON FUNCTION @extschema@.frechet_passage_distance(pg_catalog.point[], pg_catalog.point[]) IS
+'smallest epsilon (coordinate units) for which frechet_passes is true: the Fréchet distance between the stretch and the part of the trip nearest to it in that sense';
+
+CREATE OPERATOR @extschema@.<~~>> (
+	LEFTARG = pg_catalog.point[],
+	RIGHTARG = pg_catalog.point[],
+	FUNCTION = @extschema@.frechet_passage_distance
+);
+
+COMMENT ON OPERATOR @extschema@.<~~>> (pg_catalog.point[], pg_catalog.point[]) IS
+'trip <~~>> stretch: frechet_passage_distance; in ORDER BY, the index finds the trips that drove nearest to the stretch';
+
+CREATE FUNCTION @extschema@.frechet_passage(trip pg_catalog.point[], stretch pg_catalog.point[], epsilon pg_catalog.float8,
+	OUT trip_from pg_catalog.float8, OUT trip_to pg_catalog.float8, OUT distance pg_catalog.float8,
+	OUT trip_part pg_catalog.point[])
+RETURNS SETOF pg_catalog.record
+AS 'MODULE_PATHNAME', 'frechet_passage_point_array'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 20000 ROWS 1;
+
+COMMENT ON FUNCTION @extschema@.frechet_passage(pg_catalog.point[], pg_catalog.point[], pg_catalog.float8) IS
+'one row a passage of the trip through the stretch within epsilon (coordinate units), in trip order: the trip positions (k + t, 1-based), the Fréchet distance between the stretch and that part, the part; two passages are separate when the trip leaves the epsilon-disc around the stretch''s last vertex between them';
+
+CREATE FUNCTION @extschema@.frechet_passes_within_reach(track pg_catalog.point[], reach @extschema@.frechet_key)
+RETURNS pg_catalog.bool
+AS 'MODULE_PATHNAME', 'frechet_passes_within_reach_point_array'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 10;
+
+COMMENT ON FUNCTION @extschema@.frechet_passes_within_reach(pg_catalog.point[], @extschema@.frechet_key) IS
+'false only when no part of the track can lie within the reach''s epsilon of its stretch (the stretch''s ends too far from the track''s box, or a side of the stretch''s box beyond the track''s by more): a necessary condition for frechet_passes';
+
+CREATE OPERATOR @extschema@.|~~>| (
+	LEFTARG = pg_catalog.point[],
+	RIGHTARG = @extschema@.frechet_key,
+	FUNCTION = @extschema@.frechet_passes_within_reach
+);
+
+COMMENT ON OPERATOR @extschema@.|~~>| (pg_catalog.point[], @extschema@.frechet_key) IS
+'trip |~~>| frechet_reach(stretch, epsilon): the index condition of frechet_passes';
+
+ALTER OPERATOR FAMILY @extschema@.frechet_track_ops USING gist ADD
+	OPERATOR 31 @extschema@.|~~>| (pg_catalog.point[], @extschema@.frechet_key),
+	OPERATOR 32 @extschema@.<~~>> (pg_catalog.point[], pg_catalog.point[]) FOR ORDER BY pg_catalog.float_ops;

@@ -893,3 +893,128 @@ LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 5000 ROWS 1;
 
 COMMENT ON FUNCTION @extschema@.frechet_progress(geography, geography, pg_catalog.float8) IS
 'a trip in progress (metres): one row when all of the trip so far is within epsilon of a prefix of the route, with where on the route it is now; no row otherwise';
+
+-- Corridor search on geometry (units of the SRID) and geography (metres):
+-- frechet_passes, frechet_passage_distance (<~~>>), frechet_passage, and
+-- their index strategies 31 and 32 in our operator classes.
+CREATE FUNCTION @extschema@.frechet_geo_passes_support(internal)
+RETURNS internal
+AS 'MODULE_PATHNAME', 'frechet_passes_support'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+
+COMMENT ON FUNCTION @extschema@.frechet_geo_passes_support(internal) IS
+'planner support of frechet_passes on geometry and geography: the index condition trip |~~>| frechet_reach(stretch, epsilon)';
+
+CREATE FUNCTION @extschema@.frechet_passes(trip geometry, stretch geometry, epsilon pg_catalog.float8)
+RETURNS pg_catalog.bool
+AS 'MODULE_PATHNAME', 'frechet_passes_geometry'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 5000
+SUPPORT @extschema@.frechet_geo_passes_support;
+
+COMMENT ON FUNCTION @extschema@.frechet_passes(geometry, geometry, pg_catalog.float8) IS
+'true when some part of the trip lies within Fréchet distance epsilon (units of the SRID) of the whole stretch, driven in the stretch''s direction (partial matching with the stretch matched whole)';
+
+CREATE FUNCTION @extschema@.frechet_passage_distance(trip geometry, stretch geometry)
+RETURNS pg_catalog.float8
+AS 'MODULE_PATHNAME', 'frechet_passage_distance_geometry'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 10000;
+
+COMMENT ON FUNCTION @extschema@.frechet_passage_distance(geometry, geometry) IS
+'smallest epsilon (units of the SRID) for which frechet_passes is true: the Fréchet distance between the stretch and the part of the trip nearest to it in that sense';
+
+CREATE OPERATOR @extschema@.<~~>> (
+	LEFTARG = geometry,
+	RIGHTARG = geometry,
+	FUNCTION = @extschema@.frechet_passage_distance
+);
+
+COMMENT ON OPERATOR @extschema@.<~~>> (geometry, geometry) IS
+'trip <~~>> stretch: frechet_passage_distance; in ORDER BY, the index finds the trips that drove nearest to the stretch';
+
+CREATE FUNCTION @extschema@.frechet_passage(trip geometry, stretch geometry, epsilon pg_catalog.float8,
+	OUT trip_from pg_catalog.float8, OUT trip_to pg_catalog.float8, OUT distance pg_catalog.float8,
+	OUT trip_part geometry, OUT time_from pg_catalog.float8, OUT time_to pg_catalog.float8)
+RETURNS SETOF pg_catalog.record
+AS 'MODULE_PATHNAME', 'frechet_passage_geometry'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 20000 ROWS 1;
+
+COMMENT ON FUNCTION @extschema@.frechet_passage(geometry, geometry, pg_catalog.float8) IS
+'one row a passage of the trip through the stretch within epsilon (units of the SRID), in trip order: the trip positions (k + t, 1-based), the Fréchet distance between the stretch and that part, the part and the trip''s times (M) there (NULL without M); two passages are separate when the trip leaves the epsilon-disc around the stretch''s last vertex between them';
+
+CREATE FUNCTION @extschema@.frechet_passes_within_reach(track geometry, reach frechet_key)
+RETURNS pg_catalog.bool
+AS 'MODULE_PATHNAME', 'frechet_passes_within_reach_geometry'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 100;
+
+COMMENT ON FUNCTION @extschema@.frechet_passes_within_reach(geometry, frechet_key) IS
+'false only when no part of the track can lie within the reach''s epsilon of its stretch (the stretch''s ends too far from the track''s box, or a side of the stretch''s box beyond the track''s by more): a necessary condition for frechet_passes';
+
+CREATE OPERATOR @extschema@.|~~>| (
+	LEFTARG = geometry,
+	RIGHTARG = frechet_key,
+	FUNCTION = @extschema@.frechet_passes_within_reach
+);
+
+COMMENT ON OPERATOR @extschema@.|~~>| (geometry, frechet_key) IS
+'trip |~~>| frechet_reach(stretch, epsilon): the index condition of frechet_passes';
+
+ALTER OPERATOR FAMILY @extschema@.frechet_geometry_ops USING gist ADD
+	OPERATOR 31 @extschema@.|~~>| (geometry, frechet_key),
+	OPERATOR 32 @extschema@.<~~>> (geometry, geometry) FOR ORDER BY pg_catalog.float_ops;
+
+CREATE FUNCTION @extschema@.frechet_passes(trip geography, stretch geography, epsilon pg_catalog.float8)
+RETURNS pg_catalog.bool
+AS 'MODULE_PATHNAME', 'frechet_passes_geography'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 5000
+SUPPORT @extschema@.frechet_geo_passes_support;
+
+COMMENT ON FUNCTION @extschema@.frechet_passes(geography, geography, pg_catalog.float8) IS
+'true when some part of the trip lies within Fréchet distance epsilon (metres on WGS84) of the whole stretch, driven in the stretch''s direction (partial matching with the stretch matched whole)';
+
+CREATE FUNCTION @extschema@.frechet_passage_distance(trip geography, stretch geography)
+RETURNS pg_catalog.float8
+AS 'MODULE_PATHNAME', 'frechet_passage_distance_geography'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 10000;
+
+COMMENT ON FUNCTION @extschema@.frechet_passage_distance(geography, geography) IS
+'smallest epsilon (metres on WGS84) for which frechet_passes is true: the Fréchet distance between the stretch and the part of the trip nearest to it in that sense';
+
+CREATE OPERATOR @extschema@.<~~>> (
+	LEFTARG = geography,
+	RIGHTARG = geography,
+	FUNCTION = @extschema@.frechet_passage_distance
+);
+
+COMMENT ON OPERATOR @extschema@.<~~>> (geography, geography) IS
+'trip <~~>> stretch: frechet_passage_distance; in ORDER BY, the index finds the trips that drove nearest to the stretch';
+
+CREATE FUNCTION @extschema@.frechet_passage(trip geography, stretch geography, epsilon pg_catalog.float8,
+	OUT trip_from pg_catalog.float8, OUT trip_to pg_catalog.float8, OUT distance pg_catalog.float8,
+	OUT trip_part geography, OUT time_from pg_catalog.float8, OUT time_to pg_catalog.float8)
+RETURNS SETOF pg_catalog.record
+AS 'MODULE_PATHNAME', 'frechet_passage_geography'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 20000 ROWS 1;
+
+COMMENT ON FUNCTION @extschema@.frechet_passage(geography, geography, pg_catalog.float8) IS
+'one row a passage of the trip through the stretch within epsilon (metres on WGS84), in trip order: the trip positions (k + t, 1-based), the Fréchet distance between the stretch and that part, the part and the trip''s times (M) there (NULL without M); two passages are separate when the trip leaves the epsilon-disc around the stretch''s last vertex between them';
+
+CREATE FUNCTION @extschema@.frechet_passes_within_reach(track geography, reach frechet_key)
+RETURNS pg_catalog.bool
+AS 'MODULE_PATHNAME', 'frechet_passes_within_reach_geography'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 100;
+
+COMMENT ON FUNCTION @extschema@.frechet_passes_within_reach(geography, frechet_key) IS
+'false only when no part of the track can lie within the reach''s epsilon of its stretch (the stretch''s ends too far from the track''s box, or a side of the stretch''s box beyond the track''s by more): a necessary condition for frechet_passes';
+
+CREATE OPERATOR @extschema@.|~~>| (
+	LEFTARG = geography,
+	RIGHTARG = frechet_key,
+	FUNCTION = @extschema@.frechet_passes_within_reach
+);
+
+COMMENT ON OPERATOR @extschema@.|~~>| (geography, frechet_key) IS
+'trip |~~>| frechet_reach(stretch, epsilon): the index condition of frechet_passes';
+
+ALTER OPERATOR FAMILY @extschema@.frechet_geography_ops USING gist ADD
+	OPERATOR 31 @extschema@.|~~>| (geography, frechet_key),
+	OPERATOR 32 @extschema@.<~~>> (geography, geography) FOR ORDER BY pg_catalog.float_ops;

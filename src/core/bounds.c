@@ -252,6 +252,53 @@ fr_key_hull_bound(const fr_key *node, const fr_key *qkey,
 	return max2(lb, h);
 }
 
+/* Distance from the x,y box of interval pair (ix, iy) of k to the overall box of node. */
+static inline double
+node_box_gap(const fr_key *node, const fr_key *k, int ix, int iy)
+{
+	double		dx = interval_gap(node->lo[FR_KEY_MIN_X], node->hi[FR_KEY_MAX_X], k->lo[ix], k->hi[ix]);
+	double		dy = interval_gap(node->lo[FR_KEY_MIN_Y], node->hi[FR_KEY_MAX_Y], k->lo[iy], k->hi[iy]);
+
+	return sqrt(dx * dx + dy * dy);
+}
+
+/*
+ * Lower bound on the passage distance (passage.c) from the stretch
+ * summarised by stretch to a part of any trip summarised by node: every
+ * point of the stretch is matched to a trip point, which lies in the
+ * node's overall box, so the stretch's first and last vertices lie within
+ * the distance of that box, and each side of the stretch's box within the
+ * distance of the side of the trip's (the trip's box covers the stretch's
+ * box shrunk by the distance).  The trip's ends are free.  Loosened.
+ */
+double
+fr_key_passage_bound(const fr_key *node, const fr_key *stretch)
+{
+	double		lb = max2(node_box_gap(node, stretch, FR_KEY_START_X, FR_KEY_START_Y),
+						  node_box_gap(node, stretch, FR_KEY_END_X, FR_KEY_END_Y));
+
+	/* the smallest min side a trip may have, against the stretch's; likewise max sides */
+	lb = max2(lb, node->lo[FR_KEY_MIN_X] - stretch->hi[FR_KEY_MIN_X]);
+	lb = max2(lb, node->lo[FR_KEY_MIN_Y] - stretch->hi[FR_KEY_MIN_Y]);
+	lb = max2(lb, stretch->lo[FR_KEY_MAX_X] - node->hi[FR_KEY_MAX_X]);
+	lb = max2(lb, stretch->lo[FR_KEY_MAX_Y] - node->hi[FR_KEY_MAX_Y]);
+	return fr_bound_loosen(lb, max2(key_magnitude(node), key_magnitude(stretch)));
+}
+
+/* fr_key_passage_bound raised by the distance from each hull vertex of the stretch to the node's box. */
+double
+fr_key_passage_hull_bound(const fr_key *node, const fr_key *stretch,
+						  const double *hull, size_t nhull)
+{
+	double		lb = fr_key_passage_bound(node, stretch);
+	double		h = 0.0;
+
+	for (size_t i = 0; i < nhull; i++)
+		h = max2(h, point_box_gap(node, hull[2 * i], hull[2 * i + 1]));
+	h = fr_bound_loosen(h, max2(key_magnitude(node), key_magnitude(stretch)));
+	return max2(lb, h);
+}
+
 /* Lexicographic order of x,y pairs. */
 static inline bool
 pair_less(const double *a, const double *b)

@@ -113,6 +113,18 @@ double		fr_key_hull_bound(const fr_key *node, const fr_key *qkey,
 							  const double *hull, size_t nhull);
 
 /*
+ * Lower bound on the passage distance (fr_passage_distance) from the
+ * stretch summarised by stretch to a part of any trip summarised by node:
+ * the stretch's ends within the distance of the node's overall box, the
+ * trip's box covering the stretch's box shrunk by the distance.  With a
+ * hull of the stretch's x,y vertices, raised by their distance to the
+ * node's box.  Loosened.
+ */
+double		fr_key_passage_bound(const fr_key *node, const fr_key *stretch);
+double		fr_key_passage_hull_bound(const fr_key *node, const fr_key *stretch,
+									  const double *hull, size_t nhull);
+
+/*
  * Convex hull of the curve's x,y vertices (Andrew's monotone chain).  sorted
  * needs room for 2 n doubles and hull for 4 n; returns the number of hull
  * vertices written to hull as x,y pairs (at least 1).  Allocates nothing.

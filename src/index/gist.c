@@ -67,8 +67,14 @@ gist_consistent(FunctionCallInfo fcinfo, bool kind_known, frechet_key_kind kind)
 		*recheck = false;
 		PG_RETURN_BOOL(frechet_key_ping_bound(key, query) <= frechet_key_reach(query));
 	}
+	if (strategy == FRECHET_STRATEGY_PASSES)
+	{
+		/* exact on a leaf, as for |~~|; frechet_passes stays the filter */
+		*recheck = false;
+		PG_RETURN_BOOL(fr_key_passage_bound(key, query) <= frechet_key_reach(query));
+	}
 	if (strategy != FRECHET_STRATEGY_REACH)
-		elog(ERROR, "frechet_track_ops: unknown strategy number %d", strategy);
+		elog(ERROR, "Fréchet operator classes: unknown strategy number %d", strategy);
 
 	/*
 	 * On a leaf this is the very test of the |~~| operator, so no recheck of
@@ -335,11 +341,14 @@ gist_distance(FunctionCallInfo fcinfo, track_type type)
 	route_cache *rc;
 	double		d;
 
-	if (strategy != FRECHET_STRATEGY_DISTANCE)
+	if (strategy != FRECHET_STRATEGY_DISTANCE && strategy != FRECHET_STRATEGY_PASSAGE_DISTANCE)
 		elog(ERROR, "Fréchet operator classes: unknown ordering strategy number %d", strategy);
 	rc = route_cache_get(fcinfo, PG_GETARG_DATUM(1), type);
 	*recheck = true;
-	d = fr_key_hull_bound(DatumGetFrechetKey(entry->key), &rc->key, rc->hull, rc->nhull);
+	if (strategy == FRECHET_STRATEGY_PASSAGE_DISTANCE)
+		d = fr_key_passage_hull_bound(DatumGetFrechetKey(entry->key), &rc->key, rc->hull, rc->nhull);
+	else
+		d = fr_key_hull_bound(DatumGetFrechetKey(entry->key), &rc->key, rc->hull, rc->nhull);
 	/* metres grow with the chord, so a lower bound of the chord gives one of the metres */
 	PG_RETURN_FLOAT8(track_out_distance(type, d));
 }

@@ -29,6 +29,13 @@
  * index on a column (see below), so no box strategy can ever reach it.
  */
 #define FRECHET_STRATEGY_PINGS 30
+/*
+ * Strategy of "trip |~~>| frechet_reach(stretch, epsilon)": the range-query
+ * condition of frechet_passes (fr_key_passage_bound).
+ */
+#define FRECHET_STRATEGY_PASSES 31
+/* Strategy of "trip <~~>> stretch" in ORDER BY: the nearest passages. */
+#define FRECHET_STRATEGY_PASSAGE_DISTANCE 32
 
 /*
  * The geometry and geography classes also hold PostGIS's box operators

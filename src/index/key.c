@@ -305,11 +305,19 @@ pings_within_reach(FunctionCallInfo fcinfo, track_type type)
 	PG_RETURN_BOOL(within_reach(fcinfo, 0, type, PG_GETARG_FRECHET_KEY(1), frechet_key_ping_bound));
 }
 
+/* trip |~~>| reach: the condition of frechet_passes (fr_key_passage_bound). */
+static Datum
+passes_within_reach(FunctionCallInfo fcinfo, track_type type)
+{
+	PG_RETURN_BOOL(within_reach(fcinfo, 0, type, PG_GETARG_FRECHET_KEY(1), fr_key_passage_bound));
+}
+
 TRACK_FUNCTIONS(frechet_track_key, track_key)
 TRACK_FUNCTIONS(frechet_reach, reach)
 TRACK_FUNCTIONS(frechet_within_reach, within_reach_left)
 TRACK_FUNCTIONS(frechet_reach_within, within_reach_right)
 TRACK_FUNCTIONS(frechet_pings_within_reach, pings_within_reach)
+TRACK_FUNCTIONS(frechet_passes_within_reach, passes_within_reach)
 
 PG_FUNCTION_INFO_V1(frechet_cheap_verdict_point_array);
 /*

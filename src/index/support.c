@@ -111,16 +111,19 @@ glue_check_constant_epsilon(Node *rawreq)
 }
 
 /*
- * Planner support of frechet_at_most: a constant epsilon checked, and a
- * lossy index condition on an index of ours, or with postgis (geometry and
- * geography) on PostGIS's own index.
+ * A planner support function for one strategy: a constant epsilon checked
+ * while planning (check_eps), and "indexed OP frechet_reach(route, eps)"
+ * for a call of min_args..max_args arguments whose indexed argument is
+ * one of indexable (bit mask of the first two); with postgis, on an index
+ * of PostGIS's own class, the && condition of box_strategies.c instead.
  */
 static Datum
-at_most_support(FunctionCallInfo fcinfo, bool postgis)
+strategy_support(FunctionCallInfo fcinfo, int min_args, int max_args, int indexable,
+				 StrategyNumber strategy, bool check_eps, bool postgis)
 {
 	Node	   *rawreq = (Node *) PG_GETARG_POINTER(0);
 
-	if (IsA(rawreq, SupportRequestSimplify))
+	if (check_eps && IsA(rawreq, SupportRequestSimplify))
 		glue_check_constant_epsilon(rawreq);
 	if (IsA(rawreq, SupportRequestIndexCondition))
 	{
@@ -130,9 +133,9 @@ at_most_support(FunctionCallInfo fcinfo, bool postgis)
 				   *eps;
 		List	   *conds = NIL;
 
-		if (call_arguments(req, 3, 3, 0x3, &indexed, &route, &eps))
+		if (call_arguments(req, min_args, max_args, indexable, &indexed, &route, &eps))
 		{
-			conds = reach_condition(req, indexed, route, eps, FRECHET_STRATEGY_REACH);
+			conds = reach_condition(req, indexed, route, eps, strategy);
 			if (conds == NIL && postgis)
 				conds = postgis_box_index_condition(req, indexed, route, eps);
 		}
@@ -142,45 +145,37 @@ at_most_support(FunctionCallInfo fcinfo, bool postgis)
 	PG_RETURN_POINTER(NULL);
 }
 
+/*
+ * The strategies.  frechet_at_most: either argument may be indexed (the
+ * distance is symmetric).  frechet_pings_at_most(trip, route, epsilon[,
+ * max_gap]): the trip only, as the route may reach anywhere between two
+ * pings.  frechet_passes(trip, stretch, epsilon): the trip only, matched
+ * in part.
+ */
 PG_FUNCTION_INFO_V1(frechet_at_most_support);
-/* Planner support for frechet_at_most on point[]. */
 Datum
 frechet_at_most_support(PG_FUNCTION_ARGS)
 {
-	return at_most_support(fcinfo, false);
+	return strategy_support(fcinfo, 3, 3, 0x3, FRECHET_STRATEGY_REACH, true, false);
 }
 
 PG_FUNCTION_INFO_V1(frechet_geo_at_most_support);
-/* Planner support for frechet_at_most on geometry and geography. */
 Datum
 frechet_geo_at_most_support(PG_FUNCTION_ARGS)
 {
-	return at_most_support(fcinfo, true);
+	return strategy_support(fcinfo, 3, 3, 0x3, FRECHET_STRATEGY_REACH, true, true);
 }
 
 PG_FUNCTION_INFO_V1(frechet_pings_support);
-/*
- * Planner support for frechet_pings_at_most(trip, route, epsilon[,
- * max_gap]) on every input type.  The route may reach anywhere between two
- * pings, so only the trip can be the indexed argument.
- */
 Datum
 frechet_pings_support(PG_FUNCTION_ARGS)
 {
-	Node	   *rawreq = (Node *) PG_GETARG_POINTER(0);
+	return strategy_support(fcinfo, 3, 4, 0x1, FRECHET_STRATEGY_PINGS, false, false);
+}
 
-	if (IsA(rawreq, SupportRequestIndexCondition))
-	{
-		SupportRequestIndexCondition *req = (SupportRequestIndexCondition *) rawreq;
-		Node	   *trip,
-				   *route,
-				   *eps;
-		List	   *conds = NIL;
-
-		if (call_arguments(req, 3, 4, 0x1, &trip, &route, &eps))
-			conds = reach_condition(req, trip, route, eps, FRECHET_STRATEGY_PINGS);
-		if (conds != NIL)
-			PG_RETURN_POINTER(conds);
-	}
-	PG_RETURN_POINTER(NULL);
+PG_FUNCTION_INFO_V1(frechet_passes_support);
+Datum
+frechet_passes_support(PG_FUNCTION_ARGS)
+{
+	return strategy_support(fcinfo, 3, 3, 0x1, FRECHET_STRATEGY_PASSES, true, false);
 }

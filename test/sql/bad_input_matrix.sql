@@ -177,6 +177,7 @@ CREATE FUNCTION pg_temp.linear_members() RETURNS text[] LANGUAGE sql AS $$
 	SELECT pg_catalog.array_agg(c.member) FROM callables c
 	WHERE c.member LIKE '|~~%' OR c.member LIKE 'frechet_reach%' OR c.member LIKE 'frechet_track_key%'
 	   OR c.member LIKE 'frechet_within_reach%' OR c.member LIKE 'frechet_pings_within_reach%'
+	   OR c.member LIKE 'frechet_passes_within_reach%'
 	   OR c.member LIKE 'frechet_pings_excursions%'
 	   OR c.member LIKE 'frechet_simplify%'
 	   OR c.member LIKE 'frechet_track_piece%' OR c.member LIKE 'frechet_track_geojson%'
