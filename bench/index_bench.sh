@@ -6,18 +6,21 @@
 # stage settles.  See bench/README.md.
 #
 #   bash bench/index_bench.sh [--tracks N] [--range N] [--range-seq N]
-#                             [--knn N] [--knn-seq N] [--seed N]
+#                             [--knn N] [--knn-seq N] [--corridor N]
+#                             [--corridor-seq N] [--seed N]
 #
 # Defaults: 20,000 trips, 1,000 range queries of which the first 100 also
 # run by sequential scan (about 0.7 s each; --range-seq 1000 runs them all),
 # 100 k-nearest queries.  A sequential k-nearest query computes 20,000 exact
 # distances (about 25 minutes on the plain decider), so by default its time
 # is estimated from 200 timed distances; --knn-seq N also runs N for real.
+# Corridor queries (frechet_passes on 1 km stretches): 100, the first 10
+# also by sequential scan.
 # Ratios are per query.
 set -euo pipefail
 cd "$(dirname "$0")/.."
 ROOT=$PWD
-tracks=20000 nrange=1000 nrangeseq=100 nknn=100 nknnseq=0 seed=1
+tracks=20000 nrange=1000 nrangeseq=100 nknn=100 nknnseq=0 ncorr=100 ncorrseq=10 seed=1
 while [ $# -gt 0 ]; do
 	case "$1" in
 		--tracks) tracks=$2 ;;
@@ -25,6 +28,8 @@ while [ $# -gt 0 ]; do
 		--range-seq) nrangeseq=$2 ;;
 		--knn) nknn=$2 ;;
 		--knn-seq) nknnseq=$2 ;;
+		--corridor) ncorr=$2 ;;
+		--corridor-seq) ncorrseq=$2 ;;
 		--seed) seed=$2 ;;
 		*) echo "unknown option $1" >&2; exit 2 ;;
 	esac
@@ -47,7 +52,7 @@ pg_throwaway_start
 trap 'pg_throwaway_stop; rm -rf "$WORK"' EXIT
 
 psql -X -q -v gen="$WORK/index_gen" -v genopts="--tracks $tracks --seed $seed" \
-	-v nrange="$nrange" -v nrangeseq="$nrangeseq" -v nknn="$nknn" -v nknnseq="$nknnseq" \
+	-v nrange="$nrange" -v nrangeseq="$nrangeseq" -v nknn="$nknn" -v nknnseq="$nknnseq" -v ncorr="$ncorr" -v ncorrseq="$ncorrseq" \
 	-f bench/index_bench.sql -A -F '|' -t -o "$WORK/results.txt" 2>&1 | grep -v '^$' || true
 exec 9>&-
 
@@ -79,5 +84,16 @@ awk -F'|' '
 		kt = v["knn idx tuples after"] - v["range idx tuples after"]; kp = v["trips"] * nk
 		printf "| k-nearest stage | (query, trip) pairs | share |\n|---|---|---|\n"
 		printf "| index bound (no exact distance) | %d | %s |\n", kp - kt, pct(kp - kt, kp)
-		printf "| exact distance computed | %d | %s |\n", kt, pct(kt, kp)
+		printf "| exact distance computed | %d | %s |\n\n", kt, pct(kt, kp)
+		cq = v["corridor seq queries"]; nc = '"$ncorr"'
+		cs = v["corridor seq ms"] / cq; ci = v["corridor idx ms"] / nc
+		printf "| corridor (frechet_passes, 1 km stretch) | sequential scan | GiST index | ratio (seq / index) |\n|---|---|---|---|\n"
+		printf "| %d queries (seq: first %d) | %.1f ms/query | %.2f ms/query | %.0fx |\n\n", nc, cq, cs, ci, cs / ci
+		printf "answers: corridor %d rows found, %d of %d queries differ between plans\n\n",
+			v["corridor found all"], v["corridor mismatches"], cq
+		cp = v["trips"] * nc; cc = v["corridor candidates"]
+		printf "| corridor stage | (query, trip) pairs settled | share of all pairs | share of index candidates |\n|---|---|---|---|\n"
+		printf "| index key (never fetched) | %d | %s | |\n", cp - cc, pct(cp - cc, cp)
+		printf "| scan of the trip (no window near the stretch) | %d | %s | %s |\n", v["corridor windows"], pct(v["corridor windows"], cp), pct(v["corridor windows"], cc)
+		printf "| decider (sweeps of the windows) | %d | %s | %s |\n", v["corridor decider"], pct(v["corridor decider"], cp), pct(v["corridor decider"], cc)
 	}' "$WORK/results.txt"

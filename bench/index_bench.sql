@@ -1,6 +1,6 @@
 -- index_bench.sql - run by index_bench.sh in one psql session on a throwaway
 -- server.  Variables: gen (the generator), genopts (its options), nrange, nrangeseq,
--- nknn, nknnseq.  Times are in milliseconds from clock_timestamp().
+-- nknn, nknnseq, ncorr, ncorrseq.  Times are in milliseconds from clock_timestamp().
 \set ON_ERROR_STOP 1
 \pset footer off
 SET client_min_messages = warning;
@@ -14,12 +14,15 @@ SET stats_fetch_consistency = none;
 CREATE TABLE trips (id int PRIMARY KEY, route int, kind text, track point[]);
 CREATE TABLE range_queries (qid int PRIMARY KEY, route int, eps float8, path point[]);
 CREATE TABLE knn_queries (qid int PRIMARY KEY, route int, path point[]);
+CREATE TABLE corridor_queries (qid int PRIMARY KEY, route int, eps float8, path point[]);
 \set cmd :gen ' tracks ' :genopts
 COPY trips FROM PROGRAM :'cmd';
 \set cmd :gen ' range ' :genopts ' --queries ' :nrange
 COPY range_queries FROM PROGRAM :'cmd';
 \set cmd :gen ' knn ' :genopts ' --queries ' :nknn
 COPY knn_queries FROM PROGRAM :'cmd';
+\set cmd :gen ' corridor ' :genopts ' --queries ' :ncorr
+COPY corridor_queries FROM PROGRAM :'cmd';
 VACUUM ANALYZE trips;
 
 CREATE TABLE results (item text PRIMARY KEY, value float8);
@@ -27,6 +30,8 @@ CREATE FUNCTION pg_temp.note(item text, value float8) RETURNS void
 LANGUAGE sql AS $$ INSERT INTO results VALUES (item, value) ON CONFLICT (item) DO UPDATE SET value = EXCLUDED.value $$;
 CREATE FUNCTION pg_temp.cheap_verdict(point[], point[], float8) RETURNS text
 AS '$libdir/frechet_ext', 'frechet_cheap_verdict_point_array' LANGUAGE C IMMUTABLE STRICT;
+CREATE FUNCTION pg_temp.passes_stage(point[], point[], float8) RETURNS text
+AS '$libdir/frechet_ext', 'frechet_passes_stage_point_array' LANGUAGE C IMMUTABLE STRICT;
 
 SELECT pg_temp.note('trips', count(*)), pg_temp.note('points mean', avg(cardinality(track))),
        pg_temp.note('points sd', stddev_pop(cardinality(track))),
@@ -68,6 +73,22 @@ BEGIN
 	RETURN extract(epoch FROM clock_timestamp() - t0) * 1000;
 END $$;
 
+-- Corridor queries: which trips drove a 1 km stretch (frechet_passes).
+CREATE TABLE corridor_found (mode text, qid int, found bigint, PRIMARY KEY (mode, qid));
+CREATE FUNCTION pg_temp.run_corridor(mode text, nq int) RETURNS float8
+LANGUAGE plpgsql AS $$
+DECLARE
+	q record;
+	c bigint;
+	t0 timestamptz := clock_timestamp();
+BEGIN
+	FOR q IN SELECT * FROM corridor_queries WHERE qid <= nq ORDER BY qid LOOP
+		EXECUTE 'SELECT count(*) FROM trips WHERE frechet_passes(track, $1, $2)' INTO c USING q.path, q.eps;
+		INSERT INTO corridor_found VALUES (mode, q.qid, c);
+	END LOOP;
+	RETURN extract(epoch FROM clock_timestamp() - t0) * 1000;
+END $$;
+
 CREATE FUNCTION pg_temp.index_tuples_read() RETURNS float8
 LANGUAGE sql AS $$ SELECT coalesce(sum(idx_tup_read), 0)::float8 FROM pg_stat_user_indexes WHERE indexrelname = 'trips_track_idx' $$;
 
@@ -75,6 +96,9 @@ LANGUAGE sql AS $$ SELECT coalesce(sum(idx_tup_read), 0)::float8 FROM pg_stat_us
 \echo sequential scan: range queries
 SELECT pg_temp.note('range seq ms', pg_temp.run_range('seq', :nrangeseq));
 SELECT pg_temp.note('range seq queries', count(*)) FROM range_found WHERE mode = 'seq';
+\echo sequential scan: corridor queries
+SELECT pg_temp.note('corridor seq ms', pg_temp.run_corridor('seq', :ncorrseq));
+SELECT pg_temp.note('corridor seq queries', count(*)) FROM corridor_found WHERE mode = 'seq';
 \echo sequential scan: k-nearest queries
 SELECT :nknnseq > 0 AS do_knn_seq \gset
 \if :do_knn_seq
@@ -109,6 +133,8 @@ SELECT pg_temp.note('range idx tuples before', pg_temp.index_tuples_read());
 SELECT pg_temp.note('range idx ms', pg_temp.run_range('index', :nrange));
 SELECT pg_stat_force_next_flush();
 SELECT pg_temp.note('range idx tuples after', pg_temp.index_tuples_read());
+\echo index: corridor queries
+SELECT pg_temp.note('corridor idx ms', pg_temp.run_corridor('index', :ncorr));
 \echo index: k-nearest queries
 SELECT pg_temp.note('knn idx ms', pg_temp.run_knn('index', :nknn));
 SELECT pg_stat_force_next_flush();
@@ -119,6 +145,9 @@ SELECT pg_temp.note('range mismatches', count(*) FILTER (WHERE s.found IS DISTIN
        pg_temp.note('range found', sum(i.found))
 FROM range_found s JOIN range_found i ON i.qid = s.qid AND i.mode = 'index' WHERE s.mode = 'seq';
 SELECT pg_temp.note('range found all', sum(found)) FROM range_found WHERE mode = 'index';
+SELECT pg_temp.note('corridor mismatches', count(*) FILTER (WHERE s.found IS DISTINCT FROM i.found))
+FROM corridor_found s JOIN corridor_found i ON i.qid = s.qid AND i.mode = 'index' WHERE s.mode = 'seq';
+SELECT pg_temp.note('corridor found all', sum(found)) FROM corridor_found WHERE mode = 'index';
 SELECT pg_temp.note('knn mismatches', count(*) FILTER (WHERE s.ds IS DISTINCT FROM i.ds))
 FROM knn_found s JOIN knn_found i ON i.qid = s.qid AND i.mode = 'index' WHERE s.mode = 'seq';
 
@@ -131,5 +160,14 @@ SELECT pg_temp.note('range candidates', count(*)),
        pg_temp.note('range decider', count(*) FILTER (WHERE v = 'undecided'))
 FROM (SELECT pg_temp.cheap_verdict(t.track, q.path, q.eps) AS v
       FROM range_queries q JOIN trips t ON t.track |~~| frechet_reach(q.path, q.eps)) s;
+
+-- Stages of the corridor queries: what the index key lets through, what
+-- the scan of the trip's edges settles (no window near the stretch), what
+-- reaches a sweep of the free space.
+SELECT pg_temp.note('corridor candidates', count(*)),
+       pg_temp.note('corridor windows', count(*) FILTER (WHERE v = 'windows')),
+       pg_temp.note('corridor decider', count(*) FILTER (WHERE v = 'decider'))
+FROM (SELECT pg_temp.passes_stage(t.track, q.path, q.eps) AS v
+      FROM corridor_queries q JOIN trips t ON t.track |~~>| frechet_reach(q.path, q.eps)) s;
 
 SELECT item, round(value::numeric, 3) AS value FROM results ORDER BY item;

@@ -6,6 +6,7 @@
  *   index_gen tracks  --tracks N --routes R --clusters C --seed S
  *   index_gen range   --queries Q ... (same routes: same --routes, --clusters, --seed)
  *   index_gen knn     --queries Q ...
+ *   index_gen corridor --queries Q ...
  *
  * Routes: each cluster has a hub (a bus station, say) at a random place in
  * a 40 km square of projected metres around (450000, 5400000); each of its
@@ -16,6 +17,8 @@
  * default 80 routes in 8 clusters they have about 260 points on average
  * (standard deviation about 150).  Queries are fresh drives of the routes
  * (not rows of the table); range queries use epsilon 25, 40 or 60 m.
+ * Corridor queries are 1 km stretches of the routes (a point every 10-30 m
+ * on the route itself) with epsilon 25 or 40 m.
  */
 #define _POSIX_C_SOURCE 200809L
 
@@ -303,8 +306,27 @@ main(int argc, char **argv)
 			free(t.xy);
 		}
 	}
+	else if (strcmp(o.mode, "corridor") == 0)
+	{
+		for (long q = 0; q < o.queries; q++)
+		{
+			gen_rng		g = rng_for(o.seed, 6, (uint64_t) q);
+			long		r = (long) (rng_next(&g) % (uint64_t) o.routes);
+			double		len = route_length(&routes[r]),
+						s0 = len > 1000 ? uniform(&g, 0, len - 1000) : 0;
+			static const double eps_choices[] = {25, 40};
+
+			/* a 1 km stretch of the route (all of a shorter one), a point every 10-30 m on it */
+			pts			t = drive(&g, &routes[r], s0, fmin(len, s0 + 1000), 0);
+
+			printf("%ld\t%ld\t%g\t", q + 1, r + 1, eps_choices[rng_next(&g) % 2]);
+			print_track(&t);
+			putchar('\n');
+			free(t.xy);
+		}
+	}
 	else
-		die("mode must be tracks, range or knn");
+		die("mode must be tracks, range, knn or corridor");
 	for (long r = 0; r < o.routes; r++)
 		free(routes[r].xy);
 	free(routes);

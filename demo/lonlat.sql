@@ -33,7 +33,7 @@ SELECT t.trip_id, t.line_id, t.story,
 FROM trip t WHERE t.line_id IS NOT NULL;
 
 \echo
-\echo '== 9. Trajectories (geography with time in M): when did each detour leave its line,'
+\echo '== 10. Trajectories (geography with time in M): when did each detour leave its line,'
 \echo '   and for how long?  route_length is the stretch of line it skipped meanwhile.'
 SELECT x.trip_id, x.line_id, to_char(to_timestamp(x.time_from) AT TIME ZONE 'UTC', 'HH24:MI:SS') AS left_at,
        round(x.time_to - x.time_from) AS seconds_away, round(x.max_leash) AS farthest_m,
@@ -56,7 +56,7 @@ FROM (SELECT j.trip_id, j.story, round(e.trip_length) AS driven_off_m, round(e.r
 WHERE k <= 3 ORDER BY story, line_skipped_m DESC;
 
 \echo
-\echo '== 10. A bus in progress: trip 1003 so far (its first 12 positions), where it is on'
+\echo '== 11. A bus in progress: trip 1003 so far (its first 12 positions), where it is on'
 \echo '   its line, and how late against the timetable (route M is the time due).'
 SELECT j.trip_id, j.line_id, ST_NPoints(so_far::geometry) AS positions_so_far,
        round(p.route_fraction::numeric, 3) AS share_of_line,

@@ -115,3 +115,25 @@ SELECT p.story, count(*) AS trips,
        round(avg(frechet_pings_distance(p.pings, l.route))::numeric) AS avg_pings_m
 FROM ping_trip p JOIN bus_line l USING (line_id)
 GROUP BY p.story ORDER BY p.story;
+
+\echo
+\echo '== 9. Road works on Mill Street: which buses went round by Tanners Row?'
+\echo '   frechet_passes asks whether some part of a trip drove the whole stretch, in its'
+\echo '   direction, within 30 m (the rest of the trip is free); the GiST index on the tracks'
+\echo '   hands it only the trips whose box can hold such a part.'
+SELECT w.story, count(*) FILTER (WHERE frechet_passes(w.track, s.stretch, 30)) AS drove_tanners_row,
+       count(*) AS trips
+FROM works_trip w, street s WHERE s.name = 'Tanners Row'
+GROUP BY w.story ORDER BY w.story;
+
+\echo '   ... where on each trip (positions k + t) and how closely, by frechet_passage:'
+SELECT w.trip_id, round(p.trip_from::numeric, 2) AS trip_from, round(p.trip_to::numeric, 2) AS trip_to,
+       round(p.distance::numeric, 1) AS metres
+FROM works_trip w, street s, frechet_passage(w.track, s.stretch, 30) p
+WHERE s.name = 'Tanners Row' ORDER BY w.trip_id;
+
+\echo '   ... and the five trips that drove nearest to Mill Street (ORDER BY <~~>>, the index'
+\echo '   bounding each branch by the street''s distance to its box):'
+SELECT w.trip_id, w.story, round((w.track <~~>> s.stretch)::numeric, 1) AS metres
+FROM works_trip w, street s WHERE s.name = 'Mill Street'
+ORDER BY w.track <~~>> (SELECT stretch FROM street WHERE name = 'Mill Street') LIMIT 5;

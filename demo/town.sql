@@ -201,3 +201,34 @@ ANALYZE trip;
 SELECT (SELECT count(*) FROM bus_line) AS lines, count(*) AS trips, count(*) FILTER (WHERE line_id IS NULL) AS unlabelled,
        sum(array_length(track, 1)) AS gps_fixes,
        round(avg(array_length(track, 1))) AS fixes_per_trip FROM trip;
+
+-- Road works on Mill Street, the stretch of line W1 from the Town Hall
+-- (0, 0) east to the Weir Bridge (650, 120), in the week of the 14th: the
+-- depot sent some W1 buses round by Tanners Row, north of it, and some
+-- stayed on Mill Street.  The week's trips from the new depot system: 20
+-- on W1 (6 round by Tanners Row), 10 on W2 and 10 on W5, lines that
+-- cross the area.  Simulation only.
+CREATE TABLE street (
+	name      text PRIMARY KEY,
+	stretch   point[] NOT NULL           -- in the direction of travel
+);
+INSERT INTO street VALUES
+	('Mill Street', '{"(0,0)","(650,120)"}'),
+	('Tanners Row', '{"(60,260)","(330,320)","(590,330)"}');
+CREATE TABLE works_trip (
+	trip_id   int PRIMARY KEY,
+	line_id   text NOT NULL REFERENCES bus_line,
+	story     text NOT NULL,             -- what the simulation did (for the demo only)
+	track     point[] NOT NULL
+);
+INSERT INTO works_trip
+SELECT 7000 + j, 'W1', CASE WHEN j % 10 < 3 THEN 'sent round by Tanners Row' ELSE 'stayed on Mill Street' END,
+       demo_drive(CASE WHEN j % 10 < 3
+                       THEN route[1:4] || (SELECT stretch FROM street WHERE name = 'Tanners Row') || route[5:]
+                       ELSE route END, 4 + 6 * random())
+FROM bus_line, generate_series(0, 19) j WHERE line_id = 'W1';
+INSERT INTO works_trip
+SELECT 7100 + 10 * (line_id = 'W5')::int + j, line_id, 'ordinary', demo_drive(route, 4 + 6 * random())
+FROM bus_line, generate_series(0, 9) j WHERE line_id IN ('W2', 'W5');
+CREATE INDEX works_trip_track_idx ON works_trip USING gist (track);
+ANALYZE works_trip;

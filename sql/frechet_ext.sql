@@ -510,7 +510,9 @@ COMMENT ON FUNCTION @extschema@.frechet_passes_within_reach(pg_catalog.point[], 
 CREATE OPERATOR @extschema@.|~~>| (
 	LEFTARG = pg_catalog.point[],
 	RIGHTARG = @extschema@.frechet_key,
-	FUNCTION = @extschema@.frechet_passes_within_reach
+	FUNCTION = @extschema@.frechet_passes_within_reach,
+	RESTRICT = pg_catalog.contsel,
+	JOIN = pg_catalog.contjoinsel
 );
 
 COMMENT ON OPERATOR @extschema@.|~~>| (pg_catalog.point[], @extschema@.frechet_key) IS

@@ -624,7 +624,9 @@ COMMENT ON FUNCTION @extschema@.frechet_passes_within_reach(geometry, frechet_ke
 CREATE OPERATOR @extschema@.|~~>| (
 	LEFTARG = geometry,
 	RIGHTARG = frechet_key,
-	FUNCTION = @extschema@.frechet_passes_within_reach
+	FUNCTION = @extschema@.frechet_passes_within_reach,
+	RESTRICT = pg_catalog.contsel,
+	JOIN = pg_catalog.contjoinsel
 );
 
 COMMENT ON OPERATOR @extschema@.|~~>| (geometry, frechet_key) IS
@@ -681,7 +683,9 @@ COMMENT ON FUNCTION @extschema@.frechet_passes_within_reach(geography, frechet_k
 CREATE OPERATOR @extschema@.|~~>| (
 	LEFTARG = geography,
 	RIGHTARG = frechet_key,
-	FUNCTION = @extschema@.frechet_passes_within_reach
+	FUNCTION = @extschema@.frechet_passes_within_reach,
+	RESTRICT = pg_catalog.contsel,
+	JOIN = pg_catalog.contjoinsel
 );
 
 COMMENT ON OPERATOR @extschema@.|~~>| (geography, frechet_key) IS

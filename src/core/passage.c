@@ -110,6 +110,53 @@ orig_pos(const double *orig, size_t n, double pos)
 	return t == 0 ? orig[k] : orig[k] + t * (orig[k + 1] - orig[k]);
 }
 
+/* Does the free interval of point c against trip edge j have a point? */
+static inline bool
+edge_meets(const fr_prep *q, size_t j, const fr_pt *c, double eps)
+{
+	double		lo,
+				hi;
+
+	fr_free_interval(c, &q->v[j], &q->s[j], &q->v[j + 1], eps, &lo, &hi);
+	return lo <= hi;
+}
+
+/*
+ * Narrows a window to the trip edges a passage can use: a path of the free
+ * space starts on the left edge, in a row (trip edge) whose free interval
+ * against the stretch's first vertex has a point, and ends on the right
+ * edge in a row whose interval against its last vertex has one, no lower.
+ * So the rows from the first of the former to the last of the latter hold
+ * every path in the window (the sweep reads the same intervals).  False
+ * when there are none: the window holds no passage, and nothing is swept.
+ */
+static bool
+trim_window(const fr_prep *p, const fr_prep *q, double eps, window *w)
+{
+	size_t		first = w->b,
+				last = w->b;
+
+	for (size_t j = w->a; j < w->b; j++)
+		if (edge_meets(q, j, &p->v[0], eps))
+		{
+			first = j;
+			break;
+		}
+	if (first == w->b)
+		return false;
+	for (size_t j = w->b; j-- > first;)
+		if (edge_meets(q, j, &p->v[p->n - 1], eps))
+		{
+			last = j;
+			break;
+		}
+	if (last == w->b)
+		return false;
+	w->a = first;
+	w->b = last + 1;
+	return true;
+}
+
 /*
  * The windowed partial decider: is some part of q within eps of all of p?
  * In the form the threshold search takes (row: room for p->n doubles).
@@ -139,6 +186,8 @@ passes_decide(const fr_env *env, const fr_prep *p, const fr_prep *q, double eps,
 		fr_prep		sub = {0};
 		double	   *orig = NULL;
 
+		if (!trim_window(p, q, eps, &w[k]))
+			continue;
 		st = fr_prep_subcurve(env, q, (double) w[k].a, (double) w[k].b, false, &sub, &orig);
 		if (st == FR_OK)
 			st = fr_partial_decide_prepared(env, p, &sub, eps, row, result, stats);

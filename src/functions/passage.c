@@ -10,6 +10,7 @@
 
 #include "fmgr.h"
 #include "funcapi.h"
+#include "utils/builtins.h"
 #include "utils/tuplestore.h"
 
 #include "track.h"
@@ -111,3 +112,31 @@ passage_rows(FunctionCallInfo fcinfo, track_type type)
 TRACK_FUNCTIONS(frechet_passes, passes)
 TRACK_FUNCTIONS(frechet_passage_distance, passage_distance)
 TRACK_FUNCTIONS(frechet_passage, passage_rows)
+
+PG_FUNCTION_INFO_V1(frechet_passes_stage_point_array);
+/*
+ * Which stage of frechet_passes settles a pair: 'windows' (no part of the
+ * trip comes near the stretch's box: settled by the scan of its edges) or
+ * 'decider' (a sweep of the free space ran).  Not part of the extension's
+ * SQL: the index benchmark binds it to a temporary function to count the
+ * pairs each stage settles.
+ */
+Datum
+frechet_passes_stage_point_array(PG_FUNCTION_ARGS)
+{
+	glue_track	trip,
+				stretch;
+	double		eps = PG_GETARG_FLOAT8(2);
+	glue_env	g;
+	bool		yes = false;
+	fr_stats	stats = {0};
+	fr_status	st;
+
+	track_decode_both(fcinfo, TRACK_POINTS, &trip, &stretch);
+	glue_check_epsilon(eps, 3);
+	glue_env_begin(&g, fr_passage_scratch_bytes(stretch.curve.n, trip.curve.n), "frechet_passes");
+	st = fr_passes(&g.env, &trip.curve, &stretch.curve, eps, &yes, &stats);
+	glue_env_end(&g);
+	glue_check_status(st, "frechet_passes");
+	PG_RETURN_TEXT_P(cstring_to_text(stats.decisions > 0 ? "decider" : "windows"));
+}

@@ -26,6 +26,9 @@ check "no ordinary trip flagged; all 110 simulated off-route trips flagged" said
 check "all 100 unlabelled trips assigned to the line they drove" said '^\| +100 \| +100 \| +[0-9.]+ \| +[0-9]+ \|$'
 check "the 10 most similar trips come through the GiST index" said 'Index Scan using trip_track_idx on trip'
 check "all 40 partial trips found, and only those" said '^\| +40 \| +40 \|$'
+check "road works: the 6 trips sent round by Tanners Row drove it" said '^\| sent round by Tanners Row +\| +6 \| +6 \|$'
+check "road works: none of the 14 that stayed on Mill Street, nor the 20 other trips, did" \
+	bash -c "grep -qE '^\| stayed on Mill Street +\| +0 \| +14 \|\$' '$WORK/play.log' && grep -qE '^\| ordinary +\| +0 \| +20 \|\$' '$WORK/play.log'"
 
 CHROME=(chromium --headless --no-sandbox --disable-gpu --disable-quic --no-first-run
 	--disable-background-networking --disable-component-update --disable-sync
