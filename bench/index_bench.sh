@@ -94,6 +94,8 @@ awk -F'|' '
 		cp = v["trips"] * nc; cc = v["corridor candidates"]
 		printf "| corridor stage | (query, trip) pairs settled | share of all pairs | share of index candidates |\n|---|---|---|---|\n"
 		printf "| index key (never fetched) | %d | %s | |\n", cp - cc, pct(cp - cc, cp)
-		printf "| scan of the trip (no window near the stretch) | %d | %s | %s |\n", v["corridor windows"], pct(v["corridor windows"], cp), pct(v["corridor windows"], cc)
+		printf "| cheap: far (no edge near the start before one near the end) | %d | %s | %s |\n", v["corridor cheap far"], pct(v["corridor cheap far"], cp), pct(v["corridor cheap far"], cc)
+		printf "| cheap: near (a greedy coupling within epsilon) | %d | %s | %s |\n", v["corridor cheap near"], pct(v["corridor cheap near"], cp), pct(v["corridor cheap near"], cc)
+		printf "| windows (none survives trimming) | %d | %s | %s |\n", v["corridor windows"], pct(v["corridor windows"], cp), pct(v["corridor windows"], cc)
 		printf "| decider (sweeps of the windows) | %d | %s | %s |\n", v["corridor decider"], pct(v["corridor decider"], cp), pct(v["corridor decider"], cc)
 	}' "$WORK/results.txt"

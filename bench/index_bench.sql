@@ -162,9 +162,12 @@ FROM (SELECT pg_temp.cheap_verdict(t.track, q.path, q.eps) AS v
       FROM range_queries q JOIN trips t ON t.track |~~| frechet_reach(q.path, q.eps)) s;
 
 -- Stages of the corridor queries: what the index key lets through, what
--- the scan of the trip's edges settles (no window near the stretch), what
--- reaches a sweep of the free space.
+-- the cheap verdicts settle (no edge near the stretch's start before one
+-- near its end; a greedy coupling within epsilon), what the windows
+-- settle without a sweep, what reaches a sweep of the free space.
 SELECT pg_temp.note('corridor candidates', count(*)),
+       pg_temp.note('corridor cheap far', count(*) FILTER (WHERE v = 'cheap far')),
+       pg_temp.note('corridor cheap near', count(*) FILTER (WHERE v = 'cheap near')),
        pg_temp.note('corridor windows', count(*) FILTER (WHERE v = 'windows')),
        pg_temp.note('corridor decider', count(*) FILTER (WHERE v = 'decider'))
 FROM (SELECT pg_temp.passes_stage(t.track, q.path, q.eps) AS v

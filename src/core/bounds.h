@@ -46,13 +46,7 @@ typedef struct fr_key
 	double		reach;
 } fr_key;
 
-/* Verdict of the cheap bounds on "distance <= eps". */
-typedef enum fr_verdict
-{
-	FR_UNDECIDED = 0,			/* the bounds cannot tell; run the decider */
-	FR_FAR,						/* a lower bound exceeds eps: the answer is false */
-	FR_NEAR						/* a coupling within eps was found: the answer is true */
-} fr_verdict;
+/* fr_verdict, the verdict of the cheap bounds, is in frechet.h. */
 
 /* The summary of one curve (x and y only; z is ignored, which keeps bounds valid). */
 void		fr_key_of_curve(const fr_curve *c, fr_key *key);

@@ -78,6 +78,14 @@ typedef struct fr_stats
 	uint64_t	walls;			/* decisions settled "no" near a wall of the vertex couplings */
 } fr_stats;
 
+/* Verdict of the cheap bounds on "distance <= eps". */
+typedef enum fr_verdict
+{
+	FR_UNDECIDED = 0,			/* the bounds cannot tell; run the decider */
+	FR_FAR,						/* a lower bound exceeds eps: the answer is false */
+	FR_NEAR						/* a coupling within eps was found: the answer is true */
+} fr_verdict;
+
 /* Human-readable name of a status, for error messages. */
 const char *fr_status_text(fr_status st);
 
@@ -218,6 +226,9 @@ typedef struct fr_passage
  */
 fr_status	fr_passages(const fr_env *env, const fr_curve *trip, const fr_curve *stretch,
 						double eps, fr_passage **out, size_t *count, fr_stats *stats);
+
+/* Cheap verdicts for fr_passes, with no memory (see passage.c). */
+fr_verdict	fr_passes_cheap(const fr_curve *trip, const fr_curve *stretch, double eps);
 
 /* Upper bound of the bytes the corridor functions may request. */
 size_t		fr_passage_scratch_bytes(size_t n, size_t m);

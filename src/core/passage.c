@@ -28,6 +28,7 @@
 #include <math.h>
 #include <string.h>
 
+#include "bounds.h"
 #include "fr_internal.h"
 
 /* A window: the trip's vertices a..b (b > a), whose edges meet the widened box. */
@@ -196,6 +197,125 @@ passes_decide(const fr_env *env, const fr_prep *p, const fr_prep *q, double eps,
 	}
 	fr_free(env, w);
 	return st;
+}
+
+/* Distance from point c to segment a-b, dim 2 or 3 coordinates (raw input). */
+static double
+raw_point_segment(const double *c, const double *a, const double *b, int dim)
+{
+	double		ab2 = 0,
+				t = 0,
+				d2 = 0;
+
+	for (int k = 0; k < dim; k++)
+	{
+		ab2 += (b[k] - a[k]) * (b[k] - a[k]);
+		t += (c[k] - a[k]) * (b[k] - a[k]);
+	}
+	t = ab2 > 0 ? fmin(1.0, fmax(0.0, t / ab2)) : 0.0;
+	for (int k = 0; k < dim; k++)
+	{
+		double		e = c[k] - (a[k] + t * (b[k] - a[k]));
+
+		d2 += e * e;
+	}
+	return sqrt(d2);
+}
+
+/* Distance between two raw vertices. */
+static double
+raw_dist(const double *a, const double *b, int dim)
+{
+	double		d2 = 0;
+
+	for (int k = 0; k < dim; k++)
+		d2 += (a[k] - b[k]) * (a[k] - b[k]);
+	return sqrt(d2);
+}
+
+/*
+ * Cheap verdicts on "some part of the trip within eps of the stretch", on
+ * the input coordinates, with no memory.  FR_FAR when no trip edge comes
+ * within eps of the stretch's first vertex with a later (or the same) edge
+ * within eps of its last (every passage starts and ends so); compared with
+ * the slack of bounds.c added to eps, so rounding in the sweeps can never
+ * make the answer true.  FR_NEAR when a part of the trip between a vertex
+ * near the stretch's start and one near its end is within eps by
+ * fr_cheap_decide (a greedy coupling of vertices; the Fréchet distance is
+ * at most the discrete one, common practice), tried once for each visit of
+ * the trip to the stretch's start, at most eight times.  Otherwise
+ * FR_UNDECIDED.
+ */
+fr_verdict
+fr_passes_cheap(const fr_curve *trip, const fr_curve *stretch, double eps)
+{
+	const int	dim = trip->dim;
+	const double *s0 = stretch->coords,
+			   *s1 = stretch->coords + (stretch->n - 1) * dim;
+	double		mag = 0,
+				reach;
+	size_t		first_start = SIZE_MAX,
+				last_end = SIZE_MAX;
+	int			tries = 0;
+
+	if (trip->n < 2 || stretch->n < 2)
+		return FR_UNDECIDED;
+	for (size_t i = 0; i < trip->n * dim; i++)
+		mag = fmax(mag, fabs(trip->coords[i]));
+	for (size_t i = 0; i < stretch->n * dim; i++)
+		mag = fmax(mag, fabs(stretch->coords[i]));
+	reach = eps + fr_bound_slack(eps, mag);
+	for (size_t j = 0; j + 1 < trip->n; j++)
+	{
+		const double *a = trip->coords + j * dim,
+				   *b = a + dim;
+
+		if (first_start == SIZE_MAX && raw_point_segment(s0, a, b, dim) <= reach)
+			first_start = j;
+		if (raw_point_segment(s1, a, b, dim) <= reach)
+			last_end = j;
+	}
+	if (first_start == SIZE_MAX || last_end == SIZE_MAX || last_end < first_start)
+		return FR_FAR;
+
+	/* a try for each visit to the start: its vertex nearest the start, then the end's next visit */
+	for (size_t i = first_start; i < trip->n && tries < 8; i++)
+	{
+		size_t		best_i = i,
+					j,
+					best_j;
+		double		d = raw_dist(trip->coords + i * dim, s0, dim);
+		fr_curve	part;
+
+		if (d > eps)
+			continue;
+		for (; i + 1 < trip->n && raw_dist(trip->coords + (i + 1) * dim, s0, dim) <= eps; i++)
+			if (raw_dist(trip->coords + (i + 1) * dim, s0, dim) < d)
+			{
+				d = raw_dist(trip->coords + (i + 1) * dim, s0, dim);
+				best_i = i + 1;
+			}
+		for (j = best_i; j < trip->n && raw_dist(trip->coords + j * dim, s1, dim) > eps; j++)
+			;
+		if (j == trip->n)
+			break;
+		best_j = j;
+		d = raw_dist(trip->coords + j * dim, s1, dim);
+		for (; j + 1 < trip->n && raw_dist(trip->coords + (j + 1) * dim, s1, dim) <= eps; j++)
+			if (raw_dist(trip->coords + (j + 1) * dim, s1, dim) < d)
+			{
+				d = raw_dist(trip->coords + (j + 1) * dim, s1, dim);
+				best_j = j + 1;
+			}
+		part.coords = trip->coords + best_i * dim;
+		part.n = best_j - best_i + 1;
+		part.dim = dim;
+		tries++;
+		if (fr_cheap_decide(stretch, &part, eps) == FR_NEAR)
+			return FR_NEAR;
+		i = j;
+	}
+	return FR_UNDECIDED;
 }
 
 /* Is some part of the trip within Fréchet distance eps of the whole stretch? */

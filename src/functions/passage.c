@@ -13,6 +13,7 @@
 #include "utils/builtins.h"
 #include "utils/tuplestore.h"
 
+#include "bounds.h"
 #include "track.h"
 
 /* frechet_passes(trip, stretch, epsilon): does some part of the trip drive the stretch within epsilon? */
@@ -28,8 +29,19 @@ passes(FunctionCallInfo fcinfo, track_type type)
 
 	track_decode_both(fcinfo, type, &trip, &stretch);
 	glue_check_epsilon(eps, 3);
+	eps = track_engine_epsilon(type, eps);
+	/* cheap verdicts first (src/core/passage.c); the sweeps only when they cannot tell */
+	switch (fr_passes_cheap(&trip.curve, &stretch.curve, eps))
+	{
+		case FR_FAR:
+			PG_RETURN_BOOL(false);
+		case FR_NEAR:
+			PG_RETURN_BOOL(true);
+		default:
+			break;
+	}
 	glue_env_begin(&g, fr_passage_scratch_bytes(stretch.curve.n, trip.curve.n), "frechet_passes");
-	st = fr_passes(&g.env, &trip.curve, &stretch.curve, track_engine_epsilon(type, eps), &yes, NULL);
+	st = fr_passes(&g.env, &trip.curve, &stretch.curve, eps, &yes, NULL);
 	glue_env_end(&g);
 	glue_check_status(st, "frechet_passes");
 	PG_RETURN_BOOL(yes);
@@ -115,9 +127,10 @@ TRACK_FUNCTIONS(frechet_passage, passage_rows)
 
 PG_FUNCTION_INFO_V1(frechet_passes_stage_point_array);
 /*
- * Which stage of frechet_passes settles a pair: 'windows' (no part of the
- * trip comes near the stretch's box: settled by the scan of its edges) or
- * 'decider' (a sweep of the free space ran).  Not part of the extension's
+ * Which stage of frechet_passes settles a pair: 'cheap far' or 'cheap
+ * near' (fr_passes_cheap), 'windows' (no window of the trip survives
+ * trimming: settled by the scan of its edges) or 'decider' (a sweep of
+ * the free space ran).  Not part of the extension's
  * SQL: the index benchmark binds it to a temporary function to count the
  * pairs each stage settles.
  */
@@ -134,6 +147,15 @@ frechet_passes_stage_point_array(PG_FUNCTION_ARGS)
 
 	track_decode_both(fcinfo, TRACK_POINTS, &trip, &stretch);
 	glue_check_epsilon(eps, 3);
+	switch (fr_passes_cheap(&trip.curve, &stretch.curve, eps))
+	{
+		case FR_FAR:
+			PG_RETURN_TEXT_P(cstring_to_text("cheap far"));
+		case FR_NEAR:
+			PG_RETURN_TEXT_P(cstring_to_text("cheap near"));
+		default:
+			break;
+	}
 	glue_env_begin(&g, fr_passage_scratch_bytes(stretch.curve.n, trip.curve.n), "frechet_passes");
 	st = fr_passes(&g.env, &trip.curve, &stretch.curve, eps, &yes, &stats);
 	glue_env_end(&g);

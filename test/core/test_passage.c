@@ -25,6 +25,7 @@
 #include <cmocka.h>
 #include <geos_c.h>
 
+#include "bounds.h"
 #include "testutil.h"
 
 #define PI 3.14159265358979323846
@@ -410,6 +411,117 @@ passages_agree_with_passes(void **state)
 	}
 }
 
+/*
+ * The index's lower bounds (bounds.c) never exceed the passage distance:
+ * from the trip's own summary and from unions with other trips' (an inner
+ * node), with and without the stretch's hull, at several scales and
+ * offsets.  A bound above the distance would make the index drop a trip
+ * that frechet_passes keeps.
+ */
+static void
+index_bounds_below_distance(void **state)
+{
+	for (int k = 0; k < 400; k++)
+	{
+		double	   *tc,
+				   *sc,
+				   *oc;
+		size_t		tn,
+					sn,
+					on = 1 + test_rand64() % 10,
+					nhull;
+		double		scale = (k % 4 == 0) ? 1e-6 : (k % 4 == 1) ? 1e6 : 1,
+					shift = (k % 3 == 0) ? 1e7 : 0;
+		fr_curve	trip,
+					stretch,
+					other;
+		fr_key		tkey,
+					skey,
+					okey,
+					node;
+		double		d,
+					sorted[64],
+					hull[128];
+
+		make_pair(k, &tc, &tn, &sc, &sn);
+		oc = test_walk(on, -50, -50, 20);
+		for (size_t i = 0; i < 2 * tn; i++)
+			tc[i] = tc[i] * scale + shift;
+		for (size_t i = 0; i < 2 * sn; i++)
+			sc[i] = sc[i] * scale + shift;
+		for (size_t i = 0; i < 2 * on; i++)
+			oc[i] = oc[i] * scale + shift;
+		trip = (fr_curve) {tc, tn, 2};
+		stretch = (fr_curve) {sc, sn, 2};
+		other = (fr_curve) {oc, on, 2};
+		d = passage_distance(&trip, &stretch);
+		fr_key_of_curve(&trip, &tkey);
+		fr_key_of_curve(&stretch, &skey);
+		fr_key_of_curve(&other, &okey);
+		node = tkey;
+		fr_key_union(&node, &okey);
+		nhull = fr_convex_hull(&stretch, sorted, hull);
+		if (!(fr_key_passage_bound(&tkey, &skey) <= d &&
+			  fr_key_passage_bound(&node, &skey) <= d &&
+			  fr_key_passage_hull_bound(&tkey, &skey, hull, nhull) <= d &&
+			  fr_key_passage_hull_bound(&node, &skey, hull, nhull) <= d))
+			fail_msg("pair %d: a bound %.17g / %.17g above the passage distance %.17g", k,
+					 fr_key_passage_bound(&tkey, &skey),
+					 fr_key_passage_hull_bound(&tkey, &skey, hull, nhull), d);
+		free(tc);
+		free(sc);
+		free(oc);
+	}
+}
+
+/*
+ * The cheap verdicts never contradict the sweeps: FR_FAR only when
+ * fr_passes is false, FR_NEAR only when it is true, at and around the
+ * passage distance (one part in 1e9 either side) and at random tolerances;
+ * and both verdicts occur.
+ */
+static void
+cheap_verdicts_agree(void **state)
+{
+	int			far = 0,
+				near = 0;
+
+	for (int k = 0; k < 400; k++)
+	{
+		double	   *tc,
+				   *sc;
+		size_t		tn,
+					sn;
+		fr_curve	trip,
+					stretch;
+		double		d,
+					tries[5];
+
+		make_pair(k, &tc, &tn, &sc, &sn);
+		trip = (fr_curve) {tc, tn, 2};
+		stretch = (fr_curve) {sc, sn, 2};
+		d = passage_distance(&trip, &stretch);
+		tries[0] = d;
+		tries[1] = d * (1 + 1e-9);
+		tries[2] = d * (1 - 1e-9);
+		tries[3] = test_uniform(0, 2 * d + 1);
+		tries[4] = 3 * d + 1;
+		for (int i = 0; i < 5; i++)
+		{
+			fr_verdict	v = fr_passes_cheap(&trip, &stretch, tries[i]);
+			bool		yes = passes(&trip, &stretch, tries[i]);
+
+			if ((v == FR_FAR && yes) || (v == FR_NEAR && !yes))
+				fail_msg("pair %d, eps %.17g: cheap verdict %d, sweep %d", k, tries[i], v, yes);
+			far += v == FR_FAR;
+			near += v == FR_NEAR;
+		}
+		free(tc);
+		free(sc);
+	}
+	assert_true(far > 0 && near > 0);
+}
+
 int
 main(void)
 {
@@ -419,6 +531,8 @@ main(void)
 		cmocka_unit_test(loop_gives_two_passages),
 		cmocka_unit_test(short_stretch_circled_twice),
 		cmocka_unit_test(passages_agree_with_passes),
+		cmocka_unit_test(index_bounds_below_distance),
+		cmocka_unit_test(cheap_verdicts_agree),
 	};
 	int			rc;
 
