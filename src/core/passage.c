@@ -269,7 +269,18 @@ fr_passes_cheap(const fr_curve *trip, const fr_curve *stretch, double eps)
 	{
 		const double *a = trip->coords + j * dim,
 				   *b = a + dim;
+		bool		in_box = true;
 
+		/* an edge whose box stays farther than the reach from both ends' x or y is neither */
+		for (int k = 0; k < 2 && in_box; k++)
+		{
+			double		lo = fmin(a[k], b[k]) - reach,
+						hi = fmax(a[k], b[k]) + reach;
+
+			in_box = (s0[k] >= lo && s0[k] <= hi) || (s1[k] >= lo && s1[k] <= hi);
+		}
+		if (!in_box)
+			continue;
 		if (first_start == SIZE_MAX && raw_point_segment(s0, a, b, dim) <= reach)
 			first_start = j;
 		if (raw_point_segment(s1, a, b, dim) <= reach)
@@ -427,7 +438,8 @@ fr_passages(const fr_env *env, const fr_curve *trip, const fr_curve *stretch, do
 	fr_passage *list = NULL;
 	size_t		nwin = 0,
 				k = 0;
-	double		u = 0;
+	double		u = 0,
+				prev_visit = -1;
 	fr_status	st;
 
 	*out = NULL;
@@ -504,16 +516,26 @@ fr_passages(const fr_env *env, const fr_curve *trip, const fr_curve *stretch, do
 			k++;
 			continue;
 		}
+		if (end_q <= prev_visit)
+		{
+			/* rounding put this end back in the previous visit: move on past it */
+			u = floor(prev_visit) + 1;
+			if (u >= (double) (q.n - 1))
+				break;
+			continue;
+		}
 		/* that end's visit to the disc of the stretch's end, and the part chosen in it */
 		visit_end = fmin(leave_position(&q, &p.v[p.n - 1], eps, end_q), (double) w[k].b);
 
 		/*
-		 * The match runs to the vertex after the visit: a part cut at an
-		 * interpolated point would round its end away from the disc; past
-		 * the visit on that edge the trip stays out of the disc (a
-		 * segment meets a disc in one interval), so no end lies there.
+		 * The match runs to the vertex after the visit's last edge (the
+		 * next one when the visit ends at a vertex, which may be rounding
+		 * of a place just past it): a part cut at an interpolated point
+		 * would round its end away from the disc; past the visit on that
+		 * edge the trip stays out of the disc (a segment meets a disc in
+		 * one interval), so no end lies there.
 		 */
-		st = fr_prep_subcurve(env, &q, a, fmin(ceil(visit_end), (double) w[k].b), false, &sub, &orig);
+		st = fr_prep_subcurve(env, &q, a, fmin(floor(visit_end) + 1, (double) w[k].b), false, &sub, &orig);
 		if (st == FR_OK)
 			st = fr_partial_match_prepared(env, &p, &sub, eps, &found, &from, &to, &d, stats);
 		if (st == FR_OK && found)
@@ -530,6 +552,7 @@ fr_passages(const fr_env *env, const fr_curve *trip, const fr_curve *stretch, do
 		/* on from where the trip leaves the disc (and after the passage); always forward */
 		if (*count > 0)
 			visit_end = fmax(visit_end, list[*count - 1].trip_to);
+		prev_visit = visit_end;
 		u = visit_end > u ? visit_end : floor(u) + 1;
 		if (u >= (double) (q.n - 1))
 			break;

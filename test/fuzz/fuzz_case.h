@@ -104,7 +104,7 @@ fail(const fuzz_case *c, const char *fmt,...)
 	fputc('\n', stderr);
 	va_end(ap);
 	/* the curves themselves, exactly, for a reproducer in a unit test */
-	if (c->p.n + c->q.n <= 16)
+	if (c->p.n + c->q.n <= 24)
 	{
 		for (size_t i = 0; i < c->p.n * c->p.dim; i++)
 			fprintf(stderr, "  p[%zu] = %a\n", i, c->p.coords[i]);

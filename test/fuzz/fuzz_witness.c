@@ -9,7 +9,11 @@
  *     on the part, up to the rounding of the part's two positions), and the
  *     partial distance is at most the distance;
  *   - a trip in progress is found whenever the whole route matches, and
- *     the route's prefix up to the place found is within eps.
+ *     the route's prefix up to the place found is within eps;
+ *   - corridor search (passage.c, the first curve as the stretch, the
+ *     second as the trip): the windowed decision equals the unwindowed
+ *     partial match's, the cheap verdicts never contradict it, and there
+ *     are passages exactly when it holds, in order, each within eps.
  */
 #include "fuzz_case.h"
 
@@ -169,12 +173,60 @@ check_progress(fuzz_case *c)
 		fail(c, "the route's prefix up to %.17g is not within eps %.17g of the trip", pos, c->eps);
 }
 
+/* Corridor search against partial matching with the roles reversed. */
+static void
+check_passage(fuzz_case *c)
+{
+	fuzz_heap	h;
+	fr_env		e = heap_env(&h);
+	bool		yes = false,
+				found = false;
+	double		from,
+				to,
+				part_d;
+	fr_passage *ps = NULL;
+	size_t		count = 0;
+	fr_verdict	v;
+	fr_status	st;
+
+	if (c->large || isinf(c->eps))
+		return;
+	st = fr_passes(&e, &c->q, &c->p, c->eps, &yes, NULL);
+	if (st != FR_OK)
+		fail(c, "fr_passes returned %s", fr_status_text(st));
+	st = fr_partial_match(&e, &c->p, &c->q, c->eps, &found, &from, &to, &part_d, NULL);
+	if (st != FR_OK)
+		fail(c, "fr_partial_match returned %s", fr_status_text(st));
+	if (yes != found)
+		fail(c, "at eps %.17g fr_passes says %d, the unwindowed partial match %d", c->eps, yes, found);
+	v = fr_passes_cheap(&c->q, &c->p, c->eps);
+	if ((v == FR_FAR && yes) || (v == FR_NEAR && !yes))
+		fail(c, "at eps %.17g the cheap verdict %d contradicts fr_passes %d", c->eps, v, yes);
+	st = fr_passages(&e, &c->q, &c->p, c->eps, &ps, &count, NULL);
+	if (st != FR_OK)
+		fail(c, "fr_passages returned %s", fr_status_text(st));
+	if ((count > 0) != yes)
+		fail(c, "at eps %.17g %zu passages, fr_passes %d", c->eps, count, yes);
+	for (size_t k = 0; k < count; k++)
+	{
+		if (!(ps[k].trip_from <= ps[k].trip_to) || (k > 0 && ps[k - 1].trip_to > ps[k].trip_from))
+			fail(c, "passage %zu from %.17g to %.17g out of order", k, ps[k].trip_from, ps[k].trip_to);
+		if (ps[k].distance > c->eps * (1 + 1e-9) + 1e-12 * c->scale + SUBNORMAL_SLACK)
+			fail(c, "passage %zu at distance %.17g above eps %.17g", k, ps[k].distance, c->eps);
+	}
+	if (ps)
+		e.release(ps, e.arg);
+	if (h.live != 0)
+		fail(c, "corridor search leaked %ld blocks", h.live);
+}
+
 static const fuzz_check fuzz_checks[] = {
 	check_distance,
 	check_matching,
 	check_excursions,
 	check_partial,
 	check_progress,
+	check_passage,
 };
 
 int			LLVMFuzzerTestOneInput(const uint8_t *data, size_t size);
