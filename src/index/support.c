@@ -26,6 +26,7 @@
 #include "catalog/pg_type.h"
 #include "nodes/makefuncs.h"
 #include "nodes/nodeFuncs.h"
+#include "nodes/pathnodes.h"
 #include "nodes/supportnodes.h"
 #include "optimizer/optimizer.h"
 #include "parser/parse_func.h"
@@ -111,6 +112,43 @@ glue_check_constant_epsilon(Node *rawreq)
 }
 
 /*
+ * Does the table have an index of our operator classes (one whose family
+ * holds |~~| for the column's type) on the same plain column as the index
+ * being planned?  Then frechet_at_most offers PostGIS's own index no
+ * condition, and the planner takes ours: PostGIS's && keeps every trip
+ * whose box meets the route's widened box, ours tests first and last
+ * vertices and box sides too (10x fewer rows on the benchmark's table).
+ */
+static bool
+our_index_beside(SupportRequestIndexCondition *req, Node *indexed)
+{
+	IndexOptInfo *index = req->index;
+	int			column = index->indexkeys[req->indexcol];
+	Oid			argtypes[2] = {exprType(indexed), FLOAT8OID};
+	Oid			reachfn;
+	ListCell   *lc;
+
+	if (column == 0)
+		return false;			/* an expression: not compared here */
+	reachfn = LookupFuncName(list_make2(makeString(get_namespace_name(get_func_namespace(req->funcid))),
+										makeString("frechet_reach")),
+							 2, argtypes, true);
+	if (!OidIsValid(reachfn))
+		return false;
+	foreach(lc, index->rel->indexlist)
+	{
+		IndexOptInfo *other = (IndexOptInfo *) lfirst(lc);
+
+		if (other == index || other->indexkeys[0] != column)
+			continue;
+		if (OidIsValid(get_opfamily_member(other->opfamily[0], argtypes[0], get_func_rettype(reachfn),
+										   FRECHET_STRATEGY_REACH)))
+			return true;
+	}
+	return false;
+}
+
+/*
  * A planner support function for one strategy: a constant epsilon checked
  * while planning (check_eps), and "indexed OP frechet_reach(route, eps)"
  * for a call of min_args..max_args arguments whose indexed argument is
@@ -136,7 +174,7 @@ strategy_support(FunctionCallInfo fcinfo, int min_args, int max_args, int indexa
 		if (call_arguments(req, min_args, max_args, indexable, &indexed, &route, &eps))
 		{
 			conds = reach_condition(req, indexed, route, eps, strategy);
-			if (conds == NIL && postgis)
+			if (conds == NIL && postgis && !our_index_beside(req, indexed))
 				conds = postgis_box_index_condition(req, indexed, route, eps);
 		}
 		if (conds != NIL)
