@@ -258,8 +258,11 @@ fr_passes_cheap(const fr_curve *trip, const fr_curve *stretch, double eps)
 				last_end = SIZE_MAX;
 	int			tries = 0;
 
-	if (trip->n < 2 || stretch->n < 2)
+	/* pairs the sweeps refuse (FR_ERANGE) get no verdict here either */
+	if (trip->n < 2 || stretch->n < 2 || !fr_pair_in_range(stretch, trip))
 		return FR_UNDECIDED;
+	if (isinf(eps))
+		return FR_NEAR;
 	for (size_t i = 0; i < trip->n * dim; i++)
 		mag = fmax(mag, fabs(trip->coords[i]));
 	for (size_t i = 0; i < stretch->n * dim; i++)

@@ -171,8 +171,9 @@ ORDER BY 1, 2, 3;
 -- excursions (a linear scan with a bounded frontier), and
 -- frechet_simplify's O(n log n) greedy): they
 -- neither hit the memory limit nor run long, so the two checks below leave
--- them out.  frechet_at_most is listed for the memory check only: when its
--- cheap bounds settle the answer it allocates nothing (identical curves here).
+-- them out.  frechet_at_most and frechet_passes are left out of the memory
+-- check only: when their cheap verdicts settle the answer they allocate
+-- nothing (identical curves here).
 CREATE FUNCTION pg_temp.linear_members() RETURNS text[] LANGUAGE sql AS $$
 	SELECT pg_catalog.array_agg(c.member) FROM callables c
 	WHERE c.member LIKE '|~~%' OR c.member LIKE 'frechet_reach%' OR c.member LIKE 'frechet_track_key%'
@@ -195,7 +196,7 @@ FROM (SELECT c.member,
       FROM callables c JOIN good_args g USING (member)
       WHERE 'point[]' = ANY (c.argtypes) AND NOT c.member = ANY (pg_temp.linear_members())
       GROUP BY c.member, c.template) s
-WHERE outcome <> '54000' AND member NOT LIKE 'frechet_at_most%'
+WHERE outcome <> '54000' AND member NOT LIKE 'frechet_at_most%' AND member NOT LIKE 'frechet_passes(%'
 ORDER BY 1;
 RESET frechet_ext.max_memory;
 
