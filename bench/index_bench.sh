@@ -81,7 +81,7 @@ awk -F'|' '
 		printf "| cheap bounds: far | %d | %s | %s |\n", v["range cheap far"], pct(v["range cheap far"], pairs), pct(v["range cheap far"], cand)
 		printf "| cheap bounds: near | %d | %s | %s |\n", v["range cheap near"], pct(v["range cheap near"], pairs), pct(v["range cheap near"], cand)
 		printf "| decider | %d | %s | %s |\n\n", v["range decider"], pct(v["range decider"], pairs), pct(v["range decider"], cand)
-		kt = v["knn idx tuples after"] - v["range idx tuples after"]; kp = v["trips"] * nk
+		kt = v["knn idx tuples after"] - v["knn idx tuples before"]; kp = v["trips"] * nk
 		printf "| k-nearest stage | (query, trip) pairs | share |\n|---|---|---|\n"
 		printf "| index bound (no exact distance) | %d | %s |\n", kp - kt, pct(kp - kt, kp)
 		printf "| exact distance computed | %d | %s |\n\n", kt, pct(kt, kp)

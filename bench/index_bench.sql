@@ -136,6 +136,8 @@ SELECT pg_temp.note('range idx tuples after', pg_temp.index_tuples_read());
 \echo index: corridor queries
 SELECT pg_temp.note('corridor idx ms', pg_temp.run_corridor('index', :ncorr));
 \echo index: k-nearest queries
+SELECT pg_stat_force_next_flush();
+SELECT pg_temp.note('knn idx tuples before', pg_temp.index_tuples_read());
 SELECT pg_temp.note('knn idx ms', pg_temp.run_knn('index', :nknn));
 SELECT pg_stat_force_next_flush();
 SELECT pg_temp.note('knn idx tuples after', pg_temp.index_tuples_read());
