@@ -80,7 +80,7 @@ CORE_TEST_CFLAGS = -std=c11 -O2 -g -Wall -Wextra -Wno-unused-parameter $(ENGINE_
 CORE_TESTS = $(patsubst %.c,%.bin,$(sort $(wildcard test/core/test_*.c)))
 CORE_TEST_LIBS = -lgeos_c -lproj -lcmocka -lm
 
-test/core/%.bin: test/core/%.c test/core/testutil.h $(CORE_SRC) src/core/*.h
+test/core/%.bin: test/core/%.c test/core/testutil.h test/core/geosutil.h $(CORE_SRC) src/core/*.h
 	$(CC) $(CORE_TEST_CFLAGS) -o $@ $< $(CORE_SRC) $(CORE_TEST_LIBS)
 
 .PHONY: check-core core-tests bench
@@ -141,7 +141,7 @@ test/fuzz/fuzz_%.bin: test/fuzz/fuzz_%.c test/fuzz/pg_stubs.c test/fuzz/pg_stubs
 SAN_CFLAGS = -std=c11 -O1 -g -fsanitize=address,undefined -fno-sanitize-recover=all \
 	-fno-omit-frame-pointer -Wall -Wextra -Wno-unused-parameter -Isrc/core
 
-test/core/%.san.bin: test/core/%.c test/core/testutil.h $(CORE_SRC) src/core/*.h
+test/core/%.san.bin: test/core/%.c test/core/testutil.h test/core/geosutil.h $(CORE_SRC) src/core/*.h
 	$(FUZZ_CC) $(SAN_CFLAGS) -o $@ $< $(CORE_SRC) $(if $(findstring geos,$*),-lgeos_c) -lcmocka -lproj -lm
 
 SAN_TESTS = test/core/test_engine.san.bin test/core/test_geos.san.bin

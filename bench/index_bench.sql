@@ -38,18 +38,23 @@ SELECT pg_temp.note('trips', count(*)), pg_temp.note('points mean', avg(cardinal
        pg_temp.note('routes', count(DISTINCT route))
 FROM trips;
 
--- Range queries, one statement each (planned each time, as an application would).
+-- Range and corridor queries, one statement each (planned each time, as
+-- an application would): frechet_at_most against range_queries,
+-- frechet_passes (which trips drove a 1 km stretch) against
+-- corridor_queries; found rows counted per query.
 CREATE TABLE range_found (mode text, qid int, found bigint, PRIMARY KEY (mode, qid));
-CREATE FUNCTION pg_temp.run_range(mode text, nq int) RETURNS float8
+CREATE TABLE corridor_found (mode text, qid int, found bigint, PRIMARY KEY (mode, qid));
+CREATE FUNCTION pg_temp.run_counts(kind text, mode text, nq int) RETURNS float8
 LANGUAGE plpgsql AS $$
 DECLARE
 	q record;
 	c bigint;
 	t0 timestamptz := clock_timestamp();
+	fn text := CASE kind WHEN 'range' THEN 'frechet_at_most' ELSE 'frechet_passes' END;
 BEGIN
-	FOR q IN SELECT * FROM range_queries WHERE qid <= nq ORDER BY qid LOOP
-		EXECUTE 'SELECT count(*) FROM trips WHERE frechet_at_most(track, $1, $2)' INTO c USING q.path, q.eps;
-		INSERT INTO range_found VALUES (mode, q.qid, c);
+	FOR q IN EXECUTE format('SELECT qid, path, eps FROM %I WHERE qid <= $1 ORDER BY qid', kind || '_queries') USING nq LOOP
+		EXECUTE format('SELECT count(*) FROM trips WHERE %I(track, $1, $2)', fn) INTO c USING q.path, q.eps;
+		EXECUTE format('INSERT INTO %I VALUES ($1, $2, $3)', kind || '_found') USING mode, q.qid, c;
 	END LOOP;
 	RETURN extract(epoch FROM clock_timestamp() - t0) * 1000;
 END $$;
@@ -73,31 +78,15 @@ BEGIN
 	RETURN extract(epoch FROM clock_timestamp() - t0) * 1000;
 END $$;
 
--- Corridor queries: which trips drove a 1 km stretch (frechet_passes).
-CREATE TABLE corridor_found (mode text, qid int, found bigint, PRIMARY KEY (mode, qid));
-CREATE FUNCTION pg_temp.run_corridor(mode text, nq int) RETURNS float8
-LANGUAGE plpgsql AS $$
-DECLARE
-	q record;
-	c bigint;
-	t0 timestamptz := clock_timestamp();
-BEGIN
-	FOR q IN SELECT * FROM corridor_queries WHERE qid <= nq ORDER BY qid LOOP
-		EXECUTE 'SELECT count(*) FROM trips WHERE frechet_passes(track, $1, $2)' INTO c USING q.path, q.eps;
-		INSERT INTO corridor_found VALUES (mode, q.qid, c);
-	END LOOP;
-	RETURN extract(epoch FROM clock_timestamp() - t0) * 1000;
-END $$;
-
 CREATE FUNCTION pg_temp.index_tuples_read() RETURNS float8
 LANGUAGE sql AS $$ SELECT coalesce(sum(idx_tup_read), 0)::float8 FROM pg_stat_user_indexes WHERE indexrelname = 'trips_track_idx' $$;
 
 -- Sequential scans first (no index exists yet).
 \echo sequential scan: range queries
-SELECT pg_temp.note('range seq ms', pg_temp.run_range('seq', :nrangeseq));
+SELECT pg_temp.note('range seq ms', pg_temp.run_counts('range', 'seq', :nrangeseq));
 SELECT pg_temp.note('range seq queries', count(*)) FROM range_found WHERE mode = 'seq';
 \echo sequential scan: corridor queries
-SELECT pg_temp.note('corridor seq ms', pg_temp.run_corridor('seq', :ncorrseq));
+SELECT pg_temp.note('corridor seq ms', pg_temp.run_counts('corridor', 'seq', :ncorrseq));
 SELECT pg_temp.note('corridor seq queries', count(*)) FROM corridor_found WHERE mode = 'seq';
 \echo sequential scan: k-nearest queries
 SELECT :nknnseq > 0 AS do_knn_seq \gset
@@ -130,11 +119,11 @@ EXPLAIN (COSTS OFF) SELECT id FROM trips ORDER BY track <-> (SELECT path FROM kn
 \echo index: range queries
 SELECT pg_stat_force_next_flush();
 SELECT pg_temp.note('range idx tuples before', pg_temp.index_tuples_read());
-SELECT pg_temp.note('range idx ms', pg_temp.run_range('index', :nrange));
+SELECT pg_temp.note('range idx ms', pg_temp.run_counts('range', 'index', :nrange));
 SELECT pg_stat_force_next_flush();
 SELECT pg_temp.note('range idx tuples after', pg_temp.index_tuples_read());
 \echo index: corridor queries
-SELECT pg_temp.note('corridor idx ms', pg_temp.run_corridor('index', :ncorr));
+SELECT pg_temp.note('corridor idx ms', pg_temp.run_counts('corridor', 'index', :ncorr));
 \echo index: k-nearest queries
 SELECT pg_stat_force_next_flush();
 SELECT pg_temp.note('knn idx tuples before', pg_temp.index_tuples_read());

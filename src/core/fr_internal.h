@@ -548,6 +548,8 @@ fr_status	fr_partial_earliest_end(const fr_env *env, const fr_prep *p, const fr_
 fr_status	fr_partial_decide_prepared(const fr_env *env, const fr_prep *p, const fr_prep *q,
 									   double eps, double *row, bool *result, fr_stats *stats);
 void		fr_partial_bounds(const fr_prep *p, const fr_prep *q, double *lo, double *hi);
+fr_status	fr_partial_distance_with(const fr_env *env, const fr_curve *trip, const fr_curve *route,
+									 fr_decider decide, double *result, fr_stats *stats);
 
 /* Opening values a search round keeps at most. */
 #define FR_CANDIDATES 4096

@@ -274,10 +274,14 @@ degenerate_partial(const fr_prep *trip, const fr_prep *route, double *from, doub
 	return fr_point_curve_dist(&route->v[0], trip);
 }
 
-/* Smallest Fréchet distance between the trip and any part of the route. */
+/*
+ * Smallest Fréchet distance between the trip and any part of the route,
+ * searched with the given partial decider (partial_decide here; the
+ * windowed one of passage.c).
+ */
 fr_status
-fr_partial_distance(const fr_env *env, const fr_curve *trip, const fr_curve *route,
-					double *result, fr_stats *stats)
+fr_partial_distance_with(const fr_env *env, const fr_curve *trip, const fr_curve *route,
+						 fr_decider decide, double *result, fr_stats *stats)
 {
 	fr_prep		p,
 				q;
@@ -297,19 +301,27 @@ fr_partial_distance(const fr_env *env, const fr_curve *trip, const fr_curve *rou
 		fr_release_pair(env, &p, &q);
 		return FR_OK;
 	}
-	row = fr_alloc(env, p.n * sizeof(double));
+	row = fr_alloc(env, (p.n + 1) * sizeof(double));
 	if (row == NULL)
 	{
 		fr_release_pair(env, &p, &q);
 		return FR_ENOMEM;
 	}
 	fr_partial_bounds(&p, &q, &lo, &hi);
-	st = fr_threshold_search(env, &p, &q, partial_decide, lo, hi, row, result, stats);
+	st = fr_threshold_search(env, &p, &q, decide, lo, hi, row, result, stats);
 	fr_free(env, row);
 	if (st == FR_OK)
 		*result = fr_from_local(&p, *result);
 	fr_release_pair(env, &p, &q);
 	return st;
+}
+
+/* Smallest Fréchet distance between the trip and any part of the route. */
+fr_status
+fr_partial_distance(const fr_env *env, const fr_curve *trip, const fr_curve *route,
+					double *result, fr_stats *stats)
+{
+	return fr_partial_distance_with(env, trip, route, partial_decide, result, stats);
 }
 
 /*

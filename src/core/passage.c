@@ -365,34 +365,7 @@ fr_status
 fr_passage_distance(const fr_env *env, const fr_curve *trip, const fr_curve *stretch,
 					double *result, fr_stats *stats)
 {
-	fr_prep		p,
-				q;
-	double	   *row;
-	double		lo,
-				hi;
-	fr_status	st;
-
-	st = fr_prepare_pair(env, stretch, trip, &p, &q);
-	if (st != FR_OK)
-		return st;
-	if (p.n == 1 || q.n == 1)
-	{
-		fr_release_pair(env, &p, &q);
-		return fr_partial_distance(env, stretch, trip, result, stats);
-	}
-	row = fr_alloc(env, (p.n + 1) * sizeof(double));
-	if (row == NULL)
-	{
-		fr_release_pair(env, &p, &q);
-		return FR_ENOMEM;
-	}
-	fr_partial_bounds(&p, &q, &lo, &hi);
-	st = fr_threshold_search(env, &p, &q, passes_decide, lo, hi, row, result, stats);
-	if (st == FR_OK)
-		*result = fr_from_local(&p, *result);
-	fr_free(env, row);
-	fr_release_pair(env, &p, &q);
-	return st;
+	return fr_partial_distance_with(env, stretch, trip, passes_decide, result, stats);
 }
 
 /*

@@ -12,28 +12,11 @@
 #include <stdio.h>
 
 #include <cmocka.h>
-#include <geos_c.h>
 
+#include "geosutil.h"
 #include "testutil.h"
 
 #define PAIRS 1200
-
-static GEOSContextHandle_t geos;
-
-/* A GEOS LineString (or a doubled point, GEOS needs two) from 2-D coordinates. */
-static GEOSGeometry *
-geos_line(const double *c, size_t n)
-{
-	GEOSCoordSequence *seq = GEOSCoordSeq_create_r(geos, n > 1 ? n : 2, 2);
-
-	for (size_t i = 0; i < (n > 1 ? n : 2); i++)
-	{
-		size_t		k = n > 1 ? i : 0;
-
-		GEOSCoordSeq_setXY_r(geos, seq, i, c[2 * k], c[2 * k + 1]);
-	}
-	return GEOSGeom_createLineString_r(geos, seq);
-}
 
 /* One generated pair: kind 0 random, 1 near-identical, 2 near 1e7, 3 near-identical near 1e7. */
 static void

@@ -23,29 +23,12 @@
 #include <stdio.h>
 
 #include <cmocka.h>
-#include <geos_c.h>
 
 #include "bounds.h"
+#include "geosutil.h"
 #include "testutil.h"
 
 #define PI 3.14159265358979323846
-
-static GEOSContextHandle_t geos;
-
-/* A GEOS LineString (a doubled point for one vertex) from 2-D coordinates. */
-static GEOSGeometry *
-geos_line(const double *c, size_t n)
-{
-	GEOSCoordSequence *seq = GEOSCoordSeq_create_r(geos, n > 1 ? n : 2, 2);
-
-	for (size_t i = 0; i < (n > 1 ? n : 2); i++)
-	{
-		size_t		k = n > 1 ? i : 0;
-
-		GEOSCoordSeq_setXY_r(geos, seq, i, c[2 * k], c[2 * k + 1]);
-	}
-	return GEOSGeom_createLineString_r(geos, seq);
-}
 
 static bool
 passes(const fr_curve *trip, const fr_curve *stretch, double eps)
