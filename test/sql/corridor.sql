@@ -178,3 +178,5 @@ FROM frechet_passage((SELECT array_agg(point(10 + 60 * cos(a), 60 + 60 * sin(a))
 -- Bad input: as the other functions.
 SELECT frechet_passes(ARRAY[point(0, 0)], ARRAY[point(0, 0)], 'NaN');
 SELECT frechet_passage(ARRAY[point(0, 0)], '{}', 1);
+
+DROP TABLE cs_routes, cs_trips, cs_queries, cs_seq, cs_idx, cs_knn_idx, cs_knn_seq;
