@@ -589,14 +589,36 @@ fr_partial_decide_prepared(const fr_env *env, const fr_prep *p, const fr_prep *q
 
 /*
  * The bounds of the partial distance's search: both ends of the trip p
- * must meet q somewhere (below), and all of q is one of the parts (above,
- * a greedy matching).
+ * must meet q somewhere (below); every part of q bounds it from above
+ * through a greedy matching: all of q, and the part between the vertices
+ * around the places nearest p's first and last vertices, when in order
+ * (on a long route the search then starts near the answer, where the
+ * windowed decider sweeps little).
  */
 void
 fr_partial_bounds(const fr_prep *p, const fr_prep *q, double *lo, double *hi)
 {
-	double		pos;
+	double		from,
+				to;
 
-	*lo = fmax(point_to_curve(&p->v[0], q, true, &pos), point_to_curve(&p->v[p->n - 1], q, true, &pos));
+	*lo = fmax(point_to_curve(&p->v[0], q, true, &from), point_to_curve(&p->v[p->n - 1], q, true, &to));
 	*hi = fr_greedy_upper_bound(p, q);
+	if (from <= to)
+	{
+		size_t		i = (size_t) floor(from),
+					j = (size_t) ceil(to);
+		fr_prep		part = *q;
+
+		/* a view of vertices i..j of q, their segments with them */
+		if (j >= q->n)
+			j = q->n - 1;
+		if (j > i)
+		{
+			part.v = q->v + i;
+			part.s = q->s + i;
+			part.n = j - i + 1;
+			part.block = NULL;
+			*hi = fmin(*hi, fr_greedy_upper_bound(p, &part));
+		}
+	}
 }

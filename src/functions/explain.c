@@ -51,7 +51,13 @@ glue_matching(const fr_curve *p, const fr_curve *q, double eps, size_t *count,
 	return copy;
 }
 
-/* The partial distance (trip against any part of route), for every caller. */
+/*
+ * The partial distance (trip against any part of route), for every
+ * caller: the search of fr_partial_distance with the windowed decider of
+ * corridor search (the trip matched whole is corridor search's stretch),
+ * which sweeps only the route's windows near the trip; equal values
+ * (test_passage.c, fuzz_witness, bench/partial_bench).
+ */
 static double
 glue_partial_distance(const fr_curve *trip, const fr_curve *route)
 {
@@ -59,8 +65,8 @@ glue_partial_distance(const fr_curve *trip, const fr_curve *route)
 	double		d;
 	fr_status	st;
 
-	glue_env_begin(&g, fr_scratch_bytes(trip->n, route->n), "frechet_partial_distance");
-	st = fr_partial_distance(&g.env, trip, route, &d, NULL);
+	glue_env_begin(&g, fr_passage_scratch_bytes(trip->n, route->n), "frechet_partial_distance");
+	st = fr_passage_distance(&g.env, route, trip, &d, NULL);
 	glue_env_end(&g);
 	glue_check_status(st, "frechet_partial_distance");
 	return d;
