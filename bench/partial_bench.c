@@ -21,43 +21,9 @@
 #include <stdlib.h>
 #include <time.h>
 
+#define BENCH_SEED 0x9A97A1ull
 #include "fr_internal.h"
-
-static void *
-bench_alloc(size_t size, void *arg __attribute__((unused)))
-{
-	return malloc(size);
-}
-
-static void
-bench_release(void *ptr, void *arg __attribute__((unused)))
-{
-	free(ptr);
-}
-
-static const fr_env env = {bench_alloc, bench_release, NULL, NULL};
-
-static uint64_t rng = 0x9A97A1ull;
-
-/* Uniform double in [lo, hi) (xorshift64*). */
-static double
-uniform(double lo, double hi)
-{
-	rng ^= rng >> 12;
-	rng ^= rng << 25;
-	rng ^= rng >> 27;
-	return lo + (hi - lo) * ((double) ((rng * 0x2545F4914F6CDD1Dull) >> 11) / 9007199254740992.0);
-}
-
-/* Seconds of the monotonic clock. */
-static double
-now(void)
-{
-	struct timespec ts;
-
-	clock_gettime(CLOCK_MONOTONIC, &ts);
-	return ts.tv_sec + ts.tv_nsec * 1e-9;
-}
+#include "benchutil.h"
 
 /* A winding route of m vertices, about 10 m apart. */
 static double *
