@@ -179,6 +179,49 @@ fr_status	fr_prep_subcurve(const fr_env *env, const fr_prep *c, double from, dou
 							 bool reversed, fr_prep *out, double **orig);
 void		fr_release_prep(const fr_env *env, fr_prep *c);
 
+/*
+ * The largest coordinate magnitude of two input curves, for the slack of
+ * cheap verdicts; and whether fr_pair_in_range surely holds: when every
+ * nonzero coordinate is at least 1e-100 in magnitude, a nonzero local
+ * coordinate (a difference of two such doubles, or of one and the frame's
+ * origin, then scaled up by a power of two) is at least an ulp of 1e-100,
+ * far above FR_MIN_LOCAL_COORD.  Otherwise *sure is false and the caller
+ * asks fr_pair_in_range.
+ */
+static inline double
+fr_raw_magnitude(const fr_curve *p, const fr_curve *q, bool *sure)
+{
+	double		mag = 0,
+				least = INFINITY;
+
+	for (int k = 0; k < 2; k++)
+	{
+		const fr_curve *c = k == 0 ? p : q;
+
+		for (size_t i = 0; i < c->n * c->dim; i++)
+		{
+			double		a = fabs(c->coords[i]);
+
+			mag = a > mag ? a : mag;
+			if (a != 0 && a < least)
+				least = a;
+		}
+	}
+	*sure = least >= 1e-100;
+	return mag;
+}
+
+/* Distance between two vertices of input coordinates (dim 2 or 3), unprepared. */
+static inline double
+fr_raw_dist(const double *a, const double *b, int dim)
+{
+	double		d2 = 0;
+
+	for (int k = 0; k < dim; k++)
+		d2 += (a[k] - b[k]) * (a[k] - b[k]);
+	return sqrt(d2);
+}
+
 /* Squared Euclidean distance between two vertices. */
 static inline double
 fr_pt_dist2(const fr_pt *a, const fr_pt *b)

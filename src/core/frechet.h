@@ -274,6 +274,9 @@ size_t		fr_excursions_scratch_bytes(size_t n, size_t m);
 fr_status	fr_pings_decide(const fr_env *env, const fr_curve *pings, const fr_curve *route,
 							double eps, double max_gap, bool *result);
 
+/* Cheap verdicts on the ping decision without max_gap, with no memory (pings.c). */
+fr_verdict	fr_pings_cheap(const fr_curve *pings, const fr_curve *route, double eps, double max_gap);
+
 /*
  * The smallest eps that fr_pings_decide accepts (+Infinity when max_gap
  * allows no matching); *decisions (may be NULL) counts the decisions made.

@@ -222,17 +222,6 @@ raw_point_segment(const double *c, const double *a, const double *b, int dim)
 	return sqrt(d2);
 }
 
-/* Distance between two raw vertices. */
-static double
-raw_dist(const double *a, const double *b, int dim)
-{
-	double		d2 = 0;
-
-	for (int k = 0; k < dim; k++)
-		d2 += (a[k] - b[k]) * (a[k] - b[k]);
-	return sqrt(d2);
-}
-
 /*
  * Cheap verdicts on "some part of the trip within eps of the stretch", on
  * the input coordinates, with no memory.  FR_FAR when no trip edge comes
@@ -252,21 +241,21 @@ fr_passes_cheap(const fr_curve *trip, const fr_curve *stretch, double eps)
 	const int	dim = trip->dim;
 	const double *s0 = stretch->coords,
 			   *s1 = stretch->coords + (stretch->n - 1) * dim;
-	double		mag = 0,
+	double		mag,
 				reach;
 	size_t		first_start = SIZE_MAX,
 				last_end = SIZE_MAX;
 	int			tries = 0;
+	bool		sure;
 
+	if (trip->n < 2 || stretch->n < 2)
+		return FR_UNDECIDED;
+	mag = fr_raw_magnitude(stretch, trip, &sure);
 	/* pairs the sweeps refuse (FR_ERANGE) get no verdict here either */
-	if (trip->n < 2 || stretch->n < 2 || !fr_pair_in_range(stretch, trip))
+	if (!sure && !fr_pair_in_range(stretch, trip))
 		return FR_UNDECIDED;
 	if (isinf(eps))
 		return FR_NEAR;
-	for (size_t i = 0; i < trip->n * dim; i++)
-		mag = fmax(mag, fabs(trip->coords[i]));
-	for (size_t i = 0; i < stretch->n * dim; i++)
-		mag = fmax(mag, fabs(stretch->coords[i]));
 	reach = eps + fr_bound_slack(eps, mag);
 	for (size_t j = 0; j + 1 < trip->n; j++)
 	{
@@ -298,27 +287,27 @@ fr_passes_cheap(const fr_curve *trip, const fr_curve *stretch, double eps)
 		size_t		best_i = i,
 					j,
 					best_j;
-		double		d = raw_dist(trip->coords + i * dim, s0, dim);
+		double		d = fr_raw_dist(trip->coords + i * dim, s0, dim);
 		fr_curve	part;
 
 		if (d > eps)
 			continue;
-		for (; i + 1 < trip->n && raw_dist(trip->coords + (i + 1) * dim, s0, dim) <= eps; i++)
-			if (raw_dist(trip->coords + (i + 1) * dim, s0, dim) < d)
+		for (; i + 1 < trip->n && fr_raw_dist(trip->coords + (i + 1) * dim, s0, dim) <= eps; i++)
+			if (fr_raw_dist(trip->coords + (i + 1) * dim, s0, dim) < d)
 			{
-				d = raw_dist(trip->coords + (i + 1) * dim, s0, dim);
+				d = fr_raw_dist(trip->coords + (i + 1) * dim, s0, dim);
 				best_i = i + 1;
 			}
-		for (j = best_i; j < trip->n && raw_dist(trip->coords + j * dim, s1, dim) > eps; j++)
+		for (j = best_i; j < trip->n && fr_raw_dist(trip->coords + j * dim, s1, dim) > eps; j++)
 			;
 		if (j == trip->n)
 			break;
 		best_j = j;
-		d = raw_dist(trip->coords + j * dim, s1, dim);
-		for (; j + 1 < trip->n && raw_dist(trip->coords + (j + 1) * dim, s1, dim) <= eps; j++)
-			if (raw_dist(trip->coords + (j + 1) * dim, s1, dim) < d)
+		d = fr_raw_dist(trip->coords + j * dim, s1, dim);
+		for (; j + 1 < trip->n && fr_raw_dist(trip->coords + (j + 1) * dim, s1, dim) <= eps; j++)
+			if (fr_raw_dist(trip->coords + (j + 1) * dim, s1, dim) < d)
 			{
-				d = raw_dist(trip->coords + (j + 1) * dim, s1, dim);
+				d = fr_raw_dist(trip->coords + (j + 1) * dim, s1, dim);
 				best_j = j + 1;
 			}
 		part.coords = trip->coords + best_i * dim;

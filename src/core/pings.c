@@ -26,6 +26,7 @@
 #include <math.h>
 #include <string.h>
 
+#include "bounds.h"
 #include "fr_internal.h"
 
 /* A place on the route: segment k, parameter t in [0, 1]. */
@@ -334,6 +335,119 @@ degenerate_distance(const fr_prep *p, const fr_prep *r)
 	return d;
 }
 
+/*
+ * The greedy scan of decide_greedy on the input coordinates (dim 2 or 3),
+ * with no preparation and no memory: each inner ping at the earliest place
+ * at or after the previous one's within e, found by solving
+ * |a + t (b - a) - v|^2 <= e^2 on the route's segments in order.
+ */
+static bool
+raw_greedy(const fr_curve *pings, const fr_curve *route, double e)
+{
+	const int	dim = pings->dim;
+	const double *r = route->coords;
+	size_t		k = 0;
+	double		t0 = 0;
+
+	if (fr_raw_dist(pings->coords, r, dim) > e ||
+		fr_raw_dist(pings->coords + (pings->n - 1) * dim, r + (route->n - 1) * dim, dim) > e)
+		return false;
+	for (size_t i = 1; i + 1 < pings->n; i++)
+	{
+		const double *v = pings->coords + i * dim;
+		bool		placed = false;
+
+		for (; k + 1 < route->n; k++, t0 = 0)
+		{
+			const double *a = r + k * dim,
+					   *b = a + dim;
+			double		ab2 = 0,
+						wab = 0,
+						h2 = 0,
+						foot,
+						half,
+						lo,
+						hi;
+
+			/*
+			 * The places within e of v: around the foot of v on the line,
+			 * half-width sqrt((e^2 - h^2) / |ab|^2) with h the distance to
+			 * the line, taken from the perpendicular vector itself (no
+			 * cancellation, unlike the roots of the quadratic).
+			 */
+			for (int d = 0; d < dim; d++)
+			{
+				wab += (v[d] - a[d]) * (b[d] - a[d]);
+				ab2 += (b[d] - a[d]) * (b[d] - a[d]);
+			}
+			if (ab2 == 0)
+			{
+				if (fr_raw_dist(v, a, dim) > e)
+					continue;
+				lo = 0;
+				hi = 1;
+			}
+			else
+			{
+				foot = wab / ab2;
+				for (int d = 0; d < dim; d++)
+				{
+					double		perp = (v[d] - a[d]) - foot * (b[d] - a[d]);
+
+					h2 += perp * perp;
+				}
+				if (h2 > e * e)
+					continue;
+				half = sqrt((e * e - h2) / ab2);
+				lo = fmax(0.0, foot - half);
+				hi = fmin(1.0, foot + half);
+			}
+			lo = fmax(lo, t0);
+			if (lo <= hi)
+			{
+				t0 = lo;
+				placed = true;
+				break;
+			}
+		}
+		if (!placed)
+			return false;
+	}
+	return true;
+}
+
+/*
+ * Cheap verdicts on the ping decision without max_gap, with no memory:
+ * the greedy scan on the input coordinates at eps less the slack of
+ * bounds.c (FR_NEAR when it places every ping) and at eps plus it (FR_FAR
+ * when it cannot), so rounding can never make the exact answer differ.
+ * The greedy is exact for this measure: the earliest place for each ping
+ * keeps every later option open.  FR_UNDECIDED otherwise, with max_gap,
+ * for single points and for pairs the exact decider refuses.
+ */
+fr_verdict
+fr_pings_cheap(const fr_curve *pings, const fr_curve *route, double eps, double max_gap)
+{
+	double		mag,
+				slack;
+	bool		sure;
+
+	if ((max_gap >= 0 && isfinite(max_gap)) || pings->n < 2 || route->n < 2 || isnan(eps))
+		return FR_UNDECIDED;
+	mag = fr_raw_magnitude(pings, route, &sure);
+	/* pairs the exact decider refuses (FR_ERANGE) get no verdict here either */
+	if (!sure && !fr_pair_in_range(pings, route))
+		return FR_UNDECIDED;
+	if (isinf(eps))
+		return FR_NEAR;
+	slack = fr_bound_slack(eps, mag);
+	if (eps - slack > 0 && raw_greedy(pings, route, eps - slack))
+		return FR_NEAR;
+	if (!raw_greedy(pings, route, eps + slack))
+		return FR_FAR;
+	return FR_UNDECIDED;
+}
+
 /* Is the ping distance of pings to route (with max_gap; < 0 for none) at most eps? */
 fr_status
 fr_pings_decide(const fr_env *env, const fr_curve *pings, const fr_curve *route,
@@ -344,6 +458,18 @@ fr_pings_decide(const fr_env *env, const fr_curve *pings, const fr_curve *route,
 	ping_case	c;
 	fr_status	st;
 
+	/* the greedy scan on the input first; the prepared pair only when it cannot tell */
+	switch (fr_pings_cheap(pings, route, eps, max_gap))
+	{
+		case FR_NEAR:
+			*result = true;
+			return FR_OK;
+		case FR_FAR:
+			*result = false;
+			return FR_OK;
+		default:
+			break;
+	}
 	st = case_begin(env, pings, route, max_gap, &pp, &pr, &c);
 	if (st != FR_OK)
 		return st;

@@ -177,6 +177,61 @@ matches_the_grid_reference(void **state)
 }
 
 /*
+ * The cheap verdicts (fr_pings_cheap, the greedy scan on the input
+ * coordinates) never contradict the exact threshold: FR_NEAR only at or
+ * above the ping distance, FR_FAR only below it, at the distance, one
+ * double below it, one part in 1e9 either side and at random tolerances;
+ * both verdicts occur, and max_gap gets none.
+ */
+static void
+cheap_verdicts_agree(void **state)
+{
+	int			near = 0,
+				far = 0;
+
+	for (int trial = 0; trial < 400; trial++)
+	{
+		size_t		n = 2 + test_rand64() % 12,
+					m = 2 + test_rand64() % 10;
+		double	   *r = test_walk(m, 1e6 * (trial % 3), 0, 10),
+				   *pings = malloc(2 * n * sizeof(double));
+		fr_curve	pc,
+					rc = {r, m, 2};
+		double		d,
+					tries[6];
+
+		for (size_t i = 0; i < n; i++)
+		{
+			size_t		k = i == 0 ? 0 : i == n - 1 ? m - 1 : test_rand64() % m;
+
+			pings[2 * i] = r[2 * k] + test_uniform(-4, 4);
+			pings[2 * i + 1] = r[2 * k + 1] + test_uniform(-4, 4);
+		}
+		pc = (fr_curve) {pings, n, 2};
+		d = pings_distance(pings, n, r, m, -1);
+		tries[0] = d;
+		tries[1] = nextafter(d, 0);
+		tries[2] = d * (1 + 1e-9);
+		tries[3] = d * (1 - 1e-9);
+		tries[4] = test_uniform(0, 2 * d);
+		tries[5] = test_uniform(0, 2 * d);
+		for (int i = 0; i < 6; i++)
+		{
+			fr_verdict	v = fr_pings_cheap(&pc, &rc, tries[i], -1);
+
+			if ((v == FR_NEAR && tries[i] < d) || (v == FR_FAR && tries[i] >= d))
+				fail_msg("trial %d: verdict %d at eps %.17g, ping distance %.17g", trial, v, tries[i], d);
+			near += v == FR_NEAR;
+			far += v == FR_FAR;
+		}
+		assert_int_equal(fr_pings_cheap(&pc, &rc, d, 1e9), FR_UNDECIDED);
+		free(r);
+		free(pings);
+	}
+	assert_true(near > 0 && far > 0);
+}
+
+/*
  * Never above the continuous Fréchet distance (the vertices of an optimal
  * continuous matching are a ping matching), on random walks.
  */
@@ -456,6 +511,7 @@ main(void)
 		cmocka_unit_test(sparse_pings_on_street_corners),
 		cmocka_unit_test(excursions_are_the_fewest_off_route_pings),
 		cmocka_unit_test(gap_keeps_the_order_past_a_long_segment),
+		cmocka_unit_test(cheap_verdicts_agree),
 	};
 
 	return cmocka_run_group_tests_name("pings", tests, NULL, NULL);
