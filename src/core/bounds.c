@@ -50,6 +50,22 @@ box_gap(const fr_key *a, const fr_key *b, int ix, int iy)
 	return sqrt(dx * dx + dy * dy);
 }
 
+/*
+ * How far the box of inner may reach beyond the box of outer, as side
+ * intervals allow: the smallest min side outer's curves may have against
+ * the largest min side of inner's, likewise the max sides.  A bound of a
+ * one-sided test: every vertex of inner's curves within the distance of
+ * outer's curves puts inner's box inside outer's widened by it.
+ */
+static inline double
+box_inside_gap(const fr_key *inner, const fr_key *outer)
+{
+	return max2(max2(outer->lo[FR_KEY_MIN_X] - inner->hi[FR_KEY_MIN_X],
+					 outer->lo[FR_KEY_MIN_Y] - inner->hi[FR_KEY_MIN_Y]),
+				max2(inner->lo[FR_KEY_MAX_X] - outer->hi[FR_KEY_MAX_X],
+					 inner->lo[FR_KEY_MAX_Y] - outer->hi[FR_KEY_MAX_Y]));
+}
+
 /* Largest coordinate magnitude a key covers: every vertex lies within its box sides. */
 static double
 key_magnitude(const fr_key *k)
@@ -202,11 +218,8 @@ fr_key_ping_bound(const fr_key *trip, const fr_key *route)
 	double		lb = max2(box_gap(trip, route, FR_KEY_START_X, FR_KEY_START_Y),
 						  box_gap(trip, route, FR_KEY_END_X, FR_KEY_END_Y));
 
-	/* the smallest min side the trips may have, against the route's; likewise max sides */
-	lb = max2(lb, route->lo[FR_KEY_MIN_X] - trip->hi[FR_KEY_MIN_X]);
-	lb = max2(lb, route->lo[FR_KEY_MIN_Y] - trip->hi[FR_KEY_MIN_Y]);
-	lb = max2(lb, trip->lo[FR_KEY_MAX_X] - route->hi[FR_KEY_MAX_X]);
-	lb = max2(lb, trip->lo[FR_KEY_MAX_Y] - route->hi[FR_KEY_MAX_Y]);
+	/* the trips' boxes inside the route's widened by the distance */
+	lb = max2(lb, box_inside_gap(trip, route));
 	return fr_bound_loosen(lb, max2(key_magnitude(trip), key_magnitude(route)));
 }
 
@@ -277,11 +290,8 @@ fr_key_passage_bound(const fr_key *node, const fr_key *stretch)
 	double		lb = max2(node_box_gap(node, stretch, FR_KEY_START_X, FR_KEY_START_Y),
 						  node_box_gap(node, stretch, FR_KEY_END_X, FR_KEY_END_Y));
 
-	/* the smallest min side a trip may have, against the stretch's; likewise max sides */
-	lb = max2(lb, node->lo[FR_KEY_MIN_X] - stretch->hi[FR_KEY_MIN_X]);
-	lb = max2(lb, node->lo[FR_KEY_MIN_Y] - stretch->hi[FR_KEY_MIN_Y]);
-	lb = max2(lb, stretch->lo[FR_KEY_MAX_X] - node->hi[FR_KEY_MAX_X]);
-	lb = max2(lb, stretch->lo[FR_KEY_MAX_Y] - node->hi[FR_KEY_MAX_Y]);
+	/* the stretch's box inside the trips' widened by the distance */
+	lb = max2(lb, box_inside_gap(stretch, node));
 	return fr_bound_loosen(lb, max2(key_magnitude(node), key_magnitude(stretch)));
 }
 

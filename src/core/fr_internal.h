@@ -179,6 +179,17 @@ fr_status	fr_prep_subcurve(const fr_env *env, const fr_prep *c, double from, dou
 							 bool reversed, fr_prep *out, double **orig);
 void		fr_release_prep(const fr_env *env, fr_prep *c);
 
+/* Largest local coordinate magnitude of a prepared curve. */
+static inline double
+fr_prep_magnitude(const fr_prep *c)
+{
+	double		m = 0;
+
+	for (size_t i = 0; i < c->n; i++)
+		m = fmax(m, fmax(fabs(c->v[i].x), fmax(fabs(c->v[i].y), fabs(c->v[i].z))));
+	return m;
+}
+
 /*
  * The largest coordinate magnitude of two input curves, for the slack of
  * cheap verdicts; and whether fr_pair_in_range surely holds: when every

@@ -374,17 +374,6 @@ forward_start(const fr_env *env, const fr_prep *p, const fr_prep *q, double eps,
 	return FR_OK;
 }
 
-/* Largest local coordinate magnitude of a prepared curve. */
-static double
-prep_magnitude(const fr_prep *c)
-{
-	double		m = 0;
-
-	for (size_t i = 0; i < c->n; i++)
-		m = fmax(m, fmax(fabs(c->v[i].x), fmax(fabs(c->v[i].y), fabs(c->v[i].z))));
-	return m;
-}
-
 /*
  * The part of the route that the trip follows within eps, on a prepared
  * pair in its local frame (eps and *distance local): it ends at the
@@ -478,7 +467,7 @@ fr_partial_match_prepared(const fr_env *env, const fr_prep *p, const fr_prep *q,
 	 * (1e-9 of eps, 1e-12 of the coordinates), the forward start is used.
 	 */
 	if (st == FR_OK &&
-		*distance > eps + 1e-9 * eps + 1e-12 * fmax(prep_magnitude(p), prep_magnitude(q)))
+		*distance > eps + 1e-9 * eps + 1e-12 * fmax(fr_prep_magnitude(p), fr_prep_magnitude(q)))
 	{
 		fr_release_prep(env, &sub);
 		fr_free(env, sub_pos);

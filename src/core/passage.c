@@ -38,17 +38,6 @@ typedef struct window
 				b;
 } window;
 
-/* Largest local coordinate magnitude of a prepared curve. */
-static double
-magnitude(const fr_prep *c)
-{
-	double		m = 0;
-
-	for (size_t i = 0; i < c->n; i++)
-		m = fmax(m, fmax(fabs(c->v[i].x), fmax(fabs(c->v[i].y), fabs(c->v[i].z))));
-	return m;
-}
-
 /*
  * The windows of trip q for stretch p at eps, in trip order, into w (room
  * for q->n - 1); their count.
@@ -58,7 +47,7 @@ find_windows(const fr_prep *p, const fr_prep *q, double eps, window *w)
 {
 	double		lo[3] = {INFINITY, INFINITY, INFINITY},
 				hi[3] = {-INFINITY, -INFINITY, -INFINITY},
-				widen = eps + 1e-9 * eps + 1e-12 * fmax(magnitude(p), magnitude(q)) + 1e-300;
+				widen = eps + 1e-9 * eps + 1e-12 * fmax(fr_prep_magnitude(p), fr_prep_magnitude(q)) + 1e-300;
 	size_t		count = 0;
 	bool		open = false;
 
@@ -223,6 +212,34 @@ raw_point_segment(const double *c, const double *a, const double *b, int dim)
 }
 
 /*
+ * The vertex nearest c among the trip's consecutive vertices within eps of
+ * it from *at on (the vertex at *at is within eps); *at becomes the last
+ * of them.
+ */
+static size_t
+nearest_in_visit(const fr_curve *trip, const double *c, double eps, size_t *at)
+{
+	const int	dim = trip->dim;
+	size_t		best = *at;
+	double		best_d = fr_raw_dist(trip->coords + best * dim, c, dim);
+
+	for (size_t k = *at + 1; k < trip->n; k++)
+	{
+		double		d = fr_raw_dist(trip->coords + k * dim, c, dim);
+
+		if (d > eps)
+			break;
+		*at = k;
+		if (d < best_d)
+		{
+			best_d = d;
+			best = k;
+		}
+	}
+	return best;
+}
+
+/*
  * Cheap verdicts on "some part of the trip within eps of the stretch", on
  * the input coordinates, with no memory.  FR_FAR when no trip edge comes
  * within eps of the stretch's first vertex with a later (or the same) edge
@@ -284,32 +301,19 @@ fr_passes_cheap(const fr_curve *trip, const fr_curve *stretch, double eps)
 	/* a try for each visit to the start: its vertex nearest the start, then the end's next visit */
 	for (size_t i = first_start; i < trip->n && tries < 8; i++)
 	{
-		size_t		best_i = i,
-					j,
-					best_j;
-		double		d = fr_raw_dist(trip->coords + i * dim, s0, dim);
+		size_t		best_i,
+					best_j,
+					j;
 		fr_curve	part;
 
-		if (d > eps)
+		if (fr_raw_dist(trip->coords + i * dim, s0, dim) > eps)
 			continue;
-		for (; i + 1 < trip->n && fr_raw_dist(trip->coords + (i + 1) * dim, s0, dim) <= eps; i++)
-			if (fr_raw_dist(trip->coords + (i + 1) * dim, s0, dim) < d)
-			{
-				d = fr_raw_dist(trip->coords + (i + 1) * dim, s0, dim);
-				best_i = i + 1;
-			}
+		best_i = nearest_in_visit(trip, s0, eps, &i);
 		for (j = best_i; j < trip->n && fr_raw_dist(trip->coords + j * dim, s1, dim) > eps; j++)
 			;
 		if (j == trip->n)
 			break;
-		best_j = j;
-		d = fr_raw_dist(trip->coords + j * dim, s1, dim);
-		for (; j + 1 < trip->n && fr_raw_dist(trip->coords + (j + 1) * dim, s1, dim) <= eps; j++)
-			if (fr_raw_dist(trip->coords + (j + 1) * dim, s1, dim) < d)
-			{
-				d = fr_raw_dist(trip->coords + (j + 1) * dim, s1, dim);
-				best_j = j + 1;
-			}
+		best_j = nearest_in_visit(trip, s1, eps, &j);
 		part.coords = trip->coords + best_i * dim;
 		part.n = best_j - best_i + 1;
 		part.dim = dim;

@@ -16,6 +16,47 @@
 #include "bounds.h"
 #include "track.h"
 
+/* The stage of frechet_passes that settled a pair (see frechet_passes_stage_point_array). */
+typedef enum passes_stage
+{
+	STAGE_CHEAP_FAR,
+	STAGE_CHEAP_NEAR,
+	STAGE_WINDOWS,
+	STAGE_DECIDER
+} passes_stage;
+
+/*
+ * frechet_passes on decoded arguments (eps in engine units): the cheap
+ * verdicts first (src/core/passage.c), the sweeps only when they cannot
+ * tell; *stage says which settled it.
+ */
+static bool
+passes_decided(const glue_track *trip, const glue_track *stretch, double eps, passes_stage *stage)
+{
+	glue_env	g;
+	bool		yes = false;
+	fr_stats	stats = {0};
+	fr_status	st;
+
+	switch (fr_passes_cheap(&trip->curve, &stretch->curve, eps))
+	{
+		case FR_FAR:
+			*stage = STAGE_CHEAP_FAR;
+			return false;
+		case FR_NEAR:
+			*stage = STAGE_CHEAP_NEAR;
+			return true;
+		default:
+			break;
+	}
+	glue_env_begin(&g, fr_passage_scratch_bytes(stretch->curve.n, trip->curve.n), "frechet_passes");
+	st = fr_passes(&g.env, &trip->curve, &stretch->curve, eps, &yes, &stats);
+	glue_env_end(&g);
+	glue_check_status(st, "frechet_passes");
+	*stage = stats.decisions > 0 ? STAGE_DECIDER : STAGE_WINDOWS;
+	return yes;
+}
+
 /* frechet_passes(trip, stretch, epsilon): does some part of the trip drive the stretch within epsilon? */
 static Datum
 passes(FunctionCallInfo fcinfo, track_type type)
@@ -23,28 +64,11 @@ passes(FunctionCallInfo fcinfo, track_type type)
 	glue_track	trip,
 				stretch;
 	double		eps = PG_GETARG_FLOAT8(2);
-	glue_env	g;
-	bool		yes = false;
-	fr_status	st;
+	passes_stage stage;
 
 	track_decode_both(fcinfo, type, &trip, &stretch);
 	glue_check_epsilon(eps, 3);
-	eps = track_engine_epsilon(type, eps);
-	/* cheap verdicts first (src/core/passage.c); the sweeps only when they cannot tell */
-	switch (fr_passes_cheap(&trip.curve, &stretch.curve, eps))
-	{
-		case FR_FAR:
-			PG_RETURN_BOOL(false);
-		case FR_NEAR:
-			PG_RETURN_BOOL(true);
-		default:
-			break;
-	}
-	glue_env_begin(&g, fr_passage_scratch_bytes(stretch.curve.n, trip.curve.n), "frechet_passes");
-	st = fr_passes(&g.env, &trip.curve, &stretch.curve, eps, &yes, NULL);
-	glue_env_end(&g);
-	glue_check_status(st, "frechet_passes");
-	PG_RETURN_BOOL(yes);
+	PG_RETURN_BOOL(passes_decided(&trip, &stretch, track_engine_epsilon(type, eps), &stage));
 }
 
 /* frechet_passage_distance(trip, stretch): the smallest epsilon for which frechet_passes is true. */
@@ -130,35 +154,21 @@ PG_FUNCTION_INFO_V1(frechet_passes_stage_point_array);
  * Which stage of frechet_passes settles a pair: 'cheap far' or 'cheap
  * near' (fr_passes_cheap), 'windows' (no window of the trip survives
  * trimming: settled by the scan of its edges) or 'decider' (a sweep of
- * the free space ran).  Not part of the extension's
- * SQL: the index benchmark binds it to a temporary function to count the
- * pairs each stage settles.
+ * the free space ran).  Not part of the extension's SQL: the index
+ * benchmark binds it to a temporary function to count the pairs each
+ * stage settles.
  */
 Datum
 frechet_passes_stage_point_array(PG_FUNCTION_ARGS)
 {
+	static const char *const names[] = {"cheap far", "cheap near", "windows", "decider"};
 	glue_track	trip,
 				stretch;
 	double		eps = PG_GETARG_FLOAT8(2);
-	glue_env	g;
-	bool		yes = false;
-	fr_stats	stats = {0};
-	fr_status	st;
+	passes_stage stage;
 
 	track_decode_both(fcinfo, TRACK_POINTS, &trip, &stretch);
 	glue_check_epsilon(eps, 3);
-	switch (fr_passes_cheap(&trip.curve, &stretch.curve, eps))
-	{
-		case FR_FAR:
-			PG_RETURN_TEXT_P(cstring_to_text("cheap far"));
-		case FR_NEAR:
-			PG_RETURN_TEXT_P(cstring_to_text("cheap near"));
-		default:
-			break;
-	}
-	glue_env_begin(&g, fr_passage_scratch_bytes(stretch.curve.n, trip.curve.n), "frechet_passes");
-	st = fr_passes(&g.env, &trip.curve, &stretch.curve, eps, &yes, &stats);
-	glue_env_end(&g);
-	glue_check_status(st, "frechet_passes");
-	PG_RETURN_TEXT_P(cstring_to_text(stats.decisions > 0 ? "decider" : "windows"));
+	(void) passes_decided(&trip, &stretch, eps, &stage);
+	PG_RETURN_TEXT_P(cstring_to_text(names[stage]));
 }

@@ -26,7 +26,7 @@ progress(FunctionCallInfo fcinfo, track_type type)
 	fr_status	st;
 
 	glue_srf_materialize(fcinfo);
-	track_decode_pair(fcinfo, type, TRACK_GEODESIC, TRACK_GEODESIC, &trip, &route);
+	track_decode_both(fcinfo, type, &trip, &route);
 	glue_check_epsilon(eps, 3);
 	eps = track_engine_epsilon(type, eps);
 	glue_env_begin(&g, fr_progress_scratch_bytes(trip.curve.n, route.curve.n), "frechet_progress");
