@@ -9,7 +9,8 @@
  *     on the part, up to the rounding of the part's two positions), and the
  *     partial distance is at most the distance;
  *   - a trip in progress is found whenever the whole route matches, and
- *     the route's prefix up to the place found is within eps;
+ *     the route's prefix up to the place found is within eps (up to the
+ *     rounding of the place as one double k + t);
  *   - corridor search (passage.c, the first curve as the stretch, the
  *     second as the trip): the windowed decision equals the unwindowed
  *     partial match's, the cheap verdicts never contradict it, and there
@@ -167,7 +168,13 @@ check_progress(fuzz_case *c)
 		fr_curve_point(&c->q, pos, prefix + (k + 1) * c->q.dim);
 		pre.n++;
 	}
-	st = fr_decide_plain(&e, &c->p, &pre, c->eps * (1 + REL_TOL) + 4 * DBL_EPSILON * c->scale + SUBNORMAL_SLACK,
+	/*
+	 * The place comes back as one double k + t, whose t keeps only the
+	 * bits k leaves: the prefix's interpolated end may lie an ulp of pos
+	 * times the edge's length from the place found.
+	 */
+	st = fr_decide_plain(&e, &c->p, &pre, c->eps * (1 + REL_TOL) + 4 * DBL_EPSILON * c->scale + SUBNORMAL_SLACK
+						 + 2 * (nextafter(pos, INFINITY) - pos) * fr_longest_edge(&c->q),
 						 &yes, NULL);
 	if (st == FR_OK && !yes)
 		fail(c, "the route's prefix up to %.17g is not within eps %.17g of the trip", pos, c->eps);
