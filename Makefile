@@ -18,7 +18,7 @@ POINTS_OBJS = src/pg/point_array.o src/pg/points.o
 POSTGIS_OBJS = src/postgis/ewkb.o src/postgis/postgis.o src/postgis/ewkb_out.o \
 	src/postgis/box_strategies.o
 TRACK_OBJS = src/track/track.o
-INDEX_OBJS = src/index/key.o src/index/gist.o src/index/support.o
+INDEX_OBJS = src/index/key.o src/index/gist.o src/index/support.o src/index/selectivity.o
 FUNCTION_OBJS = src/functions/distance.o src/functions/explain.o src/functions/simplify.o \
 	src/functions/piece.o src/functions/check.o src/functions/geojson.o \
 	src/functions/pings.o src/functions/progress.o src/functions/passage.o

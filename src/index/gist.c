@@ -61,27 +61,31 @@ gist_consistent(FunctionCallInfo fcinfo, bool kind_known, frechet_key_kind kind)
 	query = PG_GETARG_FRECHET_KEY(1);
 	if (kind_known)
 		frechet_key_check_kind(query, kind, 0);
-	if (strategy == FRECHET_STRATEGY_PINGS)
-	{
-		/* exact on a leaf, as for |~~|; frechet_pings_at_most stays the filter */
-		*recheck = false;
-		PG_RETURN_BOOL(frechet_key_ping_bound(key, query) <= frechet_key_reach(query));
-	}
-	if (strategy == FRECHET_STRATEGY_PASSES)
-	{
-		/* exact on a leaf, as for |~~|; frechet_passes stays the filter */
-		*recheck = false;
-		PG_RETURN_BOOL(fr_key_passage_bound(key, query) <= frechet_key_reach(query));
-	}
-	if (strategy != FRECHET_STRATEGY_REACH)
-		elog(ERROR, "Fréchet operator classes: unknown strategy number %d", strategy);
 
 	/*
-	 * On a leaf this is the very test of the |~~| operator, so no recheck of
-	 * |~~| is needed; frechet_at_most itself still runs as the filter.
+	 * On a leaf this is the very test of the strategy's operator (|~~|,
+	 * |~~~|, |~~>|), so no recheck of it is needed; frechet_at_most,
+	 * frechet_pings_at_most or frechet_passes still runs as the filter.
 	 */
 	*recheck = false;
-	PG_RETURN_BOOL(fr_key_bound(key, query) <= frechet_key_reach(query));
+	PG_RETURN_BOOL(frechet_key_admits(key, query, strategy));
+}
+
+/* Does a stored key pass the test of a range strategy with the query key? */
+bool
+frechet_key_admits(const fr_key *key, const fr_key *query, StrategyNumber strategy)
+{
+	switch (strategy)
+	{
+		case FRECHET_STRATEGY_REACH:
+			return fr_key_bound(key, query) <= frechet_key_reach(query);
+		case FRECHET_STRATEGY_PINGS:
+			return frechet_key_ping_bound(key, query) <= frechet_key_reach(query);
+		case FRECHET_STRATEGY_PASSES:
+			return fr_key_passage_bound(key, query) <= frechet_key_reach(query);
+	}
+	elog(ERROR, "Fréchet operator classes: unknown strategy number %d", strategy);
+	return false;				/* keep compilers quiet */
 }
 
 PG_FUNCTION_INFO_V1(frechet_gist_consistent);

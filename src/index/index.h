@@ -126,6 +126,29 @@ track_key_kind(track_type type)
 	return track_type_earth(type) ? FRECHET_KEY_EARTH : FRECHET_KEY_PLANAR;
 }
 
+/*
+ * Does a stored key pass the test of range strategy REACH, PINGS or
+ * PASSES with a query key (gist.c)?  Exact on leaves, necessary on nodes.
+ */
+bool		frechet_key_admits(const fr_key *key, const fr_key *query, StrategyNumber strategy);
+
+/*
+ * The lookup of frechet_reach(route type, float8) in the schema of the
+ * function being planned, never by search_path (support.c); InvalidOid
+ * when there is none.
+ */
+Oid			frechet_reach_function(Oid funcid, Oid routetype);
+
+/*
+ * The selectivity of a restriction clause of a range strategy's function
+ * (selectivity.c): on a column with an index of our classes and constant
+ * other arguments, from the index and a sample of the rows it admits;
+ * false when it cannot tell (PostgreSQL's default then applies).
+ */
+struct SupportRequestSelectivity;
+bool		frechet_estimate_selectivity(struct SupportRequestSelectivity *req, int min_args, int max_args,
+										 int indexable, StrategyNumber strategy);
+
 /* Planner support of the deciders: a constant epsilon validated while planning (support.c). */
 void		glue_check_constant_epsilon(Node *rawreq);
 

@@ -43,19 +43,26 @@
  * frechet_reach for the route's type is looked up in the schema of the
  * function being planned, never by search_path.
  */
+Oid
+frechet_reach_function(Oid funcid, Oid routetype)
+{
+	Oid			argtypes[2] = {routetype, FLOAT8OID};
+
+	return LookupFuncName(list_make2(makeString(get_namespace_name(get_func_namespace(funcid))),
+									 makeString("frechet_reach")),
+						  2, argtypes, true);
+}
+
 static List *
 reach_condition(SupportRequestIndexCondition *req, Node *indexed, Node *route, Node *eps,
 				StrategyNumber strategy)
 {
-	Oid			argtypes[2] = {exprType(route), FLOAT8OID};
 	Oid			reachfn,
 				keytype,
 				opno;
 	Expr	   *reach;
 
-	reachfn = LookupFuncName(list_make2(makeString(get_namespace_name(get_func_namespace(req->funcid))),
-										makeString("frechet_reach")),
-							 2, argtypes, true);
+	reachfn = frechet_reach_function(req->funcid, exprType(route));
 	if (!OidIsValid(reachfn))
 		return NIL;
 	keytype = get_func_rettype(reachfn);
@@ -124,15 +131,12 @@ our_index_beside(SupportRequestIndexCondition *req, Node *indexed)
 {
 	IndexOptInfo *index = req->index;
 	int			column = index->indexkeys[req->indexcol];
-	Oid			argtypes[2] = {exprType(indexed), FLOAT8OID};
 	Oid			reachfn;
 	ListCell   *lc;
 
 	if (column == 0)
 		return false;			/* an expression: not compared here */
-	reachfn = LookupFuncName(list_make2(makeString(get_namespace_name(get_func_namespace(req->funcid))),
-										makeString("frechet_reach")),
-							 2, argtypes, true);
+	reachfn = frechet_reach_function(req->funcid, exprType(indexed));
 	if (!OidIsValid(reachfn))
 		return false;
 	foreach(lc, index->rel->indexlist)
@@ -141,7 +145,7 @@ our_index_beside(SupportRequestIndexCondition *req, Node *indexed)
 
 		if (other == index || other->indexkeys[0] != column)
 			continue;
-		if (OidIsValid(get_opfamily_member(other->opfamily[0], argtypes[0], get_func_rettype(reachfn),
+		if (OidIsValid(get_opfamily_member(other->opfamily[0], exprType(indexed), get_func_rettype(reachfn),
 										   FRECHET_STRATEGY_REACH)))
 			return true;
 	}
@@ -163,6 +167,10 @@ strategy_support(FunctionCallInfo fcinfo, int min_args, int max_args, int indexa
 
 	if (check_eps && IsA(rawreq, SupportRequestSimplify))
 		glue_check_constant_epsilon(rawreq);
+	if (IsA(rawreq, SupportRequestSelectivity) &&
+		frechet_estimate_selectivity((SupportRequestSelectivity *) rawreq, min_args, max_args,
+									 indexable, strategy))
+		PG_RETURN_POINTER(rawreq);
 	if (IsA(rawreq, SupportRequestIndexCondition))
 	{
 		SupportRequestIndexCondition *req = (SupportRequestIndexCondition *) rawreq;
