@@ -140,6 +140,18 @@ LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 10;
 COMMENT ON FUNCTION @extschema@.frechet_reach(pg_catalog.point[], pg_catalog.float8) IS
 'the route''s summary with epsilon as its reach: the right operand of |~~| in range queries';
 
+-- The restriction estimator of the index conditions |~~|, |~~~| and |~~>|:
+-- the share of the table whose index entries the condition admits, from
+-- a walk of at most 128 pages of our index on the column (selectivity.c);
+-- 0.001, what contsel returns, without one.
+CREATE FUNCTION @extschema@.frechet_key_restrict(internal, pg_catalog.oid, internal, pg_catalog.int4)
+RETURNS pg_catalog.float8
+AS 'MODULE_PATHNAME', 'frechet_key_restrict'
+LANGUAGE C STABLE STRICT PARALLEL SAFE;
+
+COMMENT ON FUNCTION @extschema@.frechet_key_restrict(internal, pg_catalog.oid, internal, pg_catalog.int4) IS
+'restriction estimator of the index conditions |~~|, |~~~| and |~~>| (from our index on the column)';
+
 CREATE FUNCTION @extschema@.frechet_within_reach(track pg_catalog.point[], reach @extschema@.frechet_key)
 RETURNS pg_catalog.bool
 AS 'MODULE_PATHNAME', 'frechet_within_reach_point_array'
@@ -161,7 +173,7 @@ CREATE OPERATOR @extschema@.|~~| (
 	RIGHTARG = @extschema@.frechet_key,
 	FUNCTION = @extschema@.frechet_within_reach,
 	COMMUTATOR = OPERATOR(@extschema@.|~~|),
-	RESTRICT = pg_catalog.contsel,
+	RESTRICT = @extschema@.frechet_key_restrict,
 	JOIN = pg_catalog.contjoinsel
 );
 
@@ -170,7 +182,7 @@ CREATE OPERATOR @extschema@.|~~| (
 	RIGHTARG = pg_catalog.point[],
 	FUNCTION = @extschema@.frechet_within_reach,
 	COMMUTATOR = OPERATOR(@extschema@.|~~|),
-	RESTRICT = pg_catalog.contsel,
+	RESTRICT = @extschema@.frechet_key_restrict,
 	JOIN = pg_catalog.contjoinsel
 );
 
@@ -413,7 +425,9 @@ COMMENT ON FUNCTION @extschema@.frechet_pings_within_reach(pg_catalog.point[], @
 CREATE OPERATOR @extschema@.|~~~| (
 	LEFTARG = pg_catalog.point[],
 	RIGHTARG = @extschema@.frechet_key,
-	FUNCTION = @extschema@.frechet_pings_within_reach
+	FUNCTION = @extschema@.frechet_pings_within_reach,
+	RESTRICT = @extschema@.frechet_key_restrict,
+	JOIN = pg_catalog.contjoinsel
 );
 
 COMMENT ON OPERATOR @extschema@.|~~~| (pg_catalog.point[], @extschema@.frechet_key) IS
@@ -511,7 +525,7 @@ CREATE OPERATOR @extschema@.|~~>| (
 	LEFTARG = pg_catalog.point[],
 	RIGHTARG = @extschema@.frechet_key,
 	FUNCTION = @extschema@.frechet_passes_within_reach,
-	RESTRICT = pg_catalog.contsel,
+	RESTRICT = @extschema@.frechet_key_restrict,
 	JOIN = pg_catalog.contjoinsel
 );
 

@@ -74,6 +74,16 @@ LANGUAGE C IMMUTABLE CALLED ON NULL INPUT PARALLEL SAFE COST 2000;
 COMMENT ON FUNCTION @extschema@.frechet_pings_distance(geography, geography, pg_catalog.float8) IS
 'smallest epsilon in metres for which frechet_pings_at_most is true; Infinity when max_gap allows no matching';
 
+-- The restriction estimator of the index conditions |~~|, |~~~| and |~~>|
+-- on geometry and geography (selectivity.c, as frechet_key_restrict).
+CREATE FUNCTION @extschema@.frechet_geo_key_restrict(internal, pg_catalog.oid, internal, pg_catalog.int4)
+RETURNS pg_catalog.float8
+AS 'MODULE_PATHNAME', 'frechet_key_restrict'
+LANGUAGE C STABLE STRICT PARALLEL SAFE;
+
+COMMENT ON FUNCTION @extschema@.frechet_geo_key_restrict(internal, pg_catalog.oid, internal, pg_catalog.int4) IS
+'restriction estimator of the index conditions |~~|, |~~~| and |~~>| on geometry and geography (from our index on the column)';
+
 CREATE FUNCTION @extschema@.frechet_pings_within_reach(track geometry, reach frechet_key)
 RETURNS pg_catalog.bool
 AS 'MODULE_PATHNAME', 'frechet_pings_within_reach_geometry'
@@ -85,7 +95,9 @@ COMMENT ON FUNCTION @extschema@.frechet_pings_within_reach(geometry, frechet_key
 CREATE OPERATOR @extschema@.|~~~| (
 	LEFTARG = geometry,
 	RIGHTARG = frechet_key,
-	FUNCTION = @extschema@.frechet_pings_within_reach
+	FUNCTION = @extschema@.frechet_pings_within_reach,
+	RESTRICT = @extschema@.frechet_geo_key_restrict,
+	JOIN = pg_catalog.contjoinsel
 );
 
 COMMENT ON OPERATOR @extschema@.|~~~| (geometry, frechet_key) IS
@@ -105,7 +117,9 @@ COMMENT ON FUNCTION @extschema@.frechet_pings_within_reach(geography, frechet_ke
 CREATE OPERATOR @extschema@.|~~~| (
 	LEFTARG = geography,
 	RIGHTARG = frechet_key,
-	FUNCTION = @extschema@.frechet_pings_within_reach
+	FUNCTION = @extschema@.frechet_pings_within_reach,
+	RESTRICT = @extschema@.frechet_geo_key_restrict,
+	JOIN = pg_catalog.contjoinsel
 );
 
 COMMENT ON OPERATOR @extschema@.|~~~| (geography, frechet_key) IS
@@ -451,7 +465,7 @@ CREATE OPERATOR @extschema@.|~~| (
 	RIGHTARG = frechet_key,
 	FUNCTION = @extschema@.frechet_within_reach,
 	COMMUTATOR = OPERATOR(@extschema@.|~~|),
-	RESTRICT = pg_catalog.contsel,
+	RESTRICT = @extschema@.frechet_geo_key_restrict,
 	JOIN = pg_catalog.contjoinsel
 );
 
@@ -460,7 +474,7 @@ CREATE OPERATOR @extschema@.|~~| (
 	RIGHTARG = geometry,
 	FUNCTION = @extschema@.frechet_within_reach,
 	COMMUTATOR = OPERATOR(@extschema@.|~~|),
-	RESTRICT = pg_catalog.contsel,
+	RESTRICT = @extschema@.frechet_geo_key_restrict,
 	JOIN = pg_catalog.contjoinsel
 );
 
@@ -469,7 +483,7 @@ CREATE OPERATOR @extschema@.|~~| (
 	RIGHTARG = frechet_key,
 	FUNCTION = @extschema@.frechet_within_reach,
 	COMMUTATOR = OPERATOR(@extschema@.|~~|),
-	RESTRICT = pg_catalog.contsel,
+	RESTRICT = @extschema@.frechet_geo_key_restrict,
 	JOIN = pg_catalog.contjoinsel
 );
 
@@ -478,7 +492,7 @@ CREATE OPERATOR @extschema@.|~~| (
 	RIGHTARG = geography,
 	FUNCTION = @extschema@.frechet_within_reach,
 	COMMUTATOR = OPERATOR(@extschema@.|~~|),
-	RESTRICT = pg_catalog.contsel,
+	RESTRICT = @extschema@.frechet_geo_key_restrict,
 	JOIN = pg_catalog.contjoinsel
 );
 
@@ -625,7 +639,7 @@ CREATE OPERATOR @extschema@.|~~>| (
 	LEFTARG = geometry,
 	RIGHTARG = frechet_key,
 	FUNCTION = @extschema@.frechet_passes_within_reach,
-	RESTRICT = pg_catalog.contsel,
+	RESTRICT = @extschema@.frechet_geo_key_restrict,
 	JOIN = pg_catalog.contjoinsel
 );
 
@@ -684,7 +698,7 @@ CREATE OPERATOR @extschema@.|~~>| (
 	LEFTARG = geography,
 	RIGHTARG = frechet_key,
 	FUNCTION = @extschema@.frechet_passes_within_reach,
-	RESTRICT = pg_catalog.contsel,
+	RESTRICT = @extschema@.frechet_geo_key_restrict,
 	JOIN = pg_catalog.contjoinsel
 );
 

@@ -368,12 +368,22 @@ LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE COST 10;
 COMMENT ON FUNCTION @extschema@.frechet_within_reach(frechet_key, geography) IS
 'frechet_within_reach with its operands swapped';
 
+-- The restriction estimator of the index conditions |~~|, |~~~| and |~~>|
+-- on geometry and geography (selectivity.c, as frechet_key_restrict).
+CREATE FUNCTION @extschema@.frechet_geo_key_restrict(internal, pg_catalog.oid, internal, pg_catalog.int4)
+RETURNS pg_catalog.float8
+AS 'MODULE_PATHNAME', 'frechet_key_restrict'
+LANGUAGE C STABLE STRICT PARALLEL SAFE;
+
+COMMENT ON FUNCTION @extschema@.frechet_geo_key_restrict(internal, pg_catalog.oid, internal, pg_catalog.int4) IS
+'restriction estimator of the index conditions |~~|, |~~~| and |~~>| on geometry and geography (from our index on the column)';
+
 CREATE OPERATOR @extschema@.|~~| (
 	LEFTARG = geometry,
 	RIGHTARG = frechet_key,
 	FUNCTION = @extschema@.frechet_within_reach,
 	COMMUTATOR = OPERATOR(@extschema@.|~~|),
-	RESTRICT = pg_catalog.contsel,
+	RESTRICT = @extschema@.frechet_geo_key_restrict,
 	JOIN = pg_catalog.contjoinsel
 );
 
@@ -382,7 +392,7 @@ CREATE OPERATOR @extschema@.|~~| (
 	RIGHTARG = geometry,
 	FUNCTION = @extschema@.frechet_within_reach,
 	COMMUTATOR = OPERATOR(@extschema@.|~~|),
-	RESTRICT = pg_catalog.contsel,
+	RESTRICT = @extschema@.frechet_geo_key_restrict,
 	JOIN = pg_catalog.contjoinsel
 );
 
@@ -391,7 +401,7 @@ CREATE OPERATOR @extschema@.|~~| (
 	RIGHTARG = frechet_key,
 	FUNCTION = @extschema@.frechet_within_reach,
 	COMMUTATOR = OPERATOR(@extschema@.|~~|),
-	RESTRICT = pg_catalog.contsel,
+	RESTRICT = @extschema@.frechet_geo_key_restrict,
 	JOIN = pg_catalog.contjoinsel
 );
 
@@ -400,7 +410,7 @@ CREATE OPERATOR @extschema@.|~~| (
 	RIGHTARG = geography,
 	FUNCTION = @extschema@.frechet_within_reach,
 	COMMUTATOR = OPERATOR(@extschema@.|~~|),
-	RESTRICT = pg_catalog.contsel,
+	RESTRICT = @extschema@.frechet_geo_key_restrict,
 	JOIN = pg_catalog.contjoinsel
 );
 
@@ -793,7 +803,9 @@ COMMENT ON FUNCTION @extschema@.frechet_pings_within_reach(geometry, frechet_key
 CREATE OPERATOR @extschema@.|~~~| (
 	LEFTARG = geometry,
 	RIGHTARG = frechet_key,
-	FUNCTION = @extschema@.frechet_pings_within_reach
+	FUNCTION = @extschema@.frechet_pings_within_reach,
+	RESTRICT = @extschema@.frechet_geo_key_restrict,
+	JOIN = pg_catalog.contjoinsel
 );
 
 COMMENT ON OPERATOR @extschema@.|~~~| (geometry, frechet_key) IS
@@ -813,7 +825,9 @@ COMMENT ON FUNCTION @extschema@.frechet_pings_within_reach(geography, frechet_ke
 CREATE OPERATOR @extschema@.|~~~| (
 	LEFTARG = geography,
 	RIGHTARG = frechet_key,
-	FUNCTION = @extschema@.frechet_pings_within_reach
+	FUNCTION = @extschema@.frechet_pings_within_reach,
+	RESTRICT = @extschema@.frechet_geo_key_restrict,
+	JOIN = pg_catalog.contjoinsel
 );
 
 COMMENT ON OPERATOR @extschema@.|~~~| (geography, frechet_key) IS
@@ -953,7 +967,7 @@ CREATE OPERATOR @extschema@.|~~>| (
 	LEFTARG = geometry,
 	RIGHTARG = frechet_key,
 	FUNCTION = @extschema@.frechet_passes_within_reach,
-	RESTRICT = pg_catalog.contsel,
+	RESTRICT = @extschema@.frechet_geo_key_restrict,
 	JOIN = pg_catalog.contjoinsel
 );
 
@@ -1012,7 +1026,7 @@ CREATE OPERATOR @extschema@.|~~>| (
 	LEFTARG = geography,
 	RIGHTARG = frechet_key,
 	FUNCTION = @extschema@.frechet_passes_within_reach,
-	RESTRICT = pg_catalog.contsel,
+	RESTRICT = @extschema@.frechet_geo_key_restrict,
 	JOIN = pg_catalog.contjoinsel
 );
 

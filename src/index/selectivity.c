@@ -268,9 +268,77 @@ probe_walk_index(Relation irel, const fr_key *query, StrategyNumber strategy, pr
 	pfree(next);
 }
 
+/* The radical inverse of i in base 2 (van der Corput): 0, 1/2, 1/4, 3/4, 1/8, ... */
+static double
+radical_inverse(unsigned int i)
+{
+	double		r = 0,
+				f = 0.5;
+
+	for (; i > 0; i >>= 1, f /= 2)
+		if (i & 1)
+			r += f;
+	return r;
+}
+
 /*
- * Runs the clause's function on the rows of up to PROBE_SAMPLES matches
- * (evenly by weight): *tried matches (fewer when PROBE_MS runs out), *kept
+ * The matches to check, in the order to check them: with nsamples equal
+ * to the matches (all of weight 1), each once; else nsamples places spread
+ * by weight.  Either way in the order of the radical inverse, so that the
+ * checks made before PROBE_MS runs out are spread over the whole index
+ * order (which groups similar trips), not its start.
+ */
+static void
+sample_order(const probe_walk *w, int nsamples, int *order)
+{
+	int			n = w->nmatches;
+
+	if (nsamples == n)
+	{
+		unsigned int span = 1;
+		int			k = 0;
+
+		while (span < (unsigned int) n)
+			span <<= 1;
+		for (unsigned int i = 0; i < span; i++)
+		{
+			int			j = (int) (radical_inverse(i) * span);
+
+			if (j < n)
+				order[k++] = j;
+		}
+		return;
+	}
+	{
+		double	   *cum = palloc((n + 1) * sizeof(double));
+
+		cum[0] = 0;
+		for (int i = 0; i < n; i++)
+			cum[i + 1] = cum[i] + w->matches[i].weight;
+		for (int s = 0; s < nsamples; s++)
+		{
+			double		target = fmod(radical_inverse(s) + 0.5 / nsamples, 1.0) * cum[n];
+			int			lo = 0,
+						hi = n - 1;
+
+			while (lo < hi)
+			{
+				int			mid = (lo + hi) / 2;
+
+				if (cum[mid + 1] <= target)
+					lo = mid + 1;
+				else
+					hi = mid;
+			}
+			order[s] = lo;
+		}
+		pfree(cum);
+	}
+}
+
+/*
+ * Runs the clause's function on the rows of nsamples matches
+ * (sample_order): *tried matches (fewer when PROBE_MS runs out), *kept
  * of them whose row is visible and for which it returned true.  args: the
  * call's arguments, the column's at position colarg.
  */
@@ -287,30 +355,25 @@ probe_check_rows(PlannerInfo *root, SupportRequestSelectivity *req, Var *var, in
 												  ALLOCSET_DEFAULT_SIZES);
 	MemoryContext old;
 	FmgrInfo	flinfo;
-	double		total = 0,
-				cum = 0;
-	int			j = 0;
+	int		   *order = palloc(nsamples * sizeof(int));
 	instr_time	start,
 				now;
 
 	LOCAL_FCINFO(fc, FUNC_MAX_ARGS);
 
 	fmgr_info_cxt(req->funcid, &flinfo, callcxt);
-	for (int i = 0; i < w->nmatches; i++)
-		total += w->matches[i].weight;
+	sample_order(w, nsamples, order);
 	INSTR_TIME_SET_CURRENT(start);
 	*tried = *kept = 0;
 	for (int s = 0; s < nsamples; s++)
 	{
-		double		target = ((double) s + 0.5) * total / nsamples;
 		bool		call_again = false,
 					all_dead = false,
 					isnull,
 					anynull = false;
 		Datum		value;
+		int			j = order[s];
 
-		while (j < w->nmatches - 1 && cum + w->matches[j].weight < target)
-			cum += w->matches[j++].weight;
 		ExecClearTuple(slot);
 		(*tried)++;
 		if (!table_index_fetch_tuple(scan, &w->matches[j].tid, snapshot, slot, &call_again, &all_dead))
@@ -338,10 +401,107 @@ probe_check_rows(PlannerInfo *root, SupportRequestSelectivity *req, Var *var, in
 		if (s >= 8 && INSTR_TIME_GET_MILLISEC(now) > PROBE_MS)
 			break;
 	}
+	pfree(order);
 	ExecDropSingleTupleTableSlot(slot);
 	table_index_fetch_end(scan);
 	table_close(heap, NoLock);
 	MemoryContextDelete(callcxt);
+}
+
+/*
+ * An index of our classes on the column whose family holds operator opno
+ * under a range strategy (*strategy), not partial and with our
+ * fixed-length key; InvalidOid when there is none.
+ */
+static Oid
+our_index_for_operator(RelOptInfo *rel, Var *var, Oid opno, StrategyNumber *strategy)
+{
+	ListCell   *lc;
+
+	foreach(lc, rel->indexlist)
+	{
+		IndexOptInfo *index = (IndexOptInfo *) lfirst(lc);
+		int			s;
+
+		if (index->relam != GIST_AM_OID || index->indexkeys[0] != var->varattno ||
+			index->indpred != NIL)
+			continue;
+		s = get_op_opfamily_strategy(opno, index->opfamily[0]);
+		if (s == FRECHET_STRATEGY_REACH || s == FRECHET_STRATEGY_PINGS || s == FRECHET_STRATEGY_PASSES)
+		{
+			*strategy = s;
+			return index->indexoid;
+		}
+	}
+	return InvalidOid;
+}
+
+/* Walks an index (our fixed-length key only) for the entries a query key admits; false if it cannot. */
+static bool
+probe_index(Oid indexoid, const fr_key *query, StrategyNumber strategy, probe_walk *w)
+{
+	Relation	irel = index_open(indexoid, AccessShareLock);
+	bool		ours = TupleDescAttr(RelationGetDescr(irel), 0)->attlen == sizeof(fr_key);
+
+	if (ours)
+		probe_walk_index(irel, query, strategy, w);
+	index_close(irel, AccessShareLock);
+	return ours;
+}
+
+/* What contsel, the estimator these operators had, returns: PostgreSQL's default for containment. */
+#define DEFAULT_REACH_SELECTIVITY 0.001
+
+PG_FUNCTION_INFO_V1(frechet_key_restrict);
+/*
+ * The restriction estimator of |~~|, |~~~| and |~~>| (track OP
+ * frechet_key, either way round): the share of the table whose index
+ * entries the strategy's key test admits, counted by the walk of the
+ * index (the operator is that very test on a leaf).  Without our index on
+ * the column or a constant key: DEFAULT_REACH_SELECTIVITY.
+ */
+Datum
+frechet_key_restrict(PG_FUNCTION_ARGS)
+{
+	PlannerInfo *root = (PlannerInfo *) PG_GETARG_POINTER(0);
+	Oid			opno = PG_GETARG_OID(1);
+	List	   *args = (List *) PG_GETARG_POINTER(2);
+	int			varRelid = PG_GETARG_INT32(3);
+	Var		   *var;
+	Node	   *other;
+	RelOptInfo *rel;
+	StrategyNumber strategy;
+	Oid			indexoid;
+	probe_walk	w = {0};
+	fr_key		query;
+
+	if (list_length(args) != 2)
+		PG_RETURN_FLOAT8(DEFAULT_REACH_SELECTIVITY);
+	var = clause_column(root, linitial(args));
+	other = lsecond(args);
+	if (var == NULL)
+	{
+		/* frechet_key OP track: the commutator is the family's member */
+		var = clause_column(root, lsecond(args));
+		other = linitial(args);
+		opno = get_commutator(opno);
+	}
+	if (var == NULL || !OidIsValid(opno) || (varRelid != 0 && varRelid != var->varno))
+		PG_RETURN_FLOAT8(DEFAULT_REACH_SELECTIVITY);
+	other = estimate_expression_value(root, other);
+	if (!IsA(other, Const))
+		PG_RETURN_FLOAT8(DEFAULT_REACH_SELECTIVITY);
+	if (((Const *) other)->constisnull)
+		PG_RETURN_FLOAT8(0.0);
+	rel = find_base_rel(root, var->varno);
+	indexoid = our_index_for_operator(rel, var, opno, &strategy);
+	if (rel->tuples <= 0 || !OidIsValid(indexoid))
+		PG_RETURN_FLOAT8(DEFAULT_REACH_SELECTIVITY);
+	memcpy(&query, DatumGetPointer(((Const *) other)->constvalue), sizeof(fr_key));
+	if (!probe_index(indexoid, &query, strategy, &w))
+		PG_RETURN_FLOAT8(DEFAULT_REACH_SELECTIVITY);
+	pfree(w.matches);
+	PG_RETURN_FLOAT8(Min(1.0, w.admitted / rel->tuples));
 }
 
 bool
@@ -358,7 +518,6 @@ frechet_estimate_selectivity(SupportRequestSelectivity *req, int min_args, int m
 				indexoid;
 	Datum		reach;
 	fr_key		query;
-	Relation	irel;
 	probe_walk	w = {0};
 	int			tried = 0,
 				kept = 0,
@@ -404,15 +563,8 @@ frechet_estimate_selectivity(SupportRequestSelectivity *req, int min_args, int m
 		return false;
 	reach = OidFunctionCall2(reachfn, args[1 - colarg]->constvalue, args[2]->constvalue);
 	memcpy(&query, DatumGetPointer(reach), sizeof(fr_key));
-
-	irel = index_open(indexoid, AccessShareLock);
-	if (TupleDescAttr(RelationGetDescr(irel), 0)->attlen != sizeof(fr_key))
-	{
-		index_close(irel, AccessShareLock);
+	if (!probe_index(indexoid, &query, strategy, &w))
 		return false;
-	}
-	probe_walk_index(irel, &query, strategy, &w);
-	index_close(irel, AccessShareLock);
 
 	/* every match when the sample can hold them all (an exact count), else PROBE_SAMPLES by weight */
 	nsamples = w.nmatches <= PROBE_SAMPLES && w.checkable == w.nmatches ? w.nmatches : PROBE_SAMPLES;

@@ -18,8 +18,9 @@ DECLARE
 	line text;
 	plan text := '';
 BEGIN
+	-- "index" for an index scan or a bitmap scan (one node or two), "seq" for a sequential one
 	FOR line IN EXECUTE 'EXPLAIN (COSTS OFF) ' || q LOOP
-		plan := plan || CASE WHEN line ~ 'Index Scan|Bitmap Heap Scan' THEN 'index '
+		plan := plan || CASE WHEN line ~ 'Index Scan|Bitmap Heap Scan' AND plan !~ 'index' THEN 'index '
 		                     WHEN line ~ 'Seq Scan' THEN 'seq ' ELSE '' END;
 	END LOOP;
 	RETURN trim(plan);

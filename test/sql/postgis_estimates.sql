@@ -68,3 +68,5 @@ SELECT pg_temp.estimate($$SELECT * FROM pe_trips WHERE frechet_at_most(geom, 'SR
 	= round(6000 / 3.0) AS postgis_index_default;
 
 DROP TABLE pe_trips, pe_routes;
+DROP EXTENSION frechet_ext_postgis;
+DROP EXTENSION postgis;

@@ -21,7 +21,7 @@ DECLARE
 	line text;
 BEGIN
 	FOR line IN EXECUTE 'EXPLAIN (COSTS OFF) ' || q LOOP
-		IF line ~ 'Index Scan using rkg_' THEN
+		IF line ~ 'Index Scan using rkg_|Bitmap Index Scan on rkg_' THEN
 			RETURN true;
 		END IF;
 	END LOOP;
