@@ -1,12 +1,20 @@
 /*
- * index_gen.c - data for the index benchmark (index_bench.sh): a table of
- * GPS-like trips in clusters of shared routes, and the range and k-nearest
- * queries run against it.  Writes PostgreSQL COPY text to stdout.
+ * index_gen.c - data for the index benchmarks (index_bench.sh,
+ * postgis_bench.sh): a table of GPS-like trips in clusters of shared routes,
+ * and the range and k-nearest queries run against it.  Writes PostgreSQL
+ * COPY text to stdout.
  *
  *   index_gen tracks  --tracks N --routes R --clusters C --seed S
  *   index_gen range   --queries Q ... (same routes: same --routes, --clusters, --seed)
  *   index_gen knn     --queries Q ...
  *   index_gen corridor --queries Q ...
+ *
+ * Columns: tracks: id, route, kind, track; range and corridor: qid, route,
+ * epsilon, path; knn: qid, route, path.  The track or path is a point[]
+ * literal.  With --wkt 1 every row has one more column, the same curve as
+ * EWKT, SRID=32632;LINESTRING(x y,x y,...), with the same %.2f numbers
+ * (for a geometry(LineString,32632) column); --wkt 0, the default, leaves
+ * the output as it was without the option.
  *
  * Routes: each cluster has a hub (a bus station, say) at a random place in
  * a 40 km square of projected metres around (450000, 5400000); each of its
@@ -54,6 +62,7 @@ typedef struct gen_opts
 	long		clusters;
 	long		queries;
 	uint64_t	seed;
+	bool		wkt;			/* --wkt 1: append the curve as EWKT */
 } gen_opts;
 
 /* Prints an error and exits. */
@@ -220,17 +229,47 @@ print_track(const pts *t)
 	putchar('}');
 }
 
+/* Writes the same curve as EWKT (UTM zone 32N, the projected metres of the data). */
+static void
+print_ewkt(const pts *t)
+{
+	fputs("SRID=32632;LINESTRING(", stdout);
+	for (size_t i = 0; i < t->n; i++)
+		printf("%s%.2f %.2f", i ? "," : "", t->xy[2 * i], t->xy[2 * i + 1]);
+	putchar(')');
+}
+
+/* Writes the curve column(s) of a row and ends it: point[], then EWKT with --wkt 1. */
+static void
+print_curve(const gen_opts *o, const pts *t)
+{
+	print_track(t);
+	if (o->wkt)
+	{
+		putchar('\t');
+		print_ewkt(t);
+	}
+	putchar('\n');
+}
+
 /* Parses --name value options. */
 static void
 parse(int argc, char **argv, gen_opts *o)
 {
 	if (argc < 2)
-		die("usage: index_gen tracks|range|knn [--tracks N] [--routes R] [--clusters C] [--queries Q] [--seed S]");
+		die("usage: index_gen tracks|range|knn|corridor [--tracks N] [--routes R] [--clusters C] [--queries Q] [--seed S] [--wkt 0|1]");
 	o->mode = argv[1];
 	for (int i = 2; i + 1 < argc; i += 2)
 	{
 		long		v = strtol(argv[i + 1], NULL, 10);
 
+		if (strcmp(argv[i], "--wkt") == 0)
+		{
+			if (strcmp(argv[i + 1], "0") != 0 && strcmp(argv[i + 1], "1") != 0)
+				die("--wkt takes 0 or 1");
+			o->wkt = v == 1;
+			continue;
+		}
 		if (v <= 0)
 			die("option values must be positive integers");
 		if (strcmp(argv[i], "--tracks") == 0)
@@ -251,7 +290,7 @@ parse(int argc, char **argv, gen_opts *o)
 int
 main(int argc, char **argv)
 {
-	gen_opts	o = {NULL, 20000, 80, 8, 1000, 1};
+	gen_opts	o = {NULL, 20000, 80, 8, 1000, 1, false};
 	pts		   *routes;
 
 	parse(argc, argv, &o);
@@ -280,8 +319,7 @@ main(int argc, char **argv)
 			else
 				t = drive(&g, &routes[r], len, 0, sigma);
 			printf("%ld\t%ld\t%s\t", i + 1, r + 1, kname);
-			print_track(&t);
-			putchar('\n');
+			print_curve(&o, &t);
 			free(t.xy);
 		}
 	}
@@ -301,8 +339,7 @@ main(int argc, char **argv)
 			printf("%ld\t%ld\t", q + 1, r + 1);
 			if (range)
 				printf("%g\t", eps_choices[rng_next(&g) % 3]);
-			print_track(&t);
-			putchar('\n');
+			print_curve(&o, &t);
 			free(t.xy);
 		}
 	}
@@ -320,8 +357,7 @@ main(int argc, char **argv)
 			pts			t = drive(&g, &routes[r], s0, fmin(len, s0 + 1000), 0);
 
 			printf("%ld\t%ld\t%g\t", q + 1, r + 1, eps_choices[rng_next(&g) % 2]);
-			print_track(&t);
-			putchar('\n');
+			print_curve(&o, &t);
 			free(t.xy);
 		}
 	}
