@@ -1036,3 +1036,17 @@ COMMENT ON OPERATOR @extschema@.|~~>| (geography, frechet_key) IS
 ALTER OPERATOR FAMILY @extschema@.frechet_geography_ops USING gist ADD
 	OPERATOR 31 @extschema@.|~~>| (geography, frechet_key),
 	OPERATOR 32 @extschema@.<~~>> (geography, geography) FOR ORDER BY pg_catalog.float_ops;
+
+-- Sorted index builds (GiST support function 11), as for frechet_track_ops.
+CREATE FUNCTION @extschema@.frechet_geo_gist_sortsupport(internal)
+RETURNS pg_catalog.void
+AS 'MODULE_PATHNAME', 'frechet_gist_sortsupport'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+
+COMMENT ON FUNCTION @extschema@.frechet_geo_gist_sortsupport(internal) IS
+'GiST sorted build of frechet_geometry_ops and frechet_geography_ops: keys in the order of a Hilbert curve through their boxes'' centres';
+
+ALTER OPERATOR FAMILY @extschema@.frechet_geometry_ops USING gist ADD
+	FUNCTION 11 (geometry, geometry) @extschema@.frechet_geo_gist_sortsupport(internal);
+ALTER OPERATOR FAMILY @extschema@.frechet_geography_ops USING gist ADD
+	FUNCTION 11 (geography, geography) @extschema@.frechet_geo_gist_sortsupport(internal);
