@@ -31,7 +31,8 @@
  * benchmark's 200,000 trips (a range query takes 15-100 ms), and at most
  * PROBE_MS of function calls.  Without such an index, with a route or
  * epsilon that is not a constant while planning (a parameter of a generic
- * plan) or in a join clause, the support function declines and the
+ * plan), in a join clause, under row-level security or without SELECT on
+ * the column (column_readable), the support function declines and the
  * default stays.
  */
 #include "postgres.h"
@@ -52,6 +53,7 @@
 #include "parser/parsetree.h"
 #include "portability/instr_time.h"
 #include "storage/bufmgr.h"
+#include "utils/acl.h"
 #include "utils/lsyscache.h"
 #include "utils/memutils.h"
 #include "utils/snapmgr.h"
@@ -126,6 +128,26 @@ our_index_on(RelOptInfo *rel, Var *var, Oid keytype, StrategyNumber strategy)
 			return index->indexoid;
 	}
 	return InvalidOid;
+}
+
+/*
+ * May the estimate read this column's rows and index entries?  Not under
+ * row-level security (the policies' conditions are the RTE's security
+ * quals) nor without SELECT on the table or the column for the user the
+ * query runs as: the same rule by which PostgreSQL withholds a column's
+ * statistics from functions that are not leakproof (examine_variable).
+ */
+static bool
+column_readable(PlannerInfo *root, Var *var)
+{
+	RangeTblEntry *rte = planner_rt_fetch(var->varno, root);
+	Oid			userid;
+
+	if (rte->rtekind != RTE_RELATION || rte->securityQuals != NIL)
+		return false;
+	userid = OidIsValid(rte->checkAsUser) ? rte->checkAsUser : GetUserId();
+	return pg_class_aclcheck(rte->relid, userid, ACL_SELECT) == ACLCHECK_OK ||
+		pg_attribute_aclcheck(rte->relid, var->varattno, userid, ACL_SELECT) == ACLCHECK_OK;
 }
 
 /* Does a key cover everything (the key of a track the functions reject)? */
@@ -486,7 +508,8 @@ frechet_key_restrict(PG_FUNCTION_ARGS)
 		other = linitial(args);
 		opno = get_commutator(opno);
 	}
-	if (var == NULL || !OidIsValid(opno) || (varRelid != 0 && varRelid != var->varno))
+	if (var == NULL || !OidIsValid(opno) || (varRelid != 0 && varRelid != var->varno) ||
+		!column_readable(root, var))
 		PG_RETURN_FLOAT8(DEFAULT_REACH_SELECTIVITY);
 	other = estimate_expression_value(root, other);
 	if (!IsA(other, Const))
@@ -544,7 +567,8 @@ frechet_estimate_selectivity(SupportRequestSelectivity *req, int min_args, int m
 			return false;
 		args[a] = (Const *) arg;
 	}
-	if (var == NULL || (req->varRelid != 0 && req->varRelid != var->varno))
+	if (var == NULL || (req->varRelid != 0 && req->varRelid != var->varno) ||
+		!column_readable(root, var))
 		return false;
 	rel = find_base_rel(root, var->varno);
 	if (rel->tuples <= 0)

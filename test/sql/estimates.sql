@@ -84,7 +84,26 @@ SELECT pg_temp.estimate($$SELECT * FROM es_trips WHERE frechet_at_most(track, '{
 SELECT pg_temp.estimate($$SELECT * FROM es_trips WHERE frechet_at_most(track, '{"(0,0)","(100,0)"}', NULL)$$) AS null_epsilon_estimate;
 
 -- PostgreSQL's default, a third of the table, where the estimate cannot
--- be made: a parameter in a generic plan, and a column without our index.
+-- be made: under row-level security (the estimate would read rows the
+-- policy hides; here the policy hides none, and its own selectivity is
+-- about 1), a parameter in a generic plan, and a column without our index.
+CREATE ROLE es_reader;
+GRANT SELECT ON es_trips TO es_reader;
+GRANT USAGE ON SCHEMA public TO es_reader;
+ALTER TABLE es_trips ENABLE ROW LEVEL SECURITY;
+CREATE POLICY es_all ON es_trips FOR SELECT TO es_reader USING (rid > 0);
+GRANT SELECT ON es_routes TO es_reader;
+SET ROLE es_reader;
+SELECT pg_temp.estimate(format('SELECT * FROM es_trips WHERE frechet_at_most(track, %L::point[], 12)',
+                               (SELECT route FROM es_routes WHERE rid = 1))) > 20002 / 4.0 AS rls_keeps_default;
+RESET ROLE;
+SELECT pg_temp.estimate(format('SELECT * FROM es_trips WHERE frechet_at_most(track, %L::point[], 12)',
+                               (SELECT route FROM es_routes WHERE rid = 1))) < 1000 AS owner_gets_estimate;
+ALTER TABLE es_trips DISABLE ROW LEVEL SECURITY;
+DROP POLICY es_all ON es_trips;
+REVOKE ALL ON es_trips, es_routes FROM es_reader;
+REVOKE USAGE ON SCHEMA public FROM es_reader;
+DROP ROLE es_reader;
 SET plan_cache_mode = force_generic_plan;
 PREPARE es_q(point[], float8) AS SELECT * FROM es_trips WHERE frechet_at_most(track, $1, $2);
 CREATE FUNCTION pg_temp.estimate_prepared() RETURNS float8
