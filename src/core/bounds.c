@@ -12,6 +12,7 @@
  * longest leash of a monotone vertex coupling, which bounds the continuous
  * distance from above (Eiter & Mannila 1994: d <= d_discrete).
  */
+#include <float.h>
 #include <math.h>
 
 #include "bounds.h"
@@ -123,6 +124,72 @@ fr_key_everything(fr_key *key)
 		key->hi[i] = INFINITY;
 	}
 	key->reach = 0.0;
+}
+
+/* The largest float not above v (-FLT_MAX below the range ... -Inf for -Inf). */
+static float
+float_down(double v)
+{
+	float		f = (float) v;
+
+	if ((double) f > v)
+		f = nextafterf(f, -INFINITY);
+	return f;
+}
+
+/* The smallest float not below v. */
+static float
+float_up(double v)
+{
+	float		f = (float) v;
+
+	if ((double) f < v)
+		f = nextafterf(f, INFINITY);
+	return f;
+}
+
+size_t
+fr_key_pack(const fr_key *k, float *out)
+{
+	bool		point = true;
+
+	for (int i = 0; i < FR_KEY_NDIM && point; i++)
+		point = k->lo[i] == k->hi[i] && fabs(k->lo[i]) < FLT_MAX;
+	if (point)
+	{
+		for (int i = 0; i < FR_KEY_NDIM; i++)
+			out[i] = (float) k->lo[i];
+		return FR_KEY_PACKED_POINT;
+	}
+	for (int i = 0; i < FR_KEY_NDIM; i++)
+	{
+		out[2 * i] = float_down(k->lo[i]);
+		out[2 * i + 1] = float_up(k->hi[i]);
+	}
+	return FR_KEY_PACKED_RANGE;
+}
+
+bool
+fr_key_unpack(const float *in, size_t n, fr_key *out)
+{
+	out->reach = 0.0;
+	if (n == FR_KEY_PACKED_POINT)
+	{
+		for (int i = 0; i < FR_KEY_NDIM; i++)
+		{
+			out->lo[i] = nextafterf(in[i], -INFINITY);
+			out->hi[i] = nextafterf(in[i], INFINITY);
+		}
+		return true;
+	}
+	if (n != FR_KEY_PACKED_RANGE)
+		return false;
+	for (int i = 0; i < FR_KEY_NDIM; i++)
+	{
+		out->lo[i] = in[2 * i];
+		out->hi[i] = in[2 * i + 1];
+	}
+	return true;
 }
 
 /* Widens acc to cover k. */

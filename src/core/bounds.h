@@ -46,6 +46,29 @@ typedef struct fr_key
 	double		reach;
 } fr_key;
 
+/*
+ * Keys packed into float4 values for an index to store.  A key whose
+ * every interval is one finite value below FLT_MAX in magnitude (a leaf's
+ * key: one curve) packs into FR_KEY_PACKED_POINT floats, each the value
+ * rounded to the nearest float; it unpacks to the floats either side of
+ * that (round to nearest errs by at most half the gap to the neighbour on
+ * the value's side, so the value lies between them).  Any other key packs
+ * into FR_KEY_PACKED_RANGE floats, each low end rounded down and each high
+ * end rounded up (beyond the float range: to infinity).  Either way the
+ * unpacked key covers the packed one, interval by interval, and every
+ * bound here only falls when a key's intervals widen (which the bounds of
+ * a node, the union of its entries, already rely on), so a packed key
+ * never lets the index drop a curve that the unpacked key would keep.
+ */
+#define FR_KEY_PACKED_POINT FR_KEY_NDIM
+#define FR_KEY_PACKED_RANGE (2 * FR_KEY_NDIM)
+
+/* Packs a key (its reach is not kept); returns the floats written to out. */
+size_t		fr_key_pack(const fr_key *k, float *out);
+
+/* Unpacks n floats written by fr_key_pack (reach 0); false if n is neither size. */
+bool		fr_key_unpack(const float *in, size_t n, fr_key *out);
+
 /* fr_verdict, the verdict of the cheap bounds, is in frechet.h. */
 
 /* The summary of one curve (x and y only; z is ignored, which keeps bounds valid). */

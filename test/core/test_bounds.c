@@ -436,6 +436,87 @@ everything_key_covers_all(void **state)
 	assert_true(isinf(fr_key_margin(&all)));
 }
 
+/*
+ * Packed keys (float4, for the index to store) cover the keys they pack,
+ * interval by interval, at every scale (and to infinity beyond float4's
+ * range), and no bound rises when computed on them: the index keeps every
+ * curve with packed keys that it keeps with full ones.
+ */
+static void
+packed_keys_cover_and_never_raise_bounds(void **state)
+{
+	double		a[128],
+				b[128],
+				sorted[256],
+				hull[512];
+	static const double key_scales[][2] = {{1.0, 0.0}, {1.0, 1e7}, {1e-40, 0.0}, {1e-170, 0.0},
+	{1e35, 0.0}, {1e39, 0.0}, {1e300, 0.0}, {0.25, -6e6}};
+
+	for (size_t sc = 0; sc < sizeof(key_scales) / sizeof(key_scales[0]); sc++)
+	{
+		for (int iter = 0; iter < 300; iter++)
+		{
+			fr_key		ka,
+						kb,
+						node,
+						unpacked[3];
+			const fr_key *orig[3] = {&ka, &kb, &node};
+			float		packed[FR_KEY_PACKED_RANGE];
+			size_t		m,
+						n,
+						nh;
+			fr_curve	p,
+						q;
+
+			n = make_pair((enum pair_kind) (iter % PAIR_KINDS), a, b, &m);
+			for (size_t i = 0; i < 2 * n; i++)
+				a[i] = a[i] * key_scales[sc][0] + key_scales[sc][1];
+			for (size_t i = 0; i < 2 * m; i++)
+				b[i] = b[i] * key_scales[sc][0] + key_scales[sc][1];
+			p = (fr_curve) {a, n, 2};
+			q = (fr_curve) {b, m, 2};
+			fr_key_of_curve(&p, &ka);
+			fr_key_of_curve(&q, &kb);
+			node = ka;
+			fr_key_union(&node, &kb);
+			nh = fr_convex_hull(&q, sorted, hull);
+			for (int k = 0; k < 3; k++)
+			{
+				size_t		np = fr_key_pack(orig[k], packed);
+
+				/* one curve's key packs small unless its values leave float4's range */
+				if (k < 2 && key_scales[sc][0] < 1e38)
+					assert_int_equal(np, FR_KEY_PACKED_POINT);
+				if (k == 2 && !fr_key_equal(&ka, &kb))
+					assert_int_equal(np, FR_KEY_PACKED_RANGE);
+				assert_true(fr_key_unpack(packed, np, &unpacked[k]));
+				for (int i = 0; i < FR_KEY_NDIM; i++)
+				{
+					assert_true(unpacked[k].lo[i] <= orig[k]->lo[i]);
+					assert_true(unpacked[k].hi[i] >= orig[k]->hi[i]);
+				}
+			}
+			kb.reach = 1.0;
+			for (int k = 0; k < 3; k += 2)
+			{
+				assert_true(fr_key_bound(&unpacked[k], &kb) <= fr_key_bound(orig[k], &kb));
+				assert_true(fr_key_ping_bound(&unpacked[k], &kb) <= fr_key_ping_bound(orig[k], &kb));
+				assert_true(fr_key_ping_bound_ends(&unpacked[k], &kb) <= fr_key_ping_bound_ends(orig[k], &kb));
+				assert_true(fr_key_passage_bound(&unpacked[k], &kb) <= fr_key_passage_bound(orig[k], &kb));
+				assert_true(fr_key_hull_bound(&unpacked[k], &kb, hull, nh) <= fr_key_hull_bound(orig[k], &kb, hull, nh));
+				assert_true(fr_key_passage_hull_bound(&unpacked[k], &kb, hull, nh) <=
+							fr_key_passage_hull_bound(orig[k], &kb, hull, nh));
+			}
+		}
+	}
+	{
+		float		junk[3] = {0};
+		fr_key		k;
+
+		assert_false(fr_key_unpack(junk, 3, &k));
+	}
+}
+
 int
 main(void)
 {
@@ -448,6 +529,7 @@ main(void)
 		cmocka_unit_test(greedy_walk_follows_a_planned_route),
 		cmocka_unit_test(hull_keeps_the_farthest_vertex),
 		cmocka_unit_test(everything_key_covers_all),
+		cmocka_unit_test(packed_keys_cover_and_never_raise_bounds),
 	};
 
 	return cmocka_run_group_tests(tests, NULL, NULL);
