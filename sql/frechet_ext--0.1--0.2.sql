@@ -346,3 +346,164 @@ COMMENT ON FUNCTION @extschema@.frechet_gist_sortsupport(internal) IS
 
 ALTER OPERATOR FAMILY @extschema@.frechet_track_ops USING gist ADD
 	FUNCTION 11 (pg_catalog.point[], pg_catalog.point[]) @extschema@.frechet_gist_sortsupport(internal);
+
+-- Packed index keys.  0.2's operator class stores frechet_summary (32
+-- bytes for a track: src/core/bounds.c, fr_key_pack) where 0.1's stored
+-- frechet_key (136 bytes).  PostgreSQL has no command to change a class's
+-- storage type, and an index keeps the key type it was built with (a
+-- REINDEX too), so: the indexes of the class are dropped, the family is
+-- made again with the new storage and every member, and the indexes are
+-- built again from their definitions (same names, tablespaces, comments
+-- and CLUSTER marks).  Until this update runs, a 0.1 index keeps working
+-- with the new library: 0.1's C entry points still read wide keys.
+CREATE TYPE @extschema@.frechet_summary;
+
+CREATE FUNCTION @extschema@.frechet_summary_in(pg_catalog.cstring)
+RETURNS @extschema@.frechet_summary
+AS 'MODULE_PATHNAME', 'frechet_summary_in'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+
+CREATE FUNCTION @extschema@.frechet_summary_out(@extschema@.frechet_summary)
+RETURNS pg_catalog.cstring
+AS 'MODULE_PATHNAME', 'frechet_summary_out'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+
+CREATE TYPE @extschema@.frechet_summary (
+	INPUT = @extschema@.frechet_summary_in,
+	OUTPUT = @extschema@.frechet_summary_out,
+	INTERNALLENGTH = VARIABLE,
+	ALIGNMENT = int4,
+	STORAGE = plain
+);
+
+COMMENT ON TYPE @extschema@.frechet_summary IS
+'the packed summary a Fréchet GiST index stores: float4 values rounded outward from a frechet_key (32 bytes for a track)';
+
+COMMENT ON FUNCTION @extschema@.frechet_summary_in(pg_catalog.cstring) IS
+'text input of frechet_summary (a frechet_key''s text, packed)';
+
+COMMENT ON FUNCTION @extschema@.frechet_summary_out(@extschema@.frechet_summary) IS
+'text output of frechet_summary (the frechet_key it unpacks to)';
+
+-- The indexes of the family, kept in a transaction-local setting until
+-- they are built again below, and dropped.  Partitions' indexes come back
+-- with their parent's.
+DO $do$
+DECLARE
+	defs pg_catalog.jsonb := '[]';
+	r record;
+BEGIN
+	FOR r IN
+		SELECT i.indexrelid::pg_catalog.regclass AS ix,
+		       pg_catalog.replace(pg_catalog.pg_get_indexdef(i.indexrelid), ' ON ONLY ', ' ON ') AS def,
+		       (SELECT t.spcname FROM pg_catalog.pg_tablespace t WHERE t.oid OPERATOR(pg_catalog.=) c.reltablespace) AS spc,
+		       pg_catalog.obj_description(i.indexrelid, 'pg_class') AS cmt,
+		       i.indisclustered AS clustered, i.indrelid::pg_catalog.regclass::pg_catalog.text AS tbl, c.relname,
+		       c.relnamespace::pg_catalog.regnamespace::pg_catalog.text AS nsp
+		FROM pg_catalog.pg_index i
+		JOIN pg_catalog.pg_class c ON c.oid OPERATOR(pg_catalog.=) i.indexrelid
+		WHERE EXISTS (SELECT 1 FROM pg_catalog.pg_opclass oc JOIN pg_catalog.pg_opfamily f ON f.oid OPERATOR(pg_catalog.=) oc.opcfamily
+		              WHERE oc.oid OPERATOR(pg_catalog.=) ANY (i.indclass::pg_catalog.oid[])
+		                AND f.opfname OPERATOR(pg_catalog.=) 'frechet_track_ops'
+		                AND f.opfnamespace OPERATOR(pg_catalog.=) '@extschema@'::pg_catalog.regnamespace)
+		  AND NOT EXISTS (SELECT 1 FROM pg_catalog.pg_inherits h WHERE h.inhrelid OPERATOR(pg_catalog.=) i.indexrelid)
+	LOOP
+		defs := defs OPERATOR(pg_catalog.||) pg_catalog.jsonb_build_array(pg_catalog.jsonb_build_object(
+			'def', r.def, 'spc', r.spc, 'cmt', r.cmt, 'clustered', r.clustered, 'tbl', r.tbl, 'name', r.relname, 'nsp', r.nsp));
+		EXECUTE pg_catalog.format('DROP INDEX %s', r.ix);
+	END LOOP;
+	PERFORM pg_catalog.set_config('frechet_ext_upgrade.indexes', defs::pg_catalog.text, true);
+END $do$;
+
+DROP OPERATOR FAMILY @extschema@.frechet_track_ops USING gist;
+
+CREATE OR REPLACE FUNCTION @extschema@.frechet_gist_consistent(internal, pg_catalog.point[], pg_catalog.int2, pg_catalog.oid, internal)
+RETURNS pg_catalog.bool
+AS 'MODULE_PATHNAME', 'frechet_gist_consistent_packed_planar'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+
+DROP FUNCTION @extschema@.frechet_gist_union(internal, internal);
+
+CREATE FUNCTION @extschema@.frechet_gist_union(internal, internal)
+RETURNS @extschema@.frechet_summary
+AS 'MODULE_PATHNAME', 'frechet_gist_union_packed'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+
+COMMENT ON FUNCTION @extschema@.frechet_gist_union(internal, internal) IS
+'GiST support: the key covering a set of entries';
+
+CREATE OR REPLACE FUNCTION @extschema@.frechet_gist_compress(internal)
+RETURNS internal
+AS 'MODULE_PATHNAME', 'frechet_gist_compress_packed_point_array'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+
+CREATE OR REPLACE FUNCTION @extschema@.frechet_gist_penalty(internal, internal, internal)
+RETURNS internal
+AS 'MODULE_PATHNAME', 'frechet_gist_penalty_packed'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+
+CREATE OR REPLACE FUNCTION @extschema@.frechet_gist_picksplit(internal, internal)
+RETURNS internal
+AS 'MODULE_PATHNAME', 'frechet_gist_picksplit_packed'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+
+DROP FUNCTION @extschema@.frechet_gist_same(@extschema@.frechet_key, @extschema@.frechet_key, internal);
+
+CREATE FUNCTION @extschema@.frechet_gist_same(@extschema@.frechet_summary, @extschema@.frechet_summary, internal)
+RETURNS internal
+AS 'MODULE_PATHNAME', 'frechet_gist_same_packed'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+
+COMMENT ON FUNCTION @extschema@.frechet_gist_same(@extschema@.frechet_summary, @extschema@.frechet_summary, internal) IS
+'GiST support: equality of keys';
+
+CREATE OR REPLACE FUNCTION @extschema@.frechet_gist_distance(internal, pg_catalog.point[], pg_catalog.int2, pg_catalog.oid, internal)
+RETURNS pg_catalog.float8
+AS 'MODULE_PATHNAME', 'frechet_gist_distance_packed_point_array'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+
+CREATE OR REPLACE FUNCTION @extschema@.frechet_gist_sortsupport(internal)
+RETURNS pg_catalog.void
+AS 'MODULE_PATHNAME', 'frechet_gist_sortsupport_packed'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+
+CREATE OPERATOR CLASS @extschema@.frechet_track_ops
+DEFAULT FOR TYPE pg_catalog.point[] USING gist AS
+	OPERATOR 15 @extschema@.<-> (pg_catalog.point[], pg_catalog.point[]) FOR ORDER BY pg_catalog.float_ops,
+	FUNCTION 1 @extschema@.frechet_gist_consistent(internal, pg_catalog.point[], pg_catalog.int2, pg_catalog.oid, internal),
+	FUNCTION 2 @extschema@.frechet_gist_union(internal, internal),
+	FUNCTION 3 @extschema@.frechet_gist_compress(internal),
+	FUNCTION 5 @extschema@.frechet_gist_penalty(internal, internal, internal),
+	FUNCTION 6 @extschema@.frechet_gist_picksplit(internal, internal),
+	FUNCTION 7 @extschema@.frechet_gist_same(@extschema@.frechet_summary, @extschema@.frechet_summary, internal),
+	FUNCTION 8 @extschema@.frechet_gist_distance(internal, pg_catalog.point[], pg_catalog.int2, pg_catalog.oid, internal),
+	STORAGE @extschema@.frechet_summary;
+
+ALTER OPERATOR FAMILY @extschema@.frechet_track_ops USING gist ADD
+	OPERATOR 1 @extschema@.|~~| (pg_catalog.point[], @extschema@.frechet_key),
+	OPERATOR 30 @extschema@.|~~~| (pg_catalog.point[], @extschema@.frechet_key),
+	OPERATOR 31 @extschema@.|~~>| (pg_catalog.point[], @extschema@.frechet_key),
+	OPERATOR 32 @extschema@.<~~>> (pg_catalog.point[], pg_catalog.point[]) FOR ORDER BY pg_catalog.float_ops,
+	FUNCTION 11 (pg_catalog.point[], pg_catalog.point[]) @extschema@.frechet_gist_sortsupport(internal);
+
+-- The indexes again, with packed keys.
+DO $do$
+DECLARE
+	d pg_catalog.jsonb;
+	ix pg_catalog.regclass;
+BEGIN
+	FOR d IN SELECT pg_catalog.jsonb_array_elements(pg_catalog.current_setting('frechet_ext_upgrade.indexes')::pg_catalog.jsonb)
+	LOOP
+		EXECUTE d OPERATOR(pg_catalog.->>) 'def';
+		ix := pg_catalog.format('%s.%I', d OPERATOR(pg_catalog.->>) 'nsp', d OPERATOR(pg_catalog.->>) 'name')::pg_catalog.regclass;
+		IF d OPERATOR(pg_catalog.->>) 'spc' IS NOT NULL THEN
+			EXECUTE pg_catalog.format('ALTER INDEX %s SET TABLESPACE %I', ix, d OPERATOR(pg_catalog.->>) 'spc');
+		END IF;
+		IF d OPERATOR(pg_catalog.->>) 'cmt' IS NOT NULL THEN
+			EXECUTE pg_catalog.format('COMMENT ON INDEX %s IS %L', ix, d OPERATOR(pg_catalog.->>) 'cmt');
+		END IF;
+		IF (d OPERATOR(pg_catalog.->>) 'clustered')::pg_catalog.bool THEN
+			EXECUTE pg_catalog.format('ALTER TABLE %s CLUSTER ON %I', d OPERATOR(pg_catalog.->>) 'tbl', d OPERATOR(pg_catalog.->>) 'name');
+		END IF;
+	END LOOP;
+END $do$;

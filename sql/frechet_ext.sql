@@ -124,6 +124,39 @@ COMMENT ON FUNCTION @extschema@.frechet_key_in(pg_catalog.cstring) IS
 COMMENT ON FUNCTION @extschema@.frechet_key_out(@extschema@.frechet_key) IS
 'text output of frechet_key';
 
+-- The packed key our operator classes store (src/core/bounds.c,
+-- fr_key_pack): a track's first vertex, last vertex and box in 8 float4
+-- (read back widened to the floats either side), a node's ranges in 16
+-- rounded outward.  Its text form is frechet_key's.
+CREATE TYPE @extschema@.frechet_summary;
+
+CREATE FUNCTION @extschema@.frechet_summary_in(pg_catalog.cstring)
+RETURNS @extschema@.frechet_summary
+AS 'MODULE_PATHNAME', 'frechet_summary_in'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+
+CREATE FUNCTION @extschema@.frechet_summary_out(@extschema@.frechet_summary)
+RETURNS pg_catalog.cstring
+AS 'MODULE_PATHNAME', 'frechet_summary_out'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+
+CREATE TYPE @extschema@.frechet_summary (
+	INPUT = @extschema@.frechet_summary_in,
+	OUTPUT = @extschema@.frechet_summary_out,
+	INTERNALLENGTH = VARIABLE,
+	ALIGNMENT = int4,
+	STORAGE = plain
+);
+
+COMMENT ON TYPE @extschema@.frechet_summary IS
+'the packed summary a Fréchet GiST index stores: float4 values rounded outward from a frechet_key (32 bytes for a track)';
+
+COMMENT ON FUNCTION @extschema@.frechet_summary_in(pg_catalog.cstring) IS
+'text input of frechet_summary (a frechet_key''s text, packed)';
+
+COMMENT ON FUNCTION @extschema@.frechet_summary_out(@extschema@.frechet_summary) IS
+'text output of frechet_summary (the frechet_key it unpacks to)';
+
 CREATE FUNCTION @extschema@.frechet_track_key(track pg_catalog.point[])
 RETURNS @extschema@.frechet_key
 AS 'MODULE_PATHNAME', 'frechet_track_key_point_array'
@@ -194,37 +227,37 @@ COMMENT ON OPERATOR @extschema@.|~~| (@extschema@.frechet_key, pg_catalog.point[
 
 CREATE FUNCTION @extschema@.frechet_gist_consistent(internal, pg_catalog.point[], pg_catalog.int2, pg_catalog.oid, internal)
 RETURNS pg_catalog.bool
-AS 'MODULE_PATHNAME', 'frechet_gist_consistent_planar'
+AS 'MODULE_PATHNAME', 'frechet_gist_consistent_packed_planar'
 LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
 
 CREATE FUNCTION @extschema@.frechet_gist_union(internal, internal)
-RETURNS @extschema@.frechet_key
-AS 'MODULE_PATHNAME', 'frechet_gist_union'
+RETURNS @extschema@.frechet_summary
+AS 'MODULE_PATHNAME', 'frechet_gist_union_packed'
 LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
 
 CREATE FUNCTION @extschema@.frechet_gist_compress(internal)
 RETURNS internal
-AS 'MODULE_PATHNAME', 'frechet_gist_compress'
+AS 'MODULE_PATHNAME', 'frechet_gist_compress_packed_point_array'
 LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
 
 CREATE FUNCTION @extschema@.frechet_gist_penalty(internal, internal, internal)
 RETURNS internal
-AS 'MODULE_PATHNAME', 'frechet_gist_penalty'
+AS 'MODULE_PATHNAME', 'frechet_gist_penalty_packed'
 LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
 
 CREATE FUNCTION @extschema@.frechet_gist_picksplit(internal, internal)
 RETURNS internal
-AS 'MODULE_PATHNAME', 'frechet_gist_picksplit'
+AS 'MODULE_PATHNAME', 'frechet_gist_picksplit_packed'
 LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
 
-CREATE FUNCTION @extschema@.frechet_gist_same(@extschema@.frechet_key, @extschema@.frechet_key, internal)
+CREATE FUNCTION @extschema@.frechet_gist_same(@extschema@.frechet_summary, @extschema@.frechet_summary, internal)
 RETURNS internal
-AS 'MODULE_PATHNAME', 'frechet_gist_same'
+AS 'MODULE_PATHNAME', 'frechet_gist_same_packed'
 LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
 
 CREATE FUNCTION @extschema@.frechet_gist_distance(internal, pg_catalog.point[], pg_catalog.int2, pg_catalog.oid, internal)
 RETURNS pg_catalog.float8
-AS 'MODULE_PATHNAME', 'frechet_gist_distance'
+AS 'MODULE_PATHNAME', 'frechet_gist_distance_packed_point_array'
 LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
 
 COMMENT ON FUNCTION @extschema@.frechet_gist_consistent(internal, pg_catalog.point[], pg_catalog.int2, pg_catalog.oid, internal) IS
@@ -237,7 +270,7 @@ COMMENT ON FUNCTION @extschema@.frechet_gist_penalty(internal, internal, interna
 'GiST support: growth of a node''s key when it takes an entry';
 COMMENT ON FUNCTION @extschema@.frechet_gist_picksplit(internal, internal) IS
 'GiST support: split of a full page';
-COMMENT ON FUNCTION @extschema@.frechet_gist_same(@extschema@.frechet_key, @extschema@.frechet_key, internal) IS
+COMMENT ON FUNCTION @extschema@.frechet_gist_same(@extschema@.frechet_summary, @extschema@.frechet_summary, internal) IS
 'GiST support: equality of keys';
 COMMENT ON FUNCTION @extschema@.frechet_gist_distance(internal, pg_catalog.point[], pg_catalog.int2, pg_catalog.oid, internal) IS
 'GiST support: a lower bound of the Fréchet distance from the query route to the tracks under an entry';
@@ -250,9 +283,9 @@ DEFAULT FOR TYPE pg_catalog.point[] USING gist AS
 	FUNCTION 3 @extschema@.frechet_gist_compress(internal),
 	FUNCTION 5 @extschema@.frechet_gist_penalty(internal, internal, internal),
 	FUNCTION 6 @extschema@.frechet_gist_picksplit(internal, internal),
-	FUNCTION 7 @extschema@.frechet_gist_same(@extschema@.frechet_key, @extschema@.frechet_key, internal),
+	FUNCTION 7 @extschema@.frechet_gist_same(@extschema@.frechet_summary, @extschema@.frechet_summary, internal),
 	FUNCTION 8 @extschema@.frechet_gist_distance(internal, pg_catalog.point[], pg_catalog.int2, pg_catalog.oid, internal),
-	STORAGE @extschema@.frechet_key;
+	STORAGE @extschema@.frechet_summary;
 
 -- The range operator is a member of the family, not of the class: 0.2
 -- renamed it (from 0.1's &~, which PostGIS's box operators made easy to
@@ -542,7 +575,7 @@ ALTER OPERATOR FAMILY @extschema@.frechet_track_ops USING gist ADD
 -- Only the build changes: existing indexes and answers are the same.
 CREATE FUNCTION @extschema@.frechet_gist_sortsupport(internal)
 RETURNS pg_catalog.void
-AS 'MODULE_PATHNAME', 'frechet_gist_sortsupport'
+AS 'MODULE_PATHNAME', 'frechet_gist_sortsupport_packed'
 LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
 
 COMMENT ON FUNCTION @extschema@.frechet_gist_sortsupport(internal) IS

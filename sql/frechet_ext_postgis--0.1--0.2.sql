@@ -2,7 +2,7 @@
 \echo Use "ALTER EXTENSION frechet_ext_postgis UPDATE TO '0.2'" to load this file. \quit
 -- PostGIS's types, which PostgreSQL 15 offers no placeholder to qualify:
 -- ALTER EXTENSION ... UPDATE finds them through the search_path it sets.
--- lint_sql: allow geometry geography frechet_key
+-- lint_sql: allow geometry geography frechet_key frechet_summary
 
 -- PostGIS's own box operators in both classes.  PostGIS's planner support
 -- (postgis_index_supportfn) turns ST_DWithin, ST_Intersects, ST_Contains
@@ -561,24 +561,9 @@ COMMENT ON FUNCTION @extschema@.frechet_track_piece(geography, pg_catalog.float8
 
 -- Geography edges now follow their geodesics (0.1: the straight chords
 -- between vertices), and the frechet_geography_ops keys summarise them: a
--- key of 0.1 can miss the bulge of a long edge, so those indexes are
--- rebuilt here.  One this role may not rebuild gets a WARNING saying so.
-DO $do$
-DECLARE
-	ix pg_catalog.regclass;
-BEGIN
-	FOR ix IN SELECT DISTINCT i.indexrelid::pg_catalog.regclass FROM pg_catalog.pg_index i
-		JOIN pg_catalog.pg_opclass c ON c.oid OPERATOR(pg_catalog.=) ANY (i.indclass::pg_catalog.oid[])
-		WHERE c.opcname OPERATOR(pg_catalog.=) 'frechet_geography_ops'
-		  AND c.opcnamespace OPERATOR(pg_catalog.=) '@extschema@'::pg_catalog.regnamespace
-	LOOP
-		BEGIN
-			EXECUTE pg_catalog.format('REINDEX INDEX %s', ix);
-		EXCEPTION WHEN insufficient_privilege THEN
-			RAISE WARNING 'index % was built with the keys of 0.1; run REINDEX INDEX % as its owner', ix, ix;
-		END;
-	END LOOP;
-END $do$;
+-- key of 0.1 can miss the bulge of a long edge.  Those indexes, like every
+-- index of our classes, are built again at the end of this script (packed
+-- keys).
 
 -- Corridor search on geometry (units of the SRID) and geography (metres):
 -- frechet_passes, frechet_passage_distance (<~~>>), frechet_passage, and
@@ -722,3 +707,181 @@ ALTER OPERATOR FAMILY @extschema@.frechet_geometry_ops USING gist ADD
 	FUNCTION 11 (geometry, geometry) @extschema@.frechet_geo_gist_sortsupport(internal);
 ALTER OPERATOR FAMILY @extschema@.frechet_geography_ops USING gist ADD
 	FUNCTION 11 (geography, geography) @extschema@.frechet_geo_gist_sortsupport(internal);
+
+-- Packed index keys (frechet_ext's frechet_summary, as in frechet_ext's
+-- upgrade to 0.2): the indexes of both classes are dropped, the families
+-- made again with the new storage and every member, and the indexes built
+-- again from their definitions (same names, tablespaces, comments and
+-- CLUSTER marks).  Until this update runs, a 0.1 index keeps working with
+-- the new library: 0.1's C entry points still read wide keys.
+DO $do$
+DECLARE
+	defs pg_catalog.jsonb := '[]';
+	r record;
+BEGIN
+	FOR r IN
+		SELECT i.indexrelid::pg_catalog.regclass AS ix,
+		       pg_catalog.replace(pg_catalog.pg_get_indexdef(i.indexrelid), ' ON ONLY ', ' ON ') AS def,
+		       (SELECT t.spcname FROM pg_catalog.pg_tablespace t WHERE t.oid OPERATOR(pg_catalog.=) c.reltablespace) AS spc,
+		       pg_catalog.obj_description(i.indexrelid, 'pg_class') AS cmt,
+		       i.indisclustered AS clustered, i.indrelid::pg_catalog.regclass::pg_catalog.text AS tbl, c.relname,
+		       c.relnamespace::pg_catalog.regnamespace::pg_catalog.text AS nsp
+		FROM pg_catalog.pg_index i
+		JOIN pg_catalog.pg_class c ON c.oid OPERATOR(pg_catalog.=) i.indexrelid
+		WHERE EXISTS (SELECT 1 FROM pg_catalog.pg_opclass oc JOIN pg_catalog.pg_opfamily f ON f.oid OPERATOR(pg_catalog.=) oc.opcfamily
+		              WHERE oc.oid OPERATOR(pg_catalog.=) ANY (i.indclass::pg_catalog.oid[])
+		                AND f.opfname OPERATOR(pg_catalog.=) ANY (ARRAY['frechet_geometry_ops', 'frechet_geography_ops'])
+		                AND f.opfnamespace OPERATOR(pg_catalog.=) '@extschema@'::pg_catalog.regnamespace)
+		  AND NOT EXISTS (SELECT 1 FROM pg_catalog.pg_inherits h WHERE h.inhrelid OPERATOR(pg_catalog.=) i.indexrelid)
+	LOOP
+		defs := defs OPERATOR(pg_catalog.||) pg_catalog.jsonb_build_array(pg_catalog.jsonb_build_object(
+			'def', r.def, 'spc', r.spc, 'cmt', r.cmt, 'clustered', r.clustered, 'tbl', r.tbl, 'name', r.relname, 'nsp', r.nsp));
+		EXECUTE pg_catalog.format('DROP INDEX %s', r.ix);
+	END LOOP;
+	PERFORM pg_catalog.set_config('frechet_ext_upgrade.geo_indexes', defs::pg_catalog.text, true);
+END $do$;
+
+DROP OPERATOR FAMILY @extschema@.frechet_geometry_ops USING gist;
+DROP OPERATOR FAMILY @extschema@.frechet_geography_ops USING gist;
+
+CREATE OR REPLACE FUNCTION @extschema@.frechet_geometry_gist_consistent(internal, geometry, pg_catalog.int2, pg_catalog.oid, internal)
+RETURNS pg_catalog.bool
+AS 'MODULE_PATHNAME', 'frechet_gist_consistent_packed_planar'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+
+CREATE OR REPLACE FUNCTION @extschema@.frechet_geography_gist_consistent(internal, geography, pg_catalog.int2, pg_catalog.oid, internal)
+RETURNS pg_catalog.bool
+AS 'MODULE_PATHNAME', 'frechet_gist_consistent_packed_earth'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+
+DROP FUNCTION @extschema@.frechet_geo_gist_union(internal, internal);
+
+CREATE FUNCTION @extschema@.frechet_geo_gist_union(internal, internal)
+RETURNS frechet_summary
+AS 'MODULE_PATHNAME', 'frechet_gist_union_packed'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+
+COMMENT ON FUNCTION @extschema@.frechet_geo_gist_union(internal, internal) IS
+'GiST support: the key covering a set of entries';
+
+CREATE OR REPLACE FUNCTION @extschema@.frechet_geometry_gist_compress(internal)
+RETURNS internal
+AS 'MODULE_PATHNAME', 'frechet_gist_compress_packed_geometry'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+
+CREATE OR REPLACE FUNCTION @extschema@.frechet_geography_gist_compress(internal)
+RETURNS internal
+AS 'MODULE_PATHNAME', 'frechet_gist_compress_packed_geography'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+
+CREATE OR REPLACE FUNCTION @extschema@.frechet_geo_gist_penalty(internal, internal, internal)
+RETURNS internal
+AS 'MODULE_PATHNAME', 'frechet_gist_penalty_packed'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+
+CREATE OR REPLACE FUNCTION @extschema@.frechet_geo_gist_picksplit(internal, internal)
+RETURNS internal
+AS 'MODULE_PATHNAME', 'frechet_gist_picksplit_packed'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+
+DROP FUNCTION @extschema@.frechet_geo_gist_same(frechet_key, frechet_key, internal);
+
+CREATE FUNCTION @extschema@.frechet_geo_gist_same(frechet_summary, frechet_summary, internal)
+RETURNS internal
+AS 'MODULE_PATHNAME', 'frechet_gist_same_packed'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+
+COMMENT ON FUNCTION @extschema@.frechet_geo_gist_same(frechet_summary, frechet_summary, internal) IS
+'GiST support: equality of keys';
+
+CREATE OR REPLACE FUNCTION @extschema@.frechet_geometry_gist_distance(internal, geometry, pg_catalog.int2, pg_catalog.oid, internal)
+RETURNS pg_catalog.float8
+AS 'MODULE_PATHNAME', 'frechet_gist_distance_packed_geometry'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+
+CREATE OR REPLACE FUNCTION @extschema@.frechet_geography_gist_distance(internal, geography, pg_catalog.int2, pg_catalog.oid, internal)
+RETURNS pg_catalog.float8
+AS 'MODULE_PATHNAME', 'frechet_gist_distance_packed_geography'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+
+CREATE OR REPLACE FUNCTION @extschema@.frechet_geo_gist_sortsupport(internal)
+RETURNS pg_catalog.void
+AS 'MODULE_PATHNAME', 'frechet_gist_sortsupport_packed'
+LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
+
+CREATE OPERATOR CLASS @extschema@.frechet_geometry_ops
+FOR TYPE geometry USING gist AS
+	FUNCTION 1 @extschema@.frechet_geometry_gist_consistent(internal, geometry, pg_catalog.int2, pg_catalog.oid, internal),
+	FUNCTION 2 @extschema@.frechet_geo_gist_union(internal, internal),
+	FUNCTION 3 @extschema@.frechet_geometry_gist_compress(internal),
+	FUNCTION 5 @extschema@.frechet_geo_gist_penalty(internal, internal, internal),
+	FUNCTION 6 @extschema@.frechet_geo_gist_picksplit(internal, internal),
+	FUNCTION 7 @extschema@.frechet_geo_gist_same(frechet_summary, frechet_summary, internal),
+	FUNCTION 8 @extschema@.frechet_geometry_gist_distance(internal, geometry, pg_catalog.int2, pg_catalog.oid, internal),
+	STORAGE frechet_summary;
+
+CREATE OPERATOR CLASS @extschema@.frechet_geography_ops
+FOR TYPE geography USING gist AS
+	FUNCTION 1 @extschema@.frechet_geography_gist_consistent(internal, geography, pg_catalog.int2, pg_catalog.oid, internal),
+	FUNCTION 2 @extschema@.frechet_geo_gist_union(internal, internal),
+	FUNCTION 3 @extschema@.frechet_geography_gist_compress(internal),
+	FUNCTION 5 @extschema@.frechet_geo_gist_penalty(internal, internal, internal),
+	FUNCTION 6 @extschema@.frechet_geo_gist_picksplit(internal, internal),
+	FUNCTION 7 @extschema@.frechet_geo_gist_same(frechet_summary, frechet_summary, internal),
+	FUNCTION 8 @extschema@.frechet_geography_gist_distance(internal, geography, pg_catalog.int2, pg_catalog.oid, internal),
+	STORAGE frechet_summary;
+
+ALTER OPERATOR FAMILY @extschema@.frechet_geometry_ops USING gist ADD
+	OPERATOR 1 @extschema@.|~~| (geometry, frechet_key),
+	OPERATOR 15 @extschema@.<~~> (geometry, geometry) FOR ORDER BY pg_catalog.float_ops,
+	OPERATOR 30 @extschema@.|~~~| (geometry, frechet_key),
+	OPERATOR 31 @extschema@.|~~>| (geometry, frechet_key),
+	OPERATOR 32 @extschema@.<~~>> (geometry, geometry) FOR ORDER BY pg_catalog.float_ops,
+	FUNCTION 11 (geometry, geometry) @extschema@.frechet_geo_gist_sortsupport(internal);
+ALTER OPERATOR FAMILY @extschema@.frechet_geography_ops USING gist ADD
+	OPERATOR 1 @extschema@.|~~| (geography, frechet_key),
+	OPERATOR 15 @extschema@.<~~> (geography, geography) FOR ORDER BY pg_catalog.float_ops,
+	OPERATOR 30 @extschema@.|~~~| (geography, frechet_key),
+	OPERATOR 31 @extschema@.|~~>| (geography, frechet_key),
+	OPERATOR 32 @extschema@.<~~>> (geography, geography) FOR ORDER BY pg_catalog.float_ops,
+	FUNCTION 11 (geography, geography) @extschema@.frechet_geo_gist_sortsupport(internal);
+
+-- PostGIS's box operators again (see the start of this script).
+DO $$
+DECLARE
+	nsp pg_catalog.text := (SELECT n.nspname FROM pg_catalog.pg_extension e
+	                        JOIN pg_catalog.pg_namespace n ON n.oid = e.extnamespace
+	                        WHERE e.extname = 'postgis');
+BEGIN
+	EXECUTE pg_catalog.format(
+		'ALTER OPERATOR FAMILY @extschema@.frechet_geometry_ops USING gist ADD '
+		'OPERATOR 3 %1$I.&& (%1$I.geometry, %1$I.geometry), '
+		'OPERATOR 6 %1$I.~= (%1$I.geometry, %1$I.geometry), '
+		'OPERATOR 7 %1$I.~ (%1$I.geometry, %1$I.geometry), '
+		'OPERATOR 8 %1$I.@ (%1$I.geometry, %1$I.geometry)', nsp);
+	EXECUTE pg_catalog.format(
+		'ALTER OPERATOR FAMILY @extschema@.frechet_geography_ops USING gist ADD '
+		'OPERATOR 3 %1$I.&& (%1$I.geography, %1$I.geography)', nsp);
+END $$;
+
+-- The indexes again, with packed keys.
+DO $do$
+DECLARE
+	d pg_catalog.jsonb;
+	ix pg_catalog.regclass;
+BEGIN
+	FOR d IN SELECT pg_catalog.jsonb_array_elements(pg_catalog.current_setting('frechet_ext_upgrade.geo_indexes')::pg_catalog.jsonb)
+	LOOP
+		EXECUTE d OPERATOR(pg_catalog.->>) 'def';
+		ix := pg_catalog.format('%s.%I', d OPERATOR(pg_catalog.->>) 'nsp', d OPERATOR(pg_catalog.->>) 'name')::pg_catalog.regclass;
+		IF d OPERATOR(pg_catalog.->>) 'spc' IS NOT NULL THEN
+			EXECUTE pg_catalog.format('ALTER INDEX %s SET TABLESPACE %I', ix, d OPERATOR(pg_catalog.->>) 'spc');
+		END IF;
+		IF d OPERATOR(pg_catalog.->>) 'cmt' IS NOT NULL THEN
+			EXECUTE pg_catalog.format('COMMENT ON INDEX %s IS %L', ix, d OPERATOR(pg_catalog.->>) 'cmt');
+		END IF;
+		IF (d OPERATOR(pg_catalog.->>) 'clustered')::pg_catalog.bool THEN
+			EXECUTE pg_catalog.format('ALTER TABLE %s CLUSTER ON %I', d OPERATOR(pg_catalog.->>) 'tbl', d OPERATOR(pg_catalog.->>) 'name');
+		END IF;
+	END LOOP;
+END $do$;

@@ -7,8 +7,8 @@
 -- PostgreSQL 15 has no @extschema:postgis@ (nor @extschema:frechet_ext@);
 -- while this script runs, the schemas of the required extensions are on
 -- search_path after ours.  Make sure the type names below resolve to
--- PostGIS's own types; frechet_key is frechet_ext's.
--- lint_sql: allow geometry geography frechet_key
+-- PostGIS's own types; frechet_key and frechet_summary are frechet_ext's.
+-- lint_sql: allow geometry geography frechet_key frechet_summary
 DO $$
 DECLARE
 	pg_nsp oid := (SELECT extnamespace FROM pg_catalog.pg_extension WHERE extname = 'postgis');
@@ -427,52 +427,52 @@ COMMENT ON OPERATOR @extschema@.|~~| (frechet_key, geography) IS
 -- functions of frechet_track_ops; compress and distance decode PostGIS values.
 CREATE FUNCTION @extschema@.frechet_geometry_gist_consistent(internal, geometry, pg_catalog.int2, pg_catalog.oid, internal)
 RETURNS pg_catalog.bool
-AS 'MODULE_PATHNAME', 'frechet_gist_consistent_planar'
+AS 'MODULE_PATHNAME', 'frechet_gist_consistent_packed_planar'
 LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
 
 CREATE FUNCTION @extschema@.frechet_geography_gist_consistent(internal, geography, pg_catalog.int2, pg_catalog.oid, internal)
 RETURNS pg_catalog.bool
-AS 'MODULE_PATHNAME', 'frechet_gist_consistent_earth'
+AS 'MODULE_PATHNAME', 'frechet_gist_consistent_packed_earth'
 LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
 
 CREATE FUNCTION @extschema@.frechet_geo_gist_union(internal, internal)
-RETURNS frechet_key
-AS 'MODULE_PATHNAME', 'frechet_gist_union'
+RETURNS frechet_summary
+AS 'MODULE_PATHNAME', 'frechet_gist_union_packed'
 LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
 
 CREATE FUNCTION @extschema@.frechet_geometry_gist_compress(internal)
 RETURNS internal
-AS 'MODULE_PATHNAME', 'frechet_gist_compress_geometry'
+AS 'MODULE_PATHNAME', 'frechet_gist_compress_packed_geometry'
 LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
 
 CREATE FUNCTION @extschema@.frechet_geography_gist_compress(internal)
 RETURNS internal
-AS 'MODULE_PATHNAME', 'frechet_gist_compress_geography'
+AS 'MODULE_PATHNAME', 'frechet_gist_compress_packed_geography'
 LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
 
 CREATE FUNCTION @extschema@.frechet_geo_gist_penalty(internal, internal, internal)
 RETURNS internal
-AS 'MODULE_PATHNAME', 'frechet_gist_penalty'
+AS 'MODULE_PATHNAME', 'frechet_gist_penalty_packed'
 LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
 
 CREATE FUNCTION @extschema@.frechet_geo_gist_picksplit(internal, internal)
 RETURNS internal
-AS 'MODULE_PATHNAME', 'frechet_gist_picksplit'
+AS 'MODULE_PATHNAME', 'frechet_gist_picksplit_packed'
 LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
 
-CREATE FUNCTION @extschema@.frechet_geo_gist_same(frechet_key, frechet_key, internal)
+CREATE FUNCTION @extschema@.frechet_geo_gist_same(frechet_summary, frechet_summary, internal)
 RETURNS internal
-AS 'MODULE_PATHNAME', 'frechet_gist_same'
+AS 'MODULE_PATHNAME', 'frechet_gist_same_packed'
 LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
 
 CREATE FUNCTION @extschema@.frechet_geometry_gist_distance(internal, geometry, pg_catalog.int2, pg_catalog.oid, internal)
 RETURNS pg_catalog.float8
-AS 'MODULE_PATHNAME', 'frechet_gist_distance_geometry'
+AS 'MODULE_PATHNAME', 'frechet_gist_distance_packed_geometry'
 LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
 
 CREATE FUNCTION @extschema@.frechet_geography_gist_distance(internal, geography, pg_catalog.int2, pg_catalog.oid, internal)
 RETURNS pg_catalog.float8
-AS 'MODULE_PATHNAME', 'frechet_gist_distance_geography'
+AS 'MODULE_PATHNAME', 'frechet_gist_distance_packed_geography'
 LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
 
 COMMENT ON FUNCTION @extschema@.frechet_geometry_gist_consistent(internal, geometry, pg_catalog.int2, pg_catalog.oid, internal) IS
@@ -489,7 +489,7 @@ COMMENT ON FUNCTION @extschema@.frechet_geo_gist_penalty(internal, internal, int
 'GiST support: growth of a node''s key when it takes an entry';
 COMMENT ON FUNCTION @extschema@.frechet_geo_gist_picksplit(internal, internal) IS
 'GiST support: split of a full page';
-COMMENT ON FUNCTION @extschema@.frechet_geo_gist_same(frechet_key, frechet_key, internal) IS
+COMMENT ON FUNCTION @extschema@.frechet_geo_gist_same(frechet_summary, frechet_summary, internal) IS
 'GiST support: equality of keys';
 COMMENT ON FUNCTION @extschema@.frechet_geometry_gist_distance(internal, geometry, pg_catalog.int2, pg_catalog.oid, internal) IS
 'GiST support: a lower bound of the Fréchet distance from the query route to the curves under an entry';
@@ -503,9 +503,9 @@ FOR TYPE geometry USING gist AS
 	FUNCTION 3 @extschema@.frechet_geometry_gist_compress(internal),
 	FUNCTION 5 @extschema@.frechet_geo_gist_penalty(internal, internal, internal),
 	FUNCTION 6 @extschema@.frechet_geo_gist_picksplit(internal, internal),
-	FUNCTION 7 @extschema@.frechet_geo_gist_same(frechet_key, frechet_key, internal),
+	FUNCTION 7 @extschema@.frechet_geo_gist_same(frechet_summary, frechet_summary, internal),
 	FUNCTION 8 @extschema@.frechet_geometry_gist_distance(internal, geometry, pg_catalog.int2, pg_catalog.oid, internal),
-	STORAGE frechet_key;
+	STORAGE frechet_summary;
 
 CREATE OPERATOR CLASS @extschema@.frechet_geography_ops
 FOR TYPE geography USING gist AS
@@ -514,9 +514,9 @@ FOR TYPE geography USING gist AS
 	FUNCTION 3 @extschema@.frechet_geography_gist_compress(internal),
 	FUNCTION 5 @extschema@.frechet_geo_gist_penalty(internal, internal, internal),
 	FUNCTION 6 @extschema@.frechet_geo_gist_picksplit(internal, internal),
-	FUNCTION 7 @extschema@.frechet_geo_gist_same(frechet_key, frechet_key, internal),
+	FUNCTION 7 @extschema@.frechet_geo_gist_same(frechet_summary, frechet_summary, internal),
 	FUNCTION 8 @extschema@.frechet_geography_gist_distance(internal, geography, pg_catalog.int2, pg_catalog.oid, internal),
-	STORAGE frechet_key;
+	STORAGE frechet_summary;
 
 -- The range and ordering operators are members of the families, not of the
 -- classes: 0.2 renamed them (from 0.1's &~, easy to misread beside
@@ -1040,7 +1040,7 @@ ALTER OPERATOR FAMILY @extschema@.frechet_geography_ops USING gist ADD
 -- Sorted index builds (GiST support function 11), as for frechet_track_ops.
 CREATE FUNCTION @extschema@.frechet_geo_gist_sortsupport(internal)
 RETURNS pg_catalog.void
-AS 'MODULE_PATHNAME', 'frechet_gist_sortsupport'
+AS 'MODULE_PATHNAME', 'frechet_gist_sortsupport_packed'
 LANGUAGE C IMMUTABLE STRICT PARALLEL SAFE;
 
 COMMENT ON FUNCTION @extschema@.frechet_geo_gist_sortsupport(internal) IS

@@ -26,19 +26,30 @@
 
 /* GiST compress: leaf entries become the summary of their track (invalid ones: the all-covering key). */
 static Datum
-gist_compress(FunctionCallInfo fcinfo, track_type type)
+gist_compress_as(FunctionCallInfo fcinfo, track_type type, gist_key_format format)
 {
 	GISTENTRY  *entry = (GISTENTRY *) PG_GETARG_POINTER(0);
 	GISTENTRY  *out;
-	fr_key	   *key;
+	fr_key		key;
 
 	if (!entry->leafkey)
 		PG_RETURN_POINTER(entry);
-	key = palloc(sizeof(fr_key));
-	track_stored_key(track_calls(fcinfo, type), entry->key, type, key);
+	track_stored_key(track_calls(fcinfo, type), entry->key, type, &key);
 	out = palloc(sizeof(GISTENTRY));
-	gistentryinit(*out, PointerGetDatum(key), entry->rel, entry->page, entry->offset, false);
+	gistentryinit(*out, frechet_index_key_make(&key, format), entry->rel, entry->page, entry->offset, false);
 	PG_RETURN_POINTER(out);
+}
+
+static Datum
+gist_compress(FunctionCallInfo fcinfo, track_type type)
+{
+	return gist_compress_as(fcinfo, type, GIST_KEY_WIDE);
+}
+
+static Datum
+gist_compress_packed(FunctionCallInfo fcinfo, track_type type)
+{
+	return gist_compress_as(fcinfo, type, GIST_KEY_PACKED);
 }
 
 /*
@@ -48,17 +59,19 @@ gist_compress(FunctionCallInfo fcinfo, track_type type)
  * strategies go to postgis_box_consistent.
  */
 static Datum
-gist_consistent(FunctionCallInfo fcinfo, bool kind_known, frechet_key_kind kind)
+gist_consistent(FunctionCallInfo fcinfo, bool kind_known, frechet_key_kind kind, gist_key_format format)
 {
 	GISTENTRY  *entry = (GISTENTRY *) PG_GETARG_POINTER(0);
 	StrategyNumber strategy = (StrategyNumber) PG_GETARG_UINT16(2);
 	bool	   *recheck = (bool *) PG_GETARG_POINTER(4);
-	fr_key	   *key = DatumGetFrechetKey(entry->key);
+	fr_key		keybuf;
+	fr_key	   *key = &keybuf;
 	fr_key	   *query;
 
+	frechet_index_key_read(entry->key, format, &keybuf);
 	/* PostGIS's box operators, in the classes on geometry and geography */
 	if (FRECHET_IS_BOX_STRATEGY(strategy))
-		return postgis_box_consistent(fcinfo);
+		return postgis_box_consistent(fcinfo, key);
 	query = PG_GETARG_FRECHET_KEY(1);
 	if (kind_known)
 		frechet_key_check_kind(query, kind, 0);
@@ -97,7 +110,7 @@ PG_FUNCTION_INFO_V1(frechet_gist_consistent);
 Datum
 frechet_gist_consistent(PG_FUNCTION_ARGS)
 {
-	return gist_consistent(fcinfo, false, FRECHET_KEY_PLANAR);
+	return gist_consistent(fcinfo, false, FRECHET_KEY_PLANAR, GIST_KEY_WIDE);
 }
 
 PG_FUNCTION_INFO_V1(frechet_gist_consistent_planar);
@@ -105,7 +118,7 @@ PG_FUNCTION_INFO_V1(frechet_gist_consistent_planar);
 Datum
 frechet_gist_consistent_planar(PG_FUNCTION_ARGS)
 {
-	return gist_consistent(fcinfo, true, FRECHET_KEY_PLANAR);
+	return gist_consistent(fcinfo, true, FRECHET_KEY_PLANAR, GIST_KEY_WIDE);
 }
 
 PG_FUNCTION_INFO_V1(frechet_gist_consistent_earth);
@@ -113,35 +126,59 @@ PG_FUNCTION_INFO_V1(frechet_gist_consistent_earth);
 Datum
 frechet_gist_consistent_earth(PG_FUNCTION_ARGS)
 {
-	return gist_consistent(fcinfo, true, FRECHET_KEY_EARTH);
+	return gist_consistent(fcinfo, true, FRECHET_KEY_EARTH, GIST_KEY_WIDE);
 }
 
-PG_FUNCTION_INFO_V1(frechet_gist_union);
-/* The key covering a set of entries. */
+PG_FUNCTION_INFO_V1(frechet_gist_consistent_packed_planar);
+/* GiST consistent of 0.2's frechet_track_ops and frechet_geometry_ops (packed keys). */
 Datum
-frechet_gist_union(PG_FUNCTION_ARGS)
+frechet_gist_consistent_packed_planar(PG_FUNCTION_ARGS)
+{
+	return gist_consistent(fcinfo, true, FRECHET_KEY_PLANAR, GIST_KEY_PACKED);
+}
+
+PG_FUNCTION_INFO_V1(frechet_gist_consistent_packed_earth);
+/* GiST consistent of 0.2's frechet_geography_ops (packed keys). */
+Datum
+frechet_gist_consistent_packed_earth(PG_FUNCTION_ARGS)
+{
+	return gist_consistent(fcinfo, true, FRECHET_KEY_EARTH, GIST_KEY_PACKED);
+}
+
+/* The key covering a set of entries. */
+static Datum
+gist_union(FunctionCallInfo fcinfo, gist_key_format format)
 {
 	GistEntryVector *entryvec = (GistEntryVector *) PG_GETARG_POINTER(0);
 	int		   *size = (int *) PG_GETARG_POINTER(1);
-	fr_key	   *out = palloc(sizeof(fr_key));
+	fr_key		acc,
+				k;
+	Datum		out;
 
-	*out = *DatumGetFrechetKey(entryvec->vector[0].key);
+	frechet_index_key_read(entryvec->vector[0].key, format, &acc);
 	for (int i = 1; i < entryvec->n; i++)
-		fr_key_union(out, DatumGetFrechetKey(entryvec->vector[i].key));
-	*size = sizeof(fr_key);
-	PG_RETURN_POINTER(out);
+	{
+		frechet_index_key_read(entryvec->vector[i].key, format, &k);
+		fr_key_union(&acc, &k);
+	}
+	out = frechet_index_key_make(&acc, format);
+	*size = format == GIST_KEY_WIDE ? sizeof(fr_key) : VARSIZE(DatumGetPointer(out));
+	PG_RETURN_DATUM(out);
 }
 
-PG_FUNCTION_INFO_V1(frechet_gist_penalty);
 /* Cost of adding an entry under a node: growth of the node's summed interval lengths. */
-Datum
-frechet_gist_penalty(PG_FUNCTION_ARGS)
+static Datum
+gist_penalty(FunctionCallInfo fcinfo, gist_key_format format)
 {
 	GISTENTRY  *orig = (GISTENTRY *) PG_GETARG_POINTER(0);
 	GISTENTRY  *add = (GISTENTRY *) PG_GETARG_POINTER(1);
 	float	   *result = (float *) PG_GETARG_POINTER(2);
+	fr_key		ko,
+				ka;
 
-	*result = (float) fr_key_penalty(DatumGetFrechetKey(orig->key), DatumGetFrechetKey(add->key));
+	frechet_index_key_read(orig->key, format, &ko);
+	frechet_index_key_read(add->key, format, &ka);
+	*result = (float) fr_key_penalty(&ko, &ka);
 	PG_RETURN_POINTER(result);
 }
 
@@ -171,19 +208,19 @@ interval_center(const fr_key *k, int dim)
 	return isnan(c) ? get_float8_infinity() : c;
 }
 
-PG_FUNCTION_INFO_V1(frechet_gist_picksplit);
 /*
  * Splits a page: for each of the key's intervals, sort the entries by its
  * midpoint and try every cut that leaves 30-70 % on each side; keep the cut
  * whose two halves have the smallest summed margins (the margin criterion
  * of the R*-tree, Beckmann, Kriegel, Schneider & Seeger 1990).
  */
-Datum
-frechet_gist_picksplit(PG_FUNCTION_ARGS)
+static Datum
+gist_picksplit(FunctionCallInfo fcinfo, gist_key_format format)
 {
 	GistEntryVector *entryvec = (GistEntryVector *) PG_GETARG_POINTER(0);
 	GIST_SPLITVEC *v = (GIST_SPLITVEC *) PG_GETARG_POINTER(1);
 	int			n = entryvec->n - FirstOffsetNumber;
+	fr_key	   *keys = palloc(entryvec->n * sizeof(fr_key));	/* by offset */
 	split_item *items = palloc(n * sizeof(split_item));
 	split_item *best_items = palloc(n * sizeof(split_item));
 	fr_key	   *prefix = palloc(n * sizeof(fr_key));
@@ -199,24 +236,25 @@ frechet_gist_picksplit(PG_FUNCTION_ARGS)
 	{
 		best_items[i].off = i + FirstOffsetNumber;
 		best_items[i].center = 0;
+		frechet_index_key_read(entryvec->vector[i + FirstOffsetNumber].key, format, &keys[i + FirstOffsetNumber]);
 	}
 	for (int dim = 0; dim < FR_KEY_NDIM; dim++)
 	{
 		for (int i = 0; i < n; i++)
 		{
 			items[i].off = i + FirstOffsetNumber;
-			items[i].center = interval_center(DatumGetFrechetKey(entryvec->vector[items[i].off].key), dim);
+			items[i].center = interval_center(&keys[items[i].off], dim);
 		}
 		qsort(items, n, sizeof(split_item), split_item_cmp);
 		for (int i = 0; i < n; i++)
 		{
-			prefix[i] = *DatumGetFrechetKey(entryvec->vector[items[i].off].key);
+			prefix[i] = keys[items[i].off];
 			if (i > 0)
 				fr_key_union(&prefix[i], &prefix[i - 1]);
 		}
 		for (int i = n - 1; i >= 0; i--)
 		{
-			suffix[i] = *DatumGetFrechetKey(entryvec->vector[items[i].off].key);
+			suffix[i] = keys[items[i].off];
 			if (i < n - 1)
 				fr_key_union(&suffix[i], &suffix[i + 1]);
 		}
@@ -239,7 +277,7 @@ frechet_gist_picksplit(PG_FUNCTION_ARGS)
 	v->spl_nleft = v->spl_nright = 0;
 	for (int i = 0; i < n; i++)
 	{
-		const fr_key *k = DatumGetFrechetKey(entryvec->vector[best_items[i].off].key);
+		const fr_key *k = &keys[best_items[i].off];
 
 		if (i < best_cut)
 		{
@@ -258,8 +296,11 @@ frechet_gist_picksplit(PG_FUNCTION_ARGS)
 			v->spl_right[v->spl_nright++] = best_items[i].off;
 		}
 	}
-	v->spl_ldatum = PointerGetDatum(left);
-	v->spl_rdatum = PointerGetDatum(right);
+	v->spl_ldatum = frechet_index_key_make(left, format);
+	v->spl_rdatum = frechet_index_key_make(right, format);
+	pfree(left);
+	pfree(right);
+	pfree(keys);
 	pfree(items);
 	pfree(best_items);
 	pfree(prefix);
@@ -267,18 +308,34 @@ frechet_gist_picksplit(PG_FUNCTION_ARGS)
 	PG_RETURN_POINTER(v);
 }
 
-PG_FUNCTION_INFO_V1(frechet_gist_same);
 /* Are two keys the same? */
-Datum
-frechet_gist_same(PG_FUNCTION_ARGS)
+static Datum
+gist_same(FunctionCallInfo fcinfo, gist_key_format format)
 {
-	fr_key	   *a = PG_GETARG_FRECHET_KEY(0);
-	fr_key	   *b = PG_GETARG_FRECHET_KEY(1);
+	fr_key		a,
+				b;
 	bool	   *result = (bool *) PG_GETARG_POINTER(2);
 
-	*result = fr_key_equal(a, b);
+	frechet_index_key_read(PG_GETARG_DATUM(0), format, &a);
+	frechet_index_key_read(PG_GETARG_DATUM(1), format, &b);
+	*result = fr_key_equal(&a, &b);
 	PG_RETURN_POINTER(result);
 }
+
+/*
+ * union, penalty, picksplit and same in both formats: release 0.1's
+ * classes (frechet_key, the plain names) and 0.2's (frechet_summary).
+ */
+#define GIST_FUNCTION_FORMATS(name, impl) \
+PG_FUNCTION_INFO_V1(name); \
+Datum name(PG_FUNCTION_ARGS) { return impl(fcinfo, GIST_KEY_WIDE); } \
+PG_FUNCTION_INFO_V1(name##_packed); \
+Datum name##_packed(PG_FUNCTION_ARGS) { return impl(fcinfo, GIST_KEY_PACKED); }
+
+GIST_FUNCTION_FORMATS(frechet_gist_union, gist_union)
+GIST_FUNCTION_FORMATS(frechet_gist_penalty, gist_penalty)
+GIST_FUNCTION_FORMATS(frechet_gist_picksplit, gist_picksplit)
+GIST_FUNCTION_FORMATS(frechet_gist_same, gist_same)
 
 /*
  * The query route of a k-nearest scan, decoded once: its summary and the
@@ -338,22 +395,24 @@ route_cache_get(FunctionCallInfo fcinfo, Datum query, track_type type)
  * executor rechecks leaves with the exact distance and reorders.
  */
 static Datum
-gist_distance(FunctionCallInfo fcinfo, track_type type)
+gist_distance_as(FunctionCallInfo fcinfo, track_type type, gist_key_format format)
 {
 	GISTENTRY  *entry = (GISTENTRY *) PG_GETARG_POINTER(0);
 	StrategyNumber strategy = (StrategyNumber) PG_GETARG_UINT16(2);
 	bool	   *recheck = (bool *) PG_GETARG_POINTER(4);
 	route_cache *rc;
 	double		d;
+	fr_key		key;
 
 	if (strategy != FRECHET_STRATEGY_DISTANCE && strategy != FRECHET_STRATEGY_PASSAGE_DISTANCE)
 		elog(ERROR, "Fréchet operator classes: unknown ordering strategy number %d", strategy);
 	rc = route_cache_get(fcinfo, PG_GETARG_DATUM(1), type);
 	*recheck = true;
+	frechet_index_key_read(entry->key, format, &key);
 	if (strategy == FRECHET_STRATEGY_PASSAGE_DISTANCE)
-		d = fr_key_passage_hull_bound(DatumGetFrechetKey(entry->key), &rc->key, rc->hull, rc->nhull);
+		d = fr_key_passage_hull_bound(&key, &rc->key, rc->hull, rc->nhull);
 	else
-		d = fr_key_hull_bound(DatumGetFrechetKey(entry->key), &rc->key, rc->hull, rc->nhull);
+		d = fr_key_hull_bound(&key, &rc->key, rc->hull, rc->nhull);
 	/* metres grow with the chord, so a lower bound of the chord gives one of the metres */
 	PG_RETURN_FLOAT8(track_out_distance(type, d));
 }
@@ -366,6 +425,18 @@ frechet_gist_compress(PG_FUNCTION_ARGS)
 	return gist_compress(fcinfo, TRACK_POINTS);
 }
 
+static Datum
+gist_distance(FunctionCallInfo fcinfo, track_type type)
+{
+	return gist_distance_as(fcinfo, type, GIST_KEY_WIDE);
+}
+
+static Datum
+gist_distance_packed(FunctionCallInfo fcinfo, track_type type)
+{
+	return gist_distance_as(fcinfo, type, GIST_KEY_PACKED);
+}
+
 PG_FUNCTION_INFO_V1(frechet_gist_distance);
 Datum
 frechet_gist_distance(PG_FUNCTION_ARGS)
@@ -373,8 +444,11 @@ frechet_gist_distance(PG_FUNCTION_ARGS)
 	return gist_distance(fcinfo, TRACK_POINTS);
 }
 
+/* 0.2's classes store packed keys: frechet_gist_compress_packed_point_array and so on. */
 TRACK_FUNCTIONS_POSTGIS(frechet_gist_compress, gist_compress)
 TRACK_FUNCTIONS_POSTGIS(frechet_gist_distance, gist_distance)
+TRACK_FUNCTIONS(frechet_gist_compress_packed, gist_compress_packed)
+TRACK_FUNCTIONS(frechet_gist_distance_packed, gist_distance_packed)
 
 /*
  * Sorted builds (GiST's support function 11, PostgreSQL 14+): CREATE INDEX
@@ -432,11 +506,16 @@ hilbert_index(uint32 x, uint32 y)
 
 /* The place of a key on the curve: the centre of its box. */
 static uint64
-key_curve_place(Datum d)
+key_curve_place(Datum d, SortSupport ssup)
 {
-	const fr_key *k = DatumGetFrechetKey(d);
-	double		cx = k->lo[FR_KEY_MIN_X] / 2 + k->hi[FR_KEY_MAX_X] / 2,
-				cy = k->lo[FR_KEY_MIN_Y] / 2 + k->hi[FR_KEY_MAX_Y] / 2;
+	fr_key		key;
+	const fr_key *k = &key;
+	double		cx,
+				cy;
+
+	frechet_index_key_read(d, ssup->ssup_extra == NULL ? GIST_KEY_WIDE : GIST_KEY_PACKED, &key);
+	cx = k->lo[FR_KEY_MIN_X] / 2 + k->hi[FR_KEY_MAX_X] / 2;
+	cy = k->lo[FR_KEY_MIN_Y] / 2 + k->hi[FR_KEY_MAX_Y] / 2;
 
 	return hilbert_index(float_order_bits(cx), float_order_bits(cy));
 }
@@ -451,7 +530,7 @@ curve_cmp(uint64 a, uint64 b)
 static int
 key_cmp_full(Datum a, Datum b, SortSupport ssup)
 {
-	return curve_cmp(key_curve_place(a), key_curve_place(b));
+	return curve_cmp(key_curve_place(a, ssup), key_curve_place(b, ssup));
 }
 
 static int
@@ -463,7 +542,7 @@ key_cmp_abbrev(Datum a, Datum b, SortSupport ssup)
 static Datum
 key_abbrev_convert(Datum d, SortSupport ssup)
 {
-	return UInt64GetDatum(key_curve_place(d));
+	return UInt64GetDatum(key_curve_place(d, ssup));
 }
 
 /* The abbreviation is the whole sort key: never worth abandoning. */
@@ -473,13 +552,14 @@ key_abbrev_abort(int memtupcount, SortSupport ssup)
 	return false;
 }
 
-PG_FUNCTION_INFO_V1(frechet_gist_sortsupport);
-/* GiST support function 11 of the three classes. */
-Datum
-frechet_gist_sortsupport(PG_FUNCTION_ARGS)
+/* GiST support function 11 of the three classes; ssup_extra non-NULL for packed keys. */
+static Datum
+gist_sortsupport(FunctionCallInfo fcinfo, gist_key_format format)
 {
 	SortSupport ssup = (SortSupport) PG_GETARG_POINTER(0);
+	static const int packed_mark = 1;
 
+	ssup->ssup_extra = format == GIST_KEY_PACKED ? (void *) &packed_mark : NULL;
 	/* the abbreviation is 64 bits: only where a Datum holds them */
 	if (ssup->abbreviate && SIZEOF_DATUM >= 8)
 	{
@@ -492,3 +572,5 @@ frechet_gist_sortsupport(PG_FUNCTION_ARGS)
 		ssup->comparator = key_cmp_full;
 	PG_RETURN_VOID();
 }
+
+GIST_FUNCTION_FORMATS(frechet_gist_sortsupport, gist_sortsupport)

@@ -46,6 +46,24 @@
 	((s) == RTOverlapStrategyNumber || (s) == RTSameStrategyNumber || \
 	 (s) == RTContainsStrategyNumber || (s) == RTContainedByStrategyNumber)
 
+/*
+ * How an index stores its keys: release 0.1's classes store fr_key as it
+ * is (frechet_key, 136 bytes); 0.2's store it packed (frechet_summary,
+ * fr_key_pack: 32 bytes for a track).  Each support function exists once
+ * for each format, as the index's class says.
+ */
+typedef enum gist_key_format
+{
+	GIST_KEY_WIDE,
+	GIST_KEY_PACKED
+} gist_key_format;
+
+/* The key an index entry holds, in the index's format (key.c). */
+void		frechet_index_key_read(Datum d, gist_key_format format, fr_key *out);
+
+/* An index entry's datum for a key, in the index's format (palloc'd). */
+Datum		frechet_index_key_make(const fr_key *key, gist_key_format format);
+
 /* frechet_key values are fr_key structs stored as they are (fixed length, by reference). */
 #define DatumGetFrechetKey(d) ((fr_key *) DatumGetPointer(d))
 #define PG_GETARG_FRECHET_KEY(n) DatumGetFrechetKey(PG_GETARG_DATUM(n))

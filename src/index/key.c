@@ -122,12 +122,10 @@ frechet_key_in(PG_FUNCTION_ARGS)
 	PG_RETURN_POINTER(key);
 }
 
-PG_FUNCTION_INFO_V1(frechet_key_out);
-/* frechet_key text output. */
-Datum
-frechet_key_out(PG_FUNCTION_ARGS)
+/* The text form of a key. */
+static char *
+key_text(const fr_key *key)
 {
-	fr_key	   *key = PG_GETARG_FRECHET_KEY(0);
 	StringInfoData buf;
 
 	initStringInfo(&buf);
@@ -143,7 +141,85 @@ frechet_key_out(PG_FUNCTION_ARGS)
 	appendStringInfo(&buf, " reach=%s", float8out_internal(frechet_key_reach(key)));
 	if (frechet_key_kind_of(key) == FRECHET_KEY_EARTH)
 		appendStringInfoString(&buf, " earth");
-	PG_RETURN_CSTRING(buf.data);
+	return buf.data;
+}
+
+PG_FUNCTION_INFO_V1(frechet_key_out);
+/* frechet_key text output. */
+Datum
+frechet_key_out(PG_FUNCTION_ARGS)
+{
+	PG_RETURN_CSTRING(key_text(PG_GETARG_FRECHET_KEY(0)));
+}
+
+/*
+ * frechet_summary: the packed key our operator classes store since 0.2
+ * (fr_key_pack: 8 float4 for a track, 16 for a node's ranges), a varlena.
+ * Its text form is frechet_key's, of the key it unpacks to (reach 0);
+ * reading one packs the key read.
+ */
+void
+frechet_index_key_read(Datum d, gist_key_format format, fr_key *out)
+{
+	struct varlena *v;
+	float		buf[FR_KEY_PACKED_RANGE];
+	size_t		len;
+
+	if (format == GIST_KEY_WIDE)
+	{
+		*out = *DatumGetFrechetKey(d);
+		return;
+	}
+	v = PG_DETOAST_DATUM_PACKED(d);
+	len = VARSIZE_ANY_EXHDR(v);
+	if (len % sizeof(float) != 0 || len > sizeof(buf))
+		elog(ERROR, "frechet_summary of %zu bytes", len);
+	/* an index's short varlena header leaves the floats unaligned: copy them */
+	memcpy(buf, VARDATA_ANY(v), len);
+	if (!fr_key_unpack(buf, len / sizeof(float), out))
+		elog(ERROR, "frechet_summary of %zu bytes", len);
+}
+
+Datum
+frechet_index_key_make(const fr_key *key, gist_key_format format)
+{
+	float		buf[FR_KEY_PACKED_RANGE];
+	size_t		n;
+	struct varlena *v;
+
+	if (format == GIST_KEY_WIDE)
+	{
+		fr_key	   *copy = palloc(sizeof(fr_key));
+
+		*copy = *key;
+		return PointerGetDatum(copy);
+	}
+	n = fr_key_pack(key, buf);
+	v = palloc(VARHDRSZ + n * sizeof(float));
+	SET_VARSIZE(v, VARHDRSZ + n * sizeof(float));
+	memcpy(VARDATA(v), buf, n * sizeof(float));
+	return PointerGetDatum(v);
+}
+
+PG_FUNCTION_INFO_V1(frechet_summary_in);
+/* frechet_summary text input: a frechet_key's text, packed. */
+Datum
+frechet_summary_in(PG_FUNCTION_ARGS)
+{
+	Datum		key = DirectFunctionCall1(frechet_key_in, PG_GETARG_DATUM(0));
+
+	PG_RETURN_DATUM(frechet_index_key_make(DatumGetFrechetKey(key), GIST_KEY_PACKED));
+}
+
+PG_FUNCTION_INFO_V1(frechet_summary_out);
+/* frechet_summary text output: the key it unpacks to. */
+Datum
+frechet_summary_out(PG_FUNCTION_ARGS)
+{
+	fr_key		key;
+
+	frechet_index_key_read(PG_GETARG_DATUM(0), GIST_KEY_PACKED, &key);
+	PG_RETURN_CSTRING(key_text(&key));
 }
 
 /* Raises 22023 when a reach key and a curve are of different kinds of coordinates. */

@@ -162,8 +162,8 @@ key_covers_everything(const fr_key *key)
 
 /* Reads one page: admitted leaf entries into w, admitted children appended to next. */
 static void
-probe_read_page(Relation irel, probe_page pg, const fr_key *query, StrategyNumber strategy,
-				probe_walk *w, probe_page **next, int *nnext, int *maxnext)
+probe_read_page(Relation irel, gist_key_format format, probe_page pg, const fr_key *query,
+				StrategyNumber strategy, probe_walk *w, probe_page **next, int *nnext, int *maxnext)
 {
 	TupleDesc	td = RelationGetDescr(irel);
 	Buffer		buf = ReadBuffer(irel, pg.blkno);
@@ -196,7 +196,7 @@ probe_read_page(Relation irel, probe_page pg, const fr_key *query, StrategyNumbe
 		d = index_getattr(itup, 1, td, &isnull);
 		if (isnull)
 			continue;
-		memcpy(&key, DatumGetPointer(d), sizeof(fr_key));
+		frechet_index_key_read(d, format, &key);
 		if (!frechet_key_admits(&key, query, strategy))
 			continue;
 		if (!leaf)
@@ -230,7 +230,8 @@ probe_read_page(Relation irel, probe_page pg, const fr_key *query, StrategyNumbe
 
 /* Walks the index level by level within PROBE_PAGES pages. */
 static void
-probe_walk_index(Relation irel, const fr_key *query, StrategyNumber strategy, probe_walk *w)
+probe_walk_index(Relation irel, gist_key_format format, const fr_key *query, StrategyNumber strategy,
+				 probe_walk *w)
 {
 	int			maxcur = 64,
 				maxnext = 64,
@@ -253,7 +254,7 @@ probe_walk_index(Relation irel, const fr_key *query, StrategyNumber strategy, pr
 		for (int i = 0; i < ncur; i++)
 		{
 			CHECK_FOR_INTERRUPTS();
-			probe_read_page(irel, cur[i], query, strategy, w, &next, &nnext, &maxnext);
+			probe_read_page(irel, format, cur[i], query, strategy, w, &next, &nnext, &maxnext);
 			pages++;
 		}
 		/* the next level: all of it, or an evenly spaced subset carrying the others' weight */
@@ -458,15 +459,20 @@ our_index_for_operator(RelOptInfo *rel, Var *var, Oid opno, StrategyNumber *stra
 	return InvalidOid;
 }
 
-/* Walks an index (our fixed-length key only) for the entries a query key admits; false if it cannot. */
+/*
+ * Walks an index for the entries a query key admits; false if its keys
+ * are of neither of our formats (frechet_key of 0.1's classes, or the
+ * packed frechet_summary).
+ */
 static bool
 probe_index(Oid indexoid, const fr_key *query, StrategyNumber strategy, probe_walk *w)
 {
 	Relation	irel = index_open(indexoid, AccessShareLock);
-	bool		ours = TupleDescAttr(RelationGetDescr(irel), 0)->attlen == sizeof(fr_key);
+	int			attlen = TupleDescAttr(RelationGetDescr(irel), 0)->attlen;
+	bool		ours = attlen == sizeof(fr_key) || attlen == -1;
 
 	if (ours)
-		probe_walk_index(irel, query, strategy, w);
+		probe_walk_index(irel, attlen == -1 ? GIST_KEY_PACKED : GIST_KEY_WIDE, query, strategy, w);
 	index_close(irel, AccessShareLock);
 	return ours;
 }

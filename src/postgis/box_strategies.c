@@ -322,7 +322,7 @@ loose_contains(const plane_box *a, const plane_box *b)
  * and for geography, whose entry boxes are enlarged, they overlap.
  */
 Datum
-postgis_box_consistent(FunctionCallInfo fcinfo)
+postgis_box_consistent(FunctionCallInfo fcinfo, const fr_key *key)
 {
 	GISTENTRY  *entry = (GISTENTRY *) PG_GETARG_POINTER(0);
 	StrategyNumber strategy = (StrategyNumber) PG_GETARG_UINT16(2);
@@ -332,7 +332,7 @@ postgis_box_consistent(FunctionCallInfo fcinfo)
 	plane_box	node;
 
 	*recheck = true;
-	if (!bq->known || !entry_box((const fr_key *) DatumGetPointer(entry->key), bq->geodetic, &node))
+	if (!bq->known || !entry_box(key, bq->geodetic, &node))
 		PG_RETURN_BOOL(true);
 	switch (strategy)
 	{

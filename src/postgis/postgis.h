@@ -63,7 +63,8 @@ Datum		postgis_from_ewkb(FunctionCallInfo fcinfo, bytea *ewkb, bool geography);
  * operator classes.  GiST consistent for PostGIS's box operators, and the
  * index condition of frechet_at_most on an index of PostGIS's own class.
  */
-Datum		postgis_box_consistent(FunctionCallInfo fcinfo);
+struct fr_key;
+Datum		postgis_box_consistent(FunctionCallInfo fcinfo, const struct fr_key *key);
 List	   *postgis_box_index_condition(SupportRequestIndexCondition *req, Node *key,
 										Node *other, Node *eps);
 

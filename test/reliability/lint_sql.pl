@@ -77,8 +77,9 @@ my %BODY_GRAMMAR = map { $_ => 1 }
   cast extract overlay position substring trim filter over within select from
   where and or not on using returns table lateral);
 
-# Option values written as bare words: ALIGNMENT = double, STORAGE = plain.
-my %WORD_VALUED_OPTION = map { $_ => 1 } qw(alignment storage category preferred
+# Option values written as bare words: ALIGNMENT = double, STORAGE = plain,
+# INTERNALLENGTH = VARIABLE.
+my %WORD_VALUED_OPTION = map { $_ => 1 } qw(alignment storage category preferred internallength
   collatable passedbyvalue delimiter);
 
 my @findings;

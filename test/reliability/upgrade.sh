@@ -107,22 +107,45 @@ if rpsql -d "$DB" -c "SELECT 1 FROM pg_available_extension_versions WHERE name =
 			FROM generate_series(1, 5000) i" \
 		-c "CREATE INDEX u_tr ON u USING gist (tr)" -c "CREATE INDEX u_g ON u USING gist (g frechet_geometry_ops)" \
 		-c "CREATE INDEX u_gg ON u USING gist (gg frechet_geography_ops)" \
+		-c "COMMENT ON INDEX u_tr IS 'trips by shape'" \
+		-c "SET enable_seqscan = off" \
+		-c "CREATE TEMP TABLE before_update AS SELECT array_agg(i ORDER BY i) AS ids FROM u WHERE frechet_at_most(tr, '{\"(10,10)\",\"(13,14)\"}', 2)" \
+		-c "RESET enable_seqscan" \
 		-c "ALTER EXTENSION frechet_ext UPDATE" -c "ALTER EXTENSION frechet_ext_postgis UPDATE" \
+		-c "CREATE TEMP TABLE after_update AS SELECT
+			(SELECT ids FROM before_update) IS NOT DISTINCT FROM (SELECT array_agg(i ORDER BY i) FROM u WHERE frechet_at_most(tr, '{\"(10,10)\",\"(13,14)\"}', 2)) AS same_answer" \
 		-c "CREATE TEMP TABLE q AS SELECT 'tr' AS what, array_agg(i ORDER BY i) AS ids FROM u WHERE frechet_at_most(tr, '{\"(10,10)\",\"(13,14)\"}', 2)
 			UNION ALL SELECT 'g', array_agg(i ORDER BY i) FROM u WHERE frechet_at_most(g, 'LINESTRING(10 10, 13 14)'::geometry, 2)
 			UNION ALL SELECT 'knn', array_agg(i) FROM (SELECT i FROM u ORDER BY g <~~> 'LINESTRING(10 10, 13 14)'::geometry, i LIMIT 5) k
 			UNION ALL SELECT 'gg', array_agg(i ORDER BY i) FROM u WHERE frechet_at_most(gg, 'LINESTRING(0.1 50.1, 1.0 50.3)'::geography, 300)" \
+		-c "SELECT 'before update: ' || same_answer FROM after_update" \
 		-c "SET enable_indexscan = off" -c "SET enable_bitmapscan = off" \
 		-c "SELECT count(*) FILTER (WHERE q.ids = s.ids) || ' of ' || count(*) FROM q JOIN (
 			SELECT 'tr' AS what, array_agg(i ORDER BY i) AS ids FROM u WHERE frechet_at_most(tr, '{\"(10,10)\",\"(13,14)\"}', 2)
 			UNION ALL SELECT 'g', array_agg(i ORDER BY i) FROM u WHERE frechet_at_most(g, 'LINESTRING(10 10, 13 14)'::geometry, 2)
 			UNION ALL SELECT 'knn', array_agg(i) FROM (SELECT i FROM u ORDER BY frechet_distance(g, 'LINESTRING(10 10, 13 14)'::geometry), i LIMIT 5) k
 			UNION ALL SELECT 'gg', array_agg(i ORDER BY i) FROM u WHERE frechet_at_most(gg, 'LINESTRING(0.1 50.1, 1.0 50.3)'::geography, 300)) s USING (what)
-			WHERE cardinality(q.ids) > 0" 2>&1 | tail -1)
+			WHERE cardinality(q.ids) > 0" 2>&1)
+	before=$(echo "$got" | grep '^before update: ')
+	got=$(echo "$got" | tail -1)
+	if [ "$before" = "before update: true" ]; then
+		tap 0 "upgrade: with the new library and 0.1's scripts (before ALTER EXTENSION UPDATE) a 0.1 index answers as after the update"
+	else
+		tap 1 "upgrade: a 0.1 index before the update, with the new library: ${before:-no answer}"
+	fi
 	if [ "$got" = "4 of 4" ]; then
 		tap 0 "upgrade: indexes built under 0.1 (point[], geometry, geography: rebuilt by the update) give a sequential scan's answers after the update"
 	else
 		tap 1 "upgrade: indexes built under 0.1 after the update: $got of the queries equal a sequential scan"
+	fi
+	# The indexes themselves: built again with frechet_summary keys, their names and comment kept.
+	keys=$(rpsql -d "$DB" -c "SELECT string_agg(c.relname || ' ' || a.atttypid::regtype::text || coalesce(' (' || obj_description(c.oid, 'pg_class') || ')', ''), ', ' ORDER BY c.relname)
+		FROM pg_class c JOIN pg_attribute a ON a.attrelid = c.oid AND a.attnum = 1 WHERE c.relname IN ('u_tr', 'u_g', 'u_gg')" 2>&1)
+	want="u_g frechet_summary, u_gg frechet_summary, u_tr frechet_summary (trips by shape)"
+	if [ "$keys" = "$want" ]; then
+		tap 0 "upgrade: the update builds the three indexes again with packed keys, names and comment kept ($keys)"
+	else
+		tap 1 "upgrade: after the update the indexes are: $keys (want: $want)"
 	fi
 fi
 
