@@ -14,6 +14,8 @@
 
 #include <math.h>
 
+#include "port/pg_bswap.h"
+
 #include "glue.h"
 #include "ewkb.h"
 
@@ -87,12 +89,18 @@ read_u32(wkb_reader *r, const char *what)
 static double
 read_f64_unchecked(wkb_reader *r)
 {
-	const uint8 *p = r->buf + r->pos;
-	uint64		u = 0;
+	uint64		u;
 	double		d;
 
-	for (int i = 0; i < 8; i++)
-		u = (u << 8) | p[r->big_endian ? i : 7 - i];
+	/* the eight bytes at once, swapped when the value's byte order is not the machine's */
+	memcpy(&u, r->buf + r->pos, sizeof(u));
+#ifdef WORDS_BIGENDIAN
+	if (!r->big_endian)
+		u = pg_bswap64(u);
+#else
+	if (r->big_endian)
+		u = pg_bswap64(u);
+#endif
 	r->pos += 8;
 	memcpy(&d, &u, sizeof(d));
 	return d;
