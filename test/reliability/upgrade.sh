@@ -108,6 +108,13 @@ if rpsql -d "$DB" -c "SELECT 1 FROM pg_available_extension_versions WHERE name =
 		-c "CREATE INDEX u_tr ON u USING gist (tr)" -c "CREATE INDEX u_g ON u USING gist (g frechet_geometry_ops)" \
 		-c "CREATE INDEX u_gg ON u USING gist (gg frechet_geography_ops)" \
 		-c "COMMENT ON INDEX u_tr IS 'trips by shape'" \
+		-c "CREATE SCHEMA \"Up Schema\"" \
+		-c "CREATE TABLE \"Up Schema\".pt (i int, d int, tr point[]) PARTITION BY RANGE (d)" \
+		-c "CREATE TABLE \"Up Schema\".pt1 PARTITION OF \"Up Schema\".pt FOR VALUES FROM (0) TO (10)" \
+		-c "CREATE TABLE \"Up Schema\".pt2 PARTITION OF \"Up Schema\".pt FOR VALUES FROM (10) TO (20)" \
+		-c "INSERT INTO \"Up Schema\".pt SELECT i, i % 20, tr FROM u" \
+		-c "CREATE INDEX \"Trip Shapes\" ON \"Up Schema\".pt USING gist (tr)" \
+		-c "CREATE INDEX u_tr_late ON u USING gist (tr) WHERE i > 2500" \
 		-c "SET enable_seqscan = off" \
 		-c "CREATE TEMP TABLE before_update AS SELECT array_agg(i ORDER BY i) AS ids FROM u WHERE frechet_at_most(tr, '{\"(10,10)\",\"(13,14)\"}', 2)" \
 		-c "RESET enable_seqscan" \
@@ -139,11 +146,12 @@ if rpsql -d "$DB" -c "SELECT 1 FROM pg_available_extension_versions WHERE name =
 		tap 1 "upgrade: indexes built under 0.1 after the update: $got of the queries equal a sequential scan"
 	fi
 	# The indexes themselves: built again with frechet_summary keys, their names and comment kept.
-	keys=$(rpsql -d "$DB" -c "SELECT string_agg(c.relname || ' ' || a.atttypid::regtype::text || coalesce(' (' || obj_description(c.oid, 'pg_class') || ')', ''), ', ' ORDER BY c.relname)
-		FROM pg_class c JOIN pg_attribute a ON a.attrelid = c.oid AND a.attnum = 1 WHERE c.relname IN ('u_tr', 'u_g', 'u_gg')" 2>&1)
-	want="u_g frechet_summary, u_gg frechet_summary, u_tr frechet_summary (trips by shape)"
+	keys=$(rpsql -d "$DB" -c "SELECT string_agg(c.relname || ' ' || a.atttypid::regtype::text || coalesce(' (' || obj_description(c.oid, 'pg_class') || ')', ''), ', ' ORDER BY c.relname COLLATE \"C\")
+		FROM pg_class c JOIN pg_attribute a ON a.attrelid = c.oid AND a.attnum = 1
+		WHERE c.relname IN ('u_tr', 'u_g', 'u_gg', 'u_tr_late', 'Trip Shapes', 'pt1_tr_idx', 'pt2_tr_idx')" 2>&1)
+	want="Trip Shapes frechet_summary, pt1_tr_idx frechet_summary, pt2_tr_idx frechet_summary, u_g frechet_summary, u_gg frechet_summary, u_tr frechet_summary (trips by shape), u_tr_late frechet_summary"
 	if [ "$keys" = "$want" ]; then
-		tap 0 "upgrade: the update builds the three indexes again with packed keys, names and comment kept ($keys)"
+		tap 0 "upgrade: the update builds the indexes again with packed keys (point[], geometry, geography, partial, partitioned in a quoted schema), names and comment kept"
 	else
 		tap 1 "upgrade: after the update the indexes are: $keys (want: $want)"
 	fi
