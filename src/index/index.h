@@ -163,6 +163,13 @@ Oid			frechet_reach_function(Oid funcid, Oid routetype);
  * other arguments, from the index and a sample of the rows it admits;
  * false when it cannot tell (PostgreSQL's default then applies).
  */
+/*
+ * The plain column (a Var of a base relation of this query level, under
+ * any RelabelType) that node is, or NULL (selectivity.c).
+ */
+struct PlannerInfo;
+struct Var *frechet_plain_column(struct PlannerInfo *root, Node *node);
+
 struct SupportRequestSelectivity;
 bool		frechet_estimate_selectivity(struct SupportRequestSelectivity *req, int min_args, int max_args,
 										 int indexable, StrategyNumber strategy);

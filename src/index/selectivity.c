@@ -89,9 +89,8 @@ typedef struct probe_walk
 	int			maxmatches;
 } probe_walk;
 
-/* The plain column (Var of a base relation of this query level) under node, or NULL. */
-static Var *
-clause_column(PlannerInfo *root, Node *node)
+Var *
+frechet_plain_column(PlannerInfo *root, Node *node)
 {
 	Var		   *var;
 
@@ -105,29 +104,6 @@ clause_column(PlannerInfo *root, Node *node)
 		root->simple_rel_array[var->varno]->reloptkind == RELOPT_JOINREL)
 		return NULL;
 	return var;
-}
-
-/*
- * An index of our classes on the column (one whose family holds the
- * strategy's operator for the column's type and frechet_key), not partial
- * and with our fixed-length key; InvalidOid when there is none.
- */
-static Oid
-our_index_on(RelOptInfo *rel, Var *var, Oid keytype, StrategyNumber strategy)
-{
-	ListCell   *lc;
-
-	foreach(lc, rel->indexlist)
-	{
-		IndexOptInfo *index = (IndexOptInfo *) lfirst(lc);
-
-		if (index->relam != GIST_AM_OID || index->indexkeys[0] != var->varattno ||
-			index->indpred != NIL)
-			continue;
-		if (OidIsValid(get_opfamily_member(index->opfamily[0], var->vartype, keytype, strategy)))
-			return index->indexoid;
-	}
-	return InvalidOid;
 }
 
 /*
@@ -432,29 +408,34 @@ probe_check_rows(PlannerInfo *root, SupportRequestSelectivity *req, Var *var, in
 }
 
 /*
- * An index of our classes on the column whose family holds operator opno
- * under a range strategy (*strategy), not partial and with our
- * fixed-length key; InvalidOid when there is none.
+ * An index of our classes on the column, not partial: one whose family
+ * holds operator opno under a range strategy (*strategy is set), or, with
+ * no opno, holds *strategy's operator for the column's type and keytype.
+ * InvalidOid when there is none.
  */
 static Oid
-our_index_for_operator(RelOptInfo *rel, Var *var, Oid opno, StrategyNumber *strategy)
+our_index(RelOptInfo *rel, Var *var, Oid opno, Oid keytype, StrategyNumber *strategy)
 {
 	ListCell   *lc;
 
 	foreach(lc, rel->indexlist)
 	{
 		IndexOptInfo *index = (IndexOptInfo *) lfirst(lc);
-		int			s;
 
 		if (index->relam != GIST_AM_OID || index->indexkeys[0] != var->varattno ||
 			index->indpred != NIL)
 			continue;
-		s = get_op_opfamily_strategy(opno, index->opfamily[0]);
-		if (s == FRECHET_STRATEGY_REACH || s == FRECHET_STRATEGY_PINGS || s == FRECHET_STRATEGY_PASSES)
+		if (OidIsValid(opno))
 		{
+			int			s = get_op_opfamily_strategy(opno, index->opfamily[0]);
+
+			if (s != FRECHET_STRATEGY_REACH && s != FRECHET_STRATEGY_PINGS && s != FRECHET_STRATEGY_PASSES)
+				continue;
 			*strategy = s;
 			return index->indexoid;
 		}
+		if (OidIsValid(get_opfamily_member(index->opfamily[0], var->vartype, keytype, *strategy)))
+			return index->indexoid;
 	}
 	return InvalidOid;
 }
@@ -505,12 +486,12 @@ frechet_key_restrict(PG_FUNCTION_ARGS)
 
 	if (list_length(args) != 2)
 		PG_RETURN_FLOAT8(DEFAULT_REACH_SELECTIVITY);
-	var = clause_column(root, linitial(args));
+	var = frechet_plain_column(root, linitial(args));
 	other = lsecond(args);
 	if (var == NULL)
 	{
 		/* frechet_key OP track: the commutator is the family's member */
-		var = clause_column(root, lsecond(args));
+		var = frechet_plain_column(root, lsecond(args));
 		other = linitial(args);
 		opno = get_commutator(opno);
 	}
@@ -523,7 +504,7 @@ frechet_key_restrict(PG_FUNCTION_ARGS)
 	if (((Const *) other)->constisnull)
 		PG_RETURN_FLOAT8(0.0);
 	rel = find_base_rel(root, var->varno);
-	indexoid = our_index_for_operator(rel, var, opno, &strategy);
+	indexoid = our_index(rel, var, opno, InvalidOid, &strategy);
 	if (rel->tuples <= 0 || !OidIsValid(indexoid))
 		PG_RETURN_FLOAT8(DEFAULT_REACH_SELECTIVITY);
 	memcpy(&query, DatumGetPointer(((Const *) other)->constvalue), sizeof(fr_key));
@@ -560,7 +541,7 @@ frechet_estimate_selectivity(SupportRequestSelectivity *req, int min_args, int m
 	for (int a = 0; a < nargs; a++)
 	{
 		Node	   *arg = (Node *) list_nth(req->args, a);
-		Var		   *v = (a < 2 && (indexable & (1 << a))) ? clause_column(root, arg) : NULL;
+		Var		   *v = (a < 2 && (indexable & (1 << a))) ? frechet_plain_column(root, arg) : NULL;
 
 		if (v != NULL && var == NULL)
 		{
@@ -588,7 +569,7 @@ frechet_estimate_selectivity(SupportRequestSelectivity *req, int min_args, int m
 	reachfn = frechet_reach_function(req->funcid, args[1 - colarg]->consttype);
 	if (!OidIsValid(reachfn))
 		return false;
-	indexoid = our_index_on(rel, var, get_func_rettype(reachfn), strategy);
+	indexoid = our_index(rel, var, InvalidOid, get_func_rettype(reachfn), &strategy);
 	if (!OidIsValid(indexoid))
 		return false;
 	reach = OidFunctionCall2(reachfn, args[1 - colarg]->constvalue, args[2]->constvalue);

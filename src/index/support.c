@@ -42,13 +42,6 @@
 #include "index.h"
 #include "postgis.h"
 
-/*
- * "indexed OP frechet_reach(route, eps)", with OP the operator of the
- * index's operator family under strategy for (indexed's type,
- * frechet_key); NIL when there is none (an index of another class).
- * frechet_reach for the route's type is looked up in the schema of the
- * function being planned, never by search_path.
- */
 Oid
 frechet_reach_function(Oid funcid, Oid routetype)
 {
@@ -59,6 +52,13 @@ frechet_reach_function(Oid funcid, Oid routetype)
 						  2, argtypes, true);
 }
 
+/*
+ * "indexed OP frechet_reach(route, eps)", with OP the operator of the
+ * index's operator family under strategy for (indexed's type,
+ * frechet_key); NIL when there is none (an index of another class).
+ * frechet_reach for the route's type is looked up in the schema of the
+ * function being planned, never by search_path.
+ */
 static List *
 reach_condition(SupportRequestIndexCondition *req, Node *indexed, Node *route, Node *eps,
 				StrategyNumber strategy)
@@ -224,21 +224,15 @@ toast_bytes_per_row(Oid relid, double rows)
 static double
 column_width(PlannerInfo *root, Node *arg)
 {
-	Var		   *var;
+	Var		   *var = root != NULL ? frechet_plain_column(root, arg) : NULL;
 	RangeTblEntry *rte;
 	RelOptInfo *rel;
 
-	while (arg != NULL && IsA(arg, RelabelType))
-		arg = (Node *) ((RelabelType *) arg)->arg;
-	if (root == NULL || arg == NULL || !IsA(arg, Var))
-		return 0;
-	var = (Var *) arg;
-	if (var->varlevelsup != 0 || var->varattno <= 0 || var->varno <= 0 ||
-		var->varno >= root->simple_rel_array_size)
+	if (var == NULL)
 		return 0;
 	rte = root->simple_rte_array[var->varno];
 	rel = root->simple_rel_array[var->varno];
-	if (rte == NULL || rte->rtekind != RTE_RELATION || rel == NULL)
+	if (rte == NULL || rte->rtekind != RTE_RELATION)
 		return 0;
 	return Max(0, get_attavgwidth(rte->relid, var->varattno)) + toast_bytes_per_row(rte->relid, rel->tuples);
 }
